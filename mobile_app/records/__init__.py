@@ -1,0 +1,73 @@
+"""Job records on the device: the local store (sqlite-utils), never importing Flet.
+
+Public surface (see `/work/notes/store-api.md`; additions are marked *added*):
+
+    from mobile_app.records import Store
+    store = Store.open(data_dir)        # None -> platformdirs user data dir; WAL, FKs,
+                                        # integrity check, migrations (backup first);
+                                        # a bad file is moved aside
+    store.recovered                     # *added*: MovedAside(original, moved_to, reason) or None
+    store.backup_path                   # *added*: copy taken before the last migration, or None
+    store.path, store.db, store.close()
+
+    people:   add_person(name, role, pin=None) -> id ; set_pin(person_id, pin) *added* ; people()
+    jobs:     create_job(fields, by=None) -> id ; list_jobs(search="") ; get_job(id)
+              set_job_field(job_id, name, raw, by=None, expected_version=None) -> dict
+    boards:   add_board(job_id, designation, location="", supplied_from="", by=None) -> id
+              boards(job_id)
+              set_board_field(board_id, name, raw, by=None, expected_version=None) -> dict
+              BOARD_FIELDS *added* system and ze: blank = the job's supply (a TT outbuilding board
+              has its own)
+    circuits: add_circuit(board_id, number, description="", by=None) -> id ; circuits(board_id)
+              get_circuit(id)
+              set_circuit_field(circuit_id, name, raw, by=None, expected_version=None)
+              calc_input(circuit_id) -> dict ; get_circuit()["assessment_error"] *added*: why calc
+              could not assess (verdict "incomplete"), or None
+    library:  add_library_device(name, points, rating_a=None) -> id ; library_devices()
+    review:   submit_for_review(job_id, by) ; approve(job_id, supervisor_id, pin)
+              return_to_draft(job_id, reviewer_id, comment)
+              open_revision(job_id, reason, by) -> id
+              audit(job_id) -> list[dict]
+    settings: get_setting(key, default=None) ; set_setting(key, value)
+    documents: job_document(job_id) -> dict ; import_job_document(doc) -> id
+
+Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
+ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, MigrationError, StoreTooNewError.
+Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
+"""
+
+from mobile_app.records.errors import (
+    ConflictError,
+    LockedOutError,
+    MigrationError,
+    NotFoundError,
+    PinError,
+    ReadOnlyError,
+    ReviewError,
+    SaveError,
+    StoreError,
+    StoreTooNewError,
+    UnknownFieldError,
+)
+from mobile_app.records.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
+from mobile_app.records.schema import MovedAside
+from mobile_app.records.store import Store
+
+__all__ = [
+    "BOARD_FIELDS",
+    "CIRCUIT_FIELDS",
+    "JOB_FIELDS",
+    "ConflictError",
+    "LockedOutError",
+    "MigrationError",
+    "MovedAside",
+    "NotFoundError",
+    "PinError",
+    "ReadOnlyError",
+    "ReviewError",
+    "SaveError",
+    "Store",
+    "StoreError",
+    "StoreTooNewError",
+    "UnknownFieldError",
+]

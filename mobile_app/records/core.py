@@ -1,0 +1,265 @@
+"""The store's foundation: opening the file, write transactions, the audit trail, people,
+settings and the device library."""
+
+from __future__ import annotations
+
+import contextlib
+import datetime
+import json
+import math
+import sqlite3
+import time
+from collections.abc import Callable, Iterator
+from pathlib import Path
+from typing import Any, Self
+
+import platformdirs
+import sqlite_utils
+
+from mobile_app.records import pins
+from mobile_app.records.errors import InvalidValueError, NotFoundError, SaveError
+from mobile_app.records.schema import MovedAside, connect, migrate, move_aside, problem_with
+
+STORE_FILE = "boardside.sqlite"
+ROLES = ("apprentice", "qualified", "supervisor")
+
+
+def default_data_dir() -> Path:
+    """The user's app-data folder for Boardside (platformdirs)."""
+    return Path(platformdirs.user_data_dir("Boardside", "Boardside"))
+
+
+def now_iso() -> str:
+    """The current UTC time, ISO 8601 with milliseconds."""
+    return datetime.datetime.now(datetime.UTC).isoformat(timespec="milliseconds")
+
+
+def save_reason(error: sqlite3.Error) -> str:
+    """A plain sentence for why SQLite refused a write."""
+    text = str(error).lower()
+    if "full" in text:
+        return "the device storage is full; free some space and try again"
+    if "readonly" in text or "read-only" in text:
+        return "the store's folder is read-only"
+    if "locked" in text or "busy" in text:
+        return "the store is busy in another window; try again"
+    if "i/o" in text:
+        return "the storage could not be written (I/O error)"
+    return str(error)
+
+
+class StoreCore:
+    """An open store file: connection, transactions, audit, people, settings, device library."""
+
+    def __init__(
+        self,
+        path: Path,
+        db: sqlite_utils.Database,
+        recovered: MovedAside | None,
+        backup_path: Path | None,
+    ) -> None:
+        self.path = path
+        self.db = db
+        self.recovered = recovered
+        self.backup_path = backup_path
+        self.clock: Callable[[], float] = time.time
+
+    @classmethod
+    def open(cls, data_dir: Path | None = None) -> Self:
+        """Open (or create) the store in `data_dir` (None: the user's app-data folder).
+
+        Checks the file (a non-SQLite or damaged file is moved aside and `recovered` says so), turns
+        on WAL and foreign keys, and runs pending migrations after taking a backup copy.
+        """
+        folder = Path(data_dir) if data_dir is not None else default_data_dir()
+        try:
+            folder.mkdir(parents=True, exist_ok=True)
+            path = folder / STORE_FILE
+            problem = problem_with(path)
+            recovered = move_aside(path, problem) if problem else None
+            conn = connect(path)
+        except (OSError, sqlite3.Error) as error:
+            reason = save_reason(error) if isinstance(error, sqlite3.Error) else str(error)
+            raise SaveError(f"cannot open the store in {folder}: {reason}") from error
+        db = sqlite_utils.Database(conn)
+        try:
+            backup_path = migrate(db, path)
+        except BaseException:
+            conn.close()
+            raise
+        return cls(path, db, recovered, backup_path)
+
+    def close(self) -> None:
+        """Close the connection (every save is already committed)."""
+        self.db.close()
+
+    def __enter__(self) -> Self:
+        return self
+
+    def __exit__(self, *exc_info: object) -> None:
+        self.close()
+
+    @contextlib.contextmanager
+    def _write(self) -> Iterator[sqlite3.Connection]:
+        """One write transaction (BEGIN IMMEDIATE … COMMIT); SQLite refusals become SaveError."""
+        conn = self.db.conn
+        try:
+            conn.execute("BEGIN IMMEDIATE")
+        except sqlite3.OperationalError as error:
+            raise SaveError(save_reason(error)) from error
+        try:
+            yield conn
+            conn.execute("COMMIT")
+        except sqlite3.Error as error:
+            if conn.in_transaction:
+                conn.execute("ROLLBACK")
+            raise SaveError(save_reason(error)) from error
+        except BaseException:
+            if conn.in_transaction:
+                conn.execute("ROLLBACK")
+            raise
+
+    def _one(self, sql: str, params: tuple[Any, ...] = ()) -> dict[str, Any] | None:
+        """The first row of a query as a dict, or None."""
+        return next(iter(self.db.query(sql, params)), None)
+
+    def _audit(
+        self,
+        conn: sqlite3.Connection,
+        job_id: int | None,
+        by: int | None,
+        entity: str,
+        entity_id: int | None,
+        field: str | None,
+        old: Any,
+        new: Any,
+    ) -> None:
+        """Record one change in the audit trail (inside the caller's transaction)."""
+        conn.execute(
+            "INSERT INTO audit (job_id, at, person_id, entity, entity_id, field, old, new)"
+            " VALUES (?, ?, ?, ?, ?, ?, ?, ?)",
+            (
+                job_id,
+                now_iso(),
+                by,
+                entity,
+                entity_id,
+                field,
+                None if old is None else str(old),
+                None if new is None else str(new),
+            ),
+        )
+
+    # people
+    def add_person(self, name: str, role: str, pin: str | None = None) -> int:
+        """Add a person (role: apprentice, qualified or supervisor), with a PIN for supervisors."""
+        if not name.strip():
+            raise InvalidValueError("name", "must not be blank")
+        if role not in ROLES:
+            raise InvalidValueError("role", "must be one of: " + ", ".join(ROLES))
+        pin_hash = pins.hash_pin(pin) if pin is not None else None
+        with self._write() as conn:
+            cursor = conn.execute(
+                "INSERT INTO people (name, role, created_at, pin_hash) VALUES (?, ?, ?, ?)",
+                (name.strip(), role, now_iso(), pin_hash),
+            )
+            person_id = int(cursor.lastrowid or 0)
+            self._audit(conn, None, None, "person", person_id, "role", None, role)
+        return person_id
+
+    def set_pin(self, person_id: int, pin: str) -> None:
+        """Set or change a person's PIN (stored only as a salted scrypt hash); clears a lock-out."""
+        self._person(person_id)
+        pin_hash = pins.hash_pin(pin)
+        with self._write() as conn:
+            conn.execute(
+                "UPDATE people SET pin_hash = ?, failed_pins = 0, locked_until = NULL WHERE id = ?",
+                (pin_hash, person_id),
+            )
+            self._audit(conn, None, person_id, "person", person_id, "pin", None, "changed")
+
+    def people(self) -> list[dict[str, Any]]:
+        """Everyone known to the store: id, name, role and whether a PIN is set (never the hash)."""
+        return list(
+            self.db.query(
+                "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people"
+                " ORDER BY name, id"
+            )
+        )
+
+    def _person(self, person_id: int) -> dict[str, Any]:
+        """One person's row, or NotFoundError."""
+        row = self._one("SELECT * FROM people WHERE id = ?", (person_id,))
+        if row is None:
+            raise NotFoundError("person", person_id)
+        return row
+
+    # settings
+    def get_setting(self, key: str, default: Any = None) -> Any:
+        """A setting's value (JSON-decoded), or `default` when it was never set."""
+        row = self._one("SELECT value FROM settings WHERE key = ?", (key,))
+        return default if row is None else json.loads(row["value"])
+
+    def set_setting(self, key: str, value: Any) -> None:
+        """Store a JSON-able setting (passwords do not belong here)."""
+        with self._write() as conn:
+            conn.execute(
+                "INSERT INTO settings (key, value) VALUES (?, ?) ON CONFLICT(key)"
+                " DO UPDATE SET value = excluded.value",
+                (key, json.dumps(value)),
+            )
+
+    # device library
+    def add_library_device(
+        self,
+        name: str,
+        points: list[tuple[float, float]] | list[list[float]],
+        rating_a: float | None = None,
+    ) -> int:
+        """Save a manufacturer curve: (current_a, time_s) points, times falling as current rises."""
+        if not name.strip():
+            raise InvalidValueError("name", "must not be blank")
+        clean = check_curve_points(points)
+        if rating_a is not None and not (math.isfinite(rating_a) and rating_a > 0):
+            raise InvalidValueError("rating_a", "must be greater than zero")
+        with self._write() as conn:
+            cursor = conn.execute(
+                "INSERT INTO library_devices (name, rating_a, points, created_at)"
+                " VALUES (?, ?, ?, ?)",
+                (name.strip(), rating_a, json.dumps(clean), now_iso()),
+            )
+            device_id = int(cursor.lastrowid or 0)
+            self._audit(conn, None, None, "library", device_id, "name", None, name.strip())
+        return device_id
+
+    def library_devices(self) -> list[dict[str, Any]]:
+        """The device library: id, name, rating_a, points [[current_a, time_s], ...]."""
+        return [
+            dict(row, points=json.loads(row["points"]))
+            for row in self.db.query(
+                "SELECT id, name, rating_a, points FROM library_devices ORDER BY name, id"
+            )
+        ]
+
+    def _library_device(self, device_id: int) -> dict[str, Any] | None:
+        """One library device with its points decoded, or None."""
+        row = self._one(
+            "SELECT id, name, rating_a, points FROM library_devices WHERE id = ?", (device_id,)
+        )
+        return None if row is None else dict(row, points=json.loads(row["points"]))
+
+
+def check_curve_points(points: Any) -> list[list[float]]:
+    """Validate curve points: at least two, positive, currents rising and times falling."""
+    try:
+        clean = sorted([float(current_a), float(time_s)] for current_a, time_s in points)
+    except (TypeError, ValueError) as error:
+        raise InvalidValueError("points", "must be pairs of numbers (current A, time s)") from error
+    if len(clean) < 2:
+        raise InvalidValueError("points", "need at least two points")
+    if not all(math.isfinite(v) and v > 0 for point in clean for v in point):
+        raise InvalidValueError("points", "currents and times must be greater than zero")
+    for (i1, t1), (i2, t2) in zip(clean, clean[1:], strict=False):
+        if i2 <= i1 or t2 >= t1:
+            raise InvalidValueError("points", "times must fall as current rises")
+    return clean

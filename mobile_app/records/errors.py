@@ -1,0 +1,164 @@
+"""Typed errors of the job store.
+
+Inside the store errors stay typed; the app and the command line turn them into messages at the
+edge.
+Each class's docstring is its meaning; details are attributes and the message is built in `__str__`.
+"""
+
+from __future__ import annotations
+
+
+class StoreError(Exception):
+    """Base of every error the job store raises on purpose."""
+
+
+class NotFoundError(StoreError, LookupError):
+    """A job, board, circuit, person or library device with that id does not exist."""
+
+    def __init__(self, kind: str, item_id: object) -> None:
+        super().__init__(kind, item_id)
+        self.kind = kind
+        self.item_id = item_id
+
+    def __str__(self) -> str:
+        return f"no {self.kind} with id {self.item_id}"
+
+
+class UnknownFieldError(StoreError, ValueError):
+    """A field name that the job, board or circuit does not have."""
+
+    def __init__(self, kind: str, name: str) -> None:
+        super().__init__(kind, name)
+        self.kind = kind
+        self.name = name
+
+    def __str__(self) -> str:
+        return f"{self.kind} has no field {self.name!r}"
+
+
+class ConflictError(StoreError, RuntimeError):
+    """Someone else saved this row since it was read: reload before saving again."""
+
+    def __init__(
+        self, kind: str, item_id: int, expected_version: int, current_version: int
+    ) -> None:
+        super().__init__(kind, item_id, expected_version, current_version)
+        self.kind = kind
+        self.item_id = item_id
+        self.expected_version = expected_version
+        self.current_version = current_version
+
+    def __str__(self) -> str:
+        return (
+            f"{self.kind} {self.item_id} was changed elsewhere (version {self.current_version}, "
+            f"you had {self.expected_version}): reload it before saving"
+        )
+
+
+class ReadOnlyError(StoreError, PermissionError):
+    """The job is submitted or approved and cannot be changed in place."""
+
+    def __init__(self, job_id: int, status: str) -> None:
+        super().__init__(job_id, status)
+        self.job_id = job_id
+        self.status = status
+
+    def __str__(self) -> str:
+        if self.status == "approved":
+            return f"job {self.job_id} is approved: open a new revision to change it"
+        return f"job {self.job_id} is {self.status}: return it to draft to change it"
+
+
+class ReviewError(StoreError, RuntimeError):
+    """A review step that the job's status or the person's role does not allow."""
+
+    def __init__(self, job_id: int, problem: str) -> None:
+        super().__init__(job_id, problem)
+        self.job_id = job_id
+        self.problem = problem
+
+    def __str__(self) -> str:
+        return f"job {self.job_id}: {self.problem}"
+
+
+class PinError(StoreError, ValueError):
+    """A supervisor PIN that is wrong, missing or too short."""
+
+    def __init__(self, problem: str, attempts_left: int | None = None) -> None:
+        super().__init__(problem, attempts_left)
+        self.problem = problem
+        self.attempts_left = attempts_left
+
+    def __str__(self) -> str:
+        if self.attempts_left is None:
+            return self.problem
+        return f"{self.problem} ({self.attempts_left} attempts left before a lock-out)"
+
+
+class LockedOutError(PinError):
+    """Too many wrong PINs: approval by this person is refused until the lock-out ends."""
+
+    def __init__(self, seconds_left: float) -> None:
+        super().__init__("too many wrong PINs")
+        self.seconds_left = seconds_left
+
+    def __str__(self) -> str:
+        return f"too many wrong PINs: try again in {max(1, round(self.seconds_left))} s"
+
+
+class SaveError(StoreError, OSError):
+    """The change could not be written (disk full, read-only folder): nothing was saved."""
+
+    def __init__(self, reason: str) -> None:
+        super().__init__(reason)
+        self.reason = reason
+
+    def __str__(self) -> str:
+        return f"not saved: {self.reason}"
+
+
+class MigrationError(StoreError, RuntimeError):
+    """The store's schema could not be brought up to date; the file was left as it was."""
+
+    def __init__(self, path: str, reason: str) -> None:
+        super().__init__(path, reason)
+        self.path = path
+        self.reason = reason
+
+    def __str__(self) -> str:
+        return f"could not update the store {self.path}: {self.reason} (file left unchanged)"
+
+
+class StoreTooNewError(StoreError, RuntimeError):
+    """The store file was written by a newer version of the app than this one."""
+
+    def __init__(self, path: str, unknown: list[str]) -> None:
+        super().__init__(path, unknown)
+        self.path = path
+        self.unknown = unknown
+
+    def __str__(self) -> str:
+        return f"the store {self.path} comes from a newer Boardside ({', '.join(self.unknown)})"
+
+
+class InvalidValueError(StoreError, ValueError):
+    """A name, role, reason or device curve that the store refuses to record."""
+
+    def __init__(self, what: str, problem: str) -> None:
+        super().__init__(what, problem)
+        self.what = what
+        self.problem = problem
+
+    def __str__(self) -> str:
+        return f"{self.what}: {self.problem}"
+
+
+class DocumentError(StoreError, ValueError):
+    """A job document to import is not a Boardside job document this version can read."""
+
+    def __init__(self, problem: str) -> None:
+        super().__init__(problem)
+        self.problem = problem
+
+    def __str__(self) -> str:
+        return f"not a readable job document: {self.problem}"
