@@ -1,0 +1,63 @@
+"""A step of the walk: one record with its formula, the working with numbers, value, unit and verdict.
+
+The same record is shown by the app, printed in the PDF and exported in JSON.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+PASS = "pass"
+FAIL = "fail"
+INCOMPLETE = "incomplete"
+CHECK = "check"
+INFO = "info"
+STEP_VERDICTS = (PASS, FAIL, INCOMPLETE, CHECK, INFO)
+
+CAUTIONS = (
+    "These results assist a competent person; they do not replace the rules in force, "
+    "their judgement or a full inspection.",
+    "Testing live circuits is dangerous: use approved test equipment and safe isolation.",
+    "Local codes, the rules in force and manufacturers' data prevail over these figures.",
+)
+"""Shown wherever results are shown: screen, PDF and export."""
+
+
+@dataclass(frozen=True)
+class Step:
+    """One step of the walk, as shown to a person and exported."""
+
+    id: str
+    title: str
+    formula: str
+    working: str
+    value: float | str | None
+    unit: str
+    verdict: str
+    note: str = ""
+
+    def to_dict(self) -> dict[str, Any]:
+        return {"id": self.id, "title": self.title, "formula": self.formula, "working": self.working,
+                "value": self.value, "unit": self.unit, "verdict": self.verdict, "note": self.note}
+
+
+def fmt(x: float) -> str:
+    """A number for people: three significant figures, no exponent for everyday magnitudes."""
+    magnitude = abs(x)
+    if magnitude >= 1000:
+        return f"{x:.0f}"
+    if magnitude >= 100:
+        return f"{x:.1f}".rstrip("0").rstrip(".")
+    if magnitude >= 10:
+        return f"{x:.2f}".rstrip("0").rstrip(".")
+    if magnitude >= 0.01 or magnitude == 0:
+        return f"{x:.3f}".rstrip("0").rstrip(".") or "0"
+    return f"{x:.3g}"
+
+
+def verdict_of(ok: bool | None) -> str:
+    """The step verdict for a check that passed, failed or could not be made."""
+    if ok is None:
+        return INCOMPLETE
+    return PASS if ok else FAIL

@@ -1,0 +1,60 @@
+"""Command line of the field app.
+
+`python -m mobile_app [--port P] [--data DIR] [--demo]` serves the app in web mode on 127.0.0.1.
+Subcommands: `demo`, `export`, `sync`. Each subcommand's work lives in its own module; this file
+only parses arguments and turns typed errors into one-line messages (exit 2).
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+
+class _Parser(argparse.ArgumentParser):
+    """An argument parser whose usage errors are one line on stderr and exit 2."""
+
+    def error(self, message: str) -> None:  # type: ignore[override]
+        print(f"{self.prog}: {message}", file=sys.stderr)
+        raise SystemExit(2)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    parser = _Parser(prog="python -m mobile_app", description=__doc__.splitlines()[0])
+    parser.add_argument("--data", type=Path, default=None, help="folder of the job store")
+    parser.add_argument("--port", type=int, default=8550, help="port on 127.0.0.1 (default 8550)")
+    parser.add_argument("--demo", action="store_true", help="create the demo job if the store has none")
+    sub = parser.add_subparsers(dest="command", parser_class=_Parser)
+
+    demo = sub.add_parser("demo", help="create the demo job and print its id")
+    demo.add_argument("--data", type=Path, default=None, dest="sub_data")
+
+    export = sub.add_parser("export", help="write a job's JSON, CSV and PDF")
+    export.add_argument("job_id", type=int)
+    export.add_argument("--data", type=Path, default=None, dest="sub_data")
+    export.add_argument("--out", type=Path, required=True)
+
+    sync = sub.add_parser("sync", help="send what waits in the outbox to the office folder")
+    sync.add_argument("--data", type=Path, default=None, dest="sub_data")
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    args = build_parser().parse_args(argv)
+    data_dir = getattr(args, "sub_data", None) or args.data
+    if args.command == "demo":
+        from mobile_app.records.demo import cli_demo
+
+        return cli_demo(data_dir)
+    if args.command == "export":
+        from mobile_app.records.export import cli_export
+
+        return cli_export(args.job_id, data_dir, args.out)
+    if args.command == "sync":
+        from mobile_app.records.sync import cli_sync
+
+        return cli_sync(data_dir)
+    from mobile_app.main import serve
+
+    return serve(port=args.port, data_dir=data_dir, demo=args.demo)
