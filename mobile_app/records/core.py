@@ -16,6 +16,7 @@ from typing import Any, Self
 import platformdirs
 import sqlite_utils
 
+import calc
 from mobile_app.records import pins
 from mobile_app.records.errors import InvalidValueError, NotFoundError, SaveError
 from mobile_app.records.schema import MovedAside, connect, migrate, move_aside, problem_with
@@ -250,16 +251,14 @@ class StoreCore:
 
 
 def check_curve_points(points: Any) -> list[list[float]]:
-    """Validate curve points: at least two, positive, currents rising and times falling."""
+    """Check curve points with the calculation core: two or more, times falling as current rises.
+
+    Returns [[current_a, time_s], ...] sorted by current; InvalidValueError otherwise.
+    """
     try:
-        clean = sorted([float(current_a), float(time_s)] for current_a, time_s in points)
-    except (TypeError, ValueError) as error:
-        raise InvalidValueError("points", "must be pairs of numbers (current A, time s)") from error
-    if len(clean) < 2:
-        raise InvalidValueError("points", "need at least two points")
-    if not all(math.isfinite(v) and v > 0 for point in clean for v in point):
-        raise InvalidValueError("points", "currents and times must be greater than zero")
-    for (i1, t1), (i2, t2) in zip(clean, clean[1:], strict=False):
-        if i2 <= i1 or t2 >= t1:
-            raise InvalidValueError("points", "times must fall as current rises")
-    return clean
+        parsed = calc.read_points(list(points))
+    except TypeError as error:
+        raise InvalidValueError("points", "must be a list of [current, time] pairs") from error
+    except calc.InputError as error:
+        raise InvalidValueError("points", error.problem) from error
+    return [[current_a, time_s] for current_a, time_s in parsed]
