@@ -1,0 +1,256 @@
+"""The outbox: export bundles waiting on the device to be sent to the office folder.
+
+One row per bundle in the table `outbox` of the store's database (created here if missing):
+where the bundle lies, its files with their sizes and SHA-256, the deterministic remote folder name
+(bundle name + the first 16 hex digits of the bundle hash, so the same bundle never lands under two
+names), its state (`waiting` or `sent`), attempts, next try time, the last error in plain words
+and its kind, and when it was queued, last tried and sent. All times are ISO-8601 UTC text of one
+fixed format, so they sort as text. Nothing here touches the network or deletes a file.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import re
+from dataclasses import dataclass
+from datetime import UTC, datetime
+from pathlib import Path
+from typing import Any
+
+from sqlite_utils import Database
+
+TABLE = "outbox"
+MANIFEST = "manifest.json"
+_UNSAFE = re.compile(r"[^A-Za-z0-9._-]+")
+MAX_NAME_CHARS = 80
+MAX_MANIFEST_BYTES = 1 << 20
+_COLUMNS: dict[str, type] = {
+    "id": int,
+    "bundle_dir": str,
+    "bundle_name": str,
+    "job_id": int,
+    "revision": int,
+    "bundle_sha256": str,
+    "files": str,
+    "remote_path": str,
+    "status": str,
+    "attempts": int,
+    "next_try_at": str,
+    "last_error": str,
+    "last_error_kind": str,
+    "queued_at": str,
+    "last_try_at": str,
+    "sent_at": str,
+}
+
+
+class OutboxError(Exception):
+    """A problem with the outbox or with a bundle on the device."""
+
+
+class BundleError(OutboxError, ValueError):
+    """The bundle on the device is missing, empty, changed since it was queued, or badly named."""
+
+
+class UnknownBundleError(OutboxError, KeyError):
+    """No outbox entry has this id."""
+
+
+def iso(moment: datetime) -> str:
+    """ISO-8601 text in UTC with milliseconds, one fixed format (sorts as text)."""
+    return moment.astimezone(UTC).isoformat(timespec="milliseconds")
+
+
+def utc_now() -> datetime:
+    """The current time, timezone-aware in UTC."""
+    return datetime.now(UTC)
+
+
+def safe_name(name: str) -> str:
+    """A file or folder name safe on any WebDAV server: letters, digits, `.`, `_`, `-` only.
+
+    Other runs become `_`; leading dots and `_` are dropped (no hidden files, no `..`); at most 80
+    characters; an empty result becomes `bundle`.
+    """
+    return _UNSAFE.sub("_", name).lstrip("._")[:MAX_NAME_CHARS].rstrip("_") or "bundle"
+
+
+def file_sha256(path: Path) -> str:
+    """Hex SHA-256 of a file, read in 1 MiB blocks."""
+    digest = hashlib.sha256()
+    with open(path, "rb") as fh:
+        for block in iter(lambda: fh.read(1 << 20), b""):
+            digest.update(block)
+    return digest.hexdigest()
+
+
+@dataclass(frozen=True)
+class BundleFile:
+    """One file of a bundle: its local name, its sanitised remote name, size and SHA-256."""
+
+    name: str
+    remote_name: str
+    size_bytes: int
+    sha256: str
+
+
+def scan_bundle(bundle_dir: Path) -> list[BundleFile]:
+    """The regular files at the top of a bundle folder, manifest last; symlinks and folders ignored.
+
+    Raises BundleError if the folder is missing or empty, or two names sanitise to the same one.
+    """
+    if not bundle_dir.is_dir():
+        raise BundleError(f"bundle folder not found: {bundle_dir.name}")
+    paths = sorted(
+        (p for p in bundle_dir.iterdir() if p.is_file() and not p.is_symlink()),
+        key=lambda p: (p.name == MANIFEST, p.name),
+    )
+    if not paths:
+        raise BundleError(f"bundle folder is empty: {bundle_dir.name}")
+    files = [BundleFile(p.name, safe_name(p.name), p.stat().st_size, file_sha256(p)) for p in paths]
+    remote = [f.remote_name for f in files]
+    if len(set(remote)) != len(remote):
+        raise BundleError(f"two files in {bundle_dir.name} have the same safe name")
+    check_manifest(bundle_dir, files)
+    return files
+
+
+def check_manifest(bundle_dir: Path, files: list[BundleFile]) -> None:
+    """Raise BundleError unless manifest.json lists exactly the other files with their SHA-256 and size.
+
+    The export writes the manifest last, so a folder without one is an unfinished export.
+    """
+    path = bundle_dir / MANIFEST
+    if not path.is_file():
+        raise BundleError(f"{bundle_dir.name} has no {MANIFEST}: the export is unfinished")
+    if path.stat().st_size > MAX_MANIFEST_BYTES:
+        raise BundleError(f"{bundle_dir.name}/{MANIFEST} is too large")
+    try:
+        listed = json.loads(path.read_text(encoding="utf-8"))["files"]
+        expected = {name: (int(v["bytes"]), str(v["sha256"]).lower()) for name, v in listed.items()}
+    except (ValueError, KeyError, TypeError, AttributeError) as exc:
+        raise BundleError(f"{bundle_dir.name}/{MANIFEST} is not a bundle manifest") from exc
+    actual = {f.name: (f.size_bytes, f.sha256) for f in files if f.name != MANIFEST}
+    if expected != actual:
+        differ = sorted(set(expected.items()) ^ set(actual.items()))
+        raise BundleError(f"{bundle_dir.name}: files differ from {MANIFEST} ({differ[0][0]})")
+
+
+def bundle_sha256(files: list[BundleFile]) -> str:
+    """Hex SHA-256 over each file's sanitised name and content hash, in order."""
+    digest = hashlib.sha256()
+    for f in files:
+        digest.update(f"{f.remote_name}\0{f.sha256}\n".encode())
+    return digest.hexdigest()
+
+
+def remote_folder(bundle_name: str, bundle_hash: str) -> str:
+    """The bundle's folder name on the server: sanitised bundle name + 16 hex digits of its hash."""
+    return f"{safe_name(bundle_name)}-{bundle_hash[:16]}"
+
+
+def files_from_row(row: dict[str, Any]) -> list[BundleFile]:
+    """The BundleFile list kept in an outbox row."""
+    return [BundleFile(**f) for f in json.loads(row["files"])]
+
+
+class Outbox:
+    """The outbox table on a sqlite-utils Database (the store's `store.db`)."""
+
+    def __init__(self, db: Database) -> None:
+        self.db = db
+        self.ensure_table()
+
+    def ensure_table(self) -> None:
+        """Create the outbox table and its indexes if they are missing."""
+        if TABLE in self.db.table_names():
+            return
+        self.db[TABLE].create(_COLUMNS, pk="id", not_null={"bundle_dir", "remote_path", "status"},
+                              defaults={"status": "waiting", "attempts": 0})
+        self.db[TABLE].create_index(["remote_path"], unique=True)
+        self.db[TABLE].create_index(["status", "next_try_at"])
+
+    def enqueue(self, bundle_dir: Path, job_id: int, revision: int, now: datetime | None = None) -> int:
+        """Queue a bundle folder to be sent; returns its outbox id.
+
+        Queuing the same bundle (same name and content) again returns the existing id, so it is
+        never sent twice. Raises BundleError if the folder is missing, empty or badly named.
+        """
+        bundle_dir = Path(bundle_dir).resolve()
+        files = scan_bundle(bundle_dir)
+        digest = bundle_sha256(files)
+        remote_path = remote_folder(bundle_dir.name, digest)
+        existing = list(self.db[TABLE].rows_where("remote_path = ?", [remote_path], limit=1))
+        if existing:
+            return int(existing[0]["id"])
+        with self.db.conn:
+            return int(self.db[TABLE].insert({
+                "bundle_dir": str(bundle_dir),
+                "bundle_name": bundle_dir.name,
+                "job_id": job_id,
+                "revision": revision,
+                "bundle_sha256": digest,
+                "files": json.dumps([f.__dict__ for f in files]),
+                "remote_path": remote_path,
+                "status": "waiting",
+                "attempts": 0,
+                "next_try_at": iso(now or utc_now()),
+                "queued_at": iso(now or utc_now()),
+            }).last_pk)
+
+    def get(self, entry_id: int) -> dict[str, Any]:
+        """One outbox row as a dict; raises UnknownBundleError."""
+        rows = list(self.db[TABLE].rows_where("id = ?", [entry_id]))
+        if not rows:
+            raise UnknownBundleError(entry_id)
+        return rows[0]
+
+    def waiting(self) -> list[dict[str, Any]]:
+        """Rows still to be sent, oldest first."""
+        return list(self.db[TABLE].rows_where("status = 'waiting'", order_by="queued_at, id"))
+
+    def sent(self) -> list[dict[str, Any]]:
+        """Rows sent and verified, most recent first."""
+        return list(self.db[TABLE].rows_where("status = 'sent'", order_by="sent_at desc, id desc"))
+
+    def due(self, now: datetime | None = None, force: bool = False) -> list[dict[str, Any]]:
+        """Waiting rows whose next try time has come (all waiting rows when `force`)."""
+        if force:
+            return self.waiting()
+        return list(self.db[TABLE].rows_where(
+            "status = 'waiting' and next_try_at <= ?", [iso(now or utc_now())],
+            order_by="queued_at, id"))
+
+    def next_try_at(self) -> str | None:
+        """The earliest next try time of the waiting rows, or None when nothing waits."""
+        row = self.db.execute(
+            f"select min(next_try_at) from {TABLE} where status = 'waiting'").fetchone()
+        return row[0] if row else None
+
+    def mark_sent(self, entry_id: int, now: datetime | None = None) -> None:
+        """Record that a bundle arrived whole and was verified."""
+        moment = iso(now or utc_now())
+        with self.db.conn:
+            self.db[TABLE].update(entry_id, {
+                "status": "sent", "sent_at": moment, "last_try_at": moment,
+                "last_error": None, "last_error_kind": None, "next_try_at": None})
+
+    def mark_failed(self, entry_id: int, message: str, kind: str, next_try_at: datetime,
+                    now: datetime | None = None) -> None:
+        """Record a failed attempt: one more attempt, the error in plain words, the next try time."""
+        row = self.get(entry_id)
+        with self.db.conn:
+            self.db[TABLE].update(entry_id, {
+                "attempts": int(row["attempts"] or 0) + 1,
+                "last_error": message,
+                "last_error_kind": kind,
+                "last_try_at": iso(now or utc_now()),
+                "next_try_at": iso(next_try_at)})
+
+    def last_error(self) -> str | None:
+        """The most recent error among the waiting rows, in plain words, or None."""
+        row = self.db.execute(
+            f"select last_error from {TABLE} where status = 'waiting' and last_error is not null "
+            "order by last_try_at desc limit 1").fetchone()
+        return row[0] if row else None

@@ -1,0 +1,344 @@
+"""Send the outbox to the office's WebDAV folder (RFC 4918), verify what arrived, then mark it sent.
+
+`sync_once(store_or_db, target)` probes the folder (PROPFIND Depth 0; a missing folder is created with
+MKCOL), then for each bundle that is due: MKCOL its folder, PUT each file with the webdav4 client (the
+manifest last, overwriting any partial upload of its own), GET each file back and compare size and
+SHA-256, and only then mark the bundle sent. ETags are not used: common servers (wsgidav, Nextcloud)
+make them from metadata, not content, so they cannot prove the bytes. Any error other than one bundle's
+own stops the run, and every due bundle backs off exponentially with jitter; state lives in the
+database, so a restart resumes. Nothing local is ever deleted.
+
+The office folder, its address rules, the password kept on the device and the typed errors are in
+`sync_target`; their names are re-exported here.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import logging
+import random
+import sys
+import xml.etree.ElementTree as ET
+from collections.abc import Callable
+from dataclasses import dataclass, field
+from datetime import datetime, timedelta
+from pathlib import Path
+from typing import Any
+
+import httpx
+from webdav4 import client as dav
+
+from mobile_app.records.outbox import (
+    BundleError,
+    BundleFile,
+    Outbox,
+    file_sha256,
+    files_from_row,
+    utc_now,
+)
+from mobile_app.records.sync_target import (
+    AuthError,
+    DroppedError,
+    InsecureTargetError,
+    NotConfiguredError,
+    OfflineError,
+    ProtocolError,
+    ServerError,
+    SlowServerError,
+    StorageFullError,
+    SyncError,
+    SyncTarget,
+    VerifyError,
+    check_url,
+    load_password,
+    load_target,
+    save_password,
+    save_target,
+    scrub,
+    status_error,
+)
+
+__all__ = [
+    "AuthError", "DroppedError", "InsecureTargetError", "NotConfiguredError", "OfflineError",
+    "ProtocolError", "ServerError", "SlowServerError", "StorageFullError", "SyncError", "SyncReport",
+    "SyncTarget", "VerifyError", "check_url", "cli_sync", "load_password", "load_target",
+    "save_password", "save_target", "scrub", "sync_once", "sync_store",
+]
+
+log = logging.getLogger("boardside.sync")
+log.addHandler(logging.NullHandler())
+MAX_XML_BYTES = 1 << 20
+# kind of error -> (first delay, longest delay) in seconds; each further failure doubles the delay
+BACKOFF_S: dict[str, tuple[float, float]] = {
+    "offline": (30, 1800),
+    "dropped": (30, 1800),
+    "timeout": (60, 3600),
+    "server": (60, 3600),
+    "verify": (60, 3600),
+    "storage": (900, 6 * 3600),
+    "protocol": (900, 6 * 3600),
+    "auth": (1800, 12 * 3600),
+    "local": (3600, 24 * 3600),
+}
+
+
+@dataclass
+class SyncReport:
+    """What one sync run did: ids sent, how many still wait, the run's error in plain words."""
+
+    sent: list[int] = field(default_factory=list)
+    waiting: int = 0
+    error: str | None = None
+    error_kind: str | None = None
+    probed: bool = False
+    next_try_at: str | None = None
+
+
+def backoff_s(kind: str, failures: int, rng: random.Random) -> float:
+    """Delay before the next try after `failures` failures in a row (1 = first), with equal jitter:
+    half the exponential delay fixed, half random, so devices do not retry in step."""
+    first_s, longest_s = BACKOFF_S.get(kind, BACKOFF_S["protocol"])
+    delay_s = min(longest_s, first_s * 2 ** max(failures - 1, 0))
+    return delay_s / 2 + rng.uniform(0, delay_s / 2)
+
+
+def classify(exc: Exception) -> SyncError:
+    """Turn an httpx or webdav4 error into a typed SyncError with a plain message (no URL)."""
+    if isinstance(exc, SyncError):
+        return exc
+    if isinstance(exc, httpx.ConnectTimeout | httpx.ConnectError):
+        return OfflineError("the office folder did not answer (no connection or server down)")
+    if isinstance(exc, httpx.TimeoutException):
+        return SlowServerError("the office folder was too slow to answer (timed out)")
+    if isinstance(exc, httpx.HTTPError):
+        return DroppedError("the connection to the office folder broke during the transfer")
+    if isinstance(exc, dav.InsufficientStorage):
+        return StorageFullError("the office folder is full (HTTP 507)")
+    if isinstance(exc, dav.BadGatewayError):
+        return ServerError("the office server failed (HTTP 502)")
+    if isinstance(exc, dav.HTTPError):
+        return status_error(exc.status_code)
+    if isinstance(exc, dav.ForbiddenOperation):
+        return AuthError("the office folder does not let this user create folders (HTTP 403)")
+    if isinstance(exc, dav.ResourceConflict):
+        return ProtocolError("the office folder's parent does not exist on the server (HTTP 409)")
+    if isinstance(exc, dav.ClientError):
+        return ProtocolError(f"the office folder gave an unexpected answer ({type(exc).__name__})")
+    return ProtocolError(f"unexpected problem while sending ({type(exc).__name__})")
+
+
+def parse_is_collection(body: bytes) -> bool:
+    """True if a PROPFIND multistatus says the resource is a collection.
+
+    Parsed safely: at most 1 MiB, and any DTD or entity declaration is refused before parsing.
+    """
+    if len(body) > MAX_XML_BYTES:
+        raise ProtocolError("the office folder's answer is too large")
+    lowered = body.lower()
+    if b"<!doctype" in lowered or b"<!entity" in lowered:
+        raise ProtocolError("the office folder's answer declares entities; refused")
+    try:
+        root = ET.fromstring(body)
+    except ET.ParseError as exc:
+        raise ProtocolError("the office folder's answer is not valid WebDAV XML") from exc
+    if root.tag != "{DAV:}multistatus":
+        raise ProtocolError("the office folder's answer is not a WebDAV multistatus")
+    first = root.find("{DAV:}response")
+    return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
+
+
+PROPFIND_BODY = (b'<?xml version="1.0" encoding="utf-8"?>'
+                 b'<d:propfind xmlns:d="DAV:"><d:prop><d:resourcetype/></d:prop></d:propfind>')
+
+
+class Connection:
+    """A webdav4 client on the target folder, with the probe, upload and read-back steps."""
+
+    def __init__(self, target: SyncTarget) -> None:
+        self.target = target
+        self.url = check_url(target.url)
+        timeout = httpx.Timeout(target.timeout_s, connect=min(target.timeout_s, 10.0))
+        auth = (target.user, target.password) if target.user else None
+        self.client = dav.Client(self.url, auth=auth, retry=False,
+                                 timeout=timeout, follow_redirects=False, trust_env=False)
+
+    def close(self) -> None:
+        """Close the HTTP connections."""
+        self.client.http.close()
+
+    def probe(self) -> None:
+        """PROPFIND Depth 0 on the folder; create it (MKCOL) if missing; raise if not a folder."""
+        response = self.client.http.request(
+            "PROPFIND", self.url, content=PROPFIND_BODY,
+            headers={"Depth": "0", "Content-Type": "application/xml; charset=utf-8"})
+        if response.status_code == 404:
+            self.client.mkdir("")
+            return
+        if response.status_code != 207:
+            raise status_error(response.status_code) if response.status_code >= 300 else \
+                ProtocolError("the office address is not a WebDAV folder (no multistatus)")
+        if not parse_is_collection(response.read()):
+            raise ProtocolError("the office address is a file, not a folder")
+
+    def make_folder(self, remote_path: str) -> None:
+        """MKCOL the bundle's folder; an existing one (a resumed upload) is fine."""
+        try:
+            self.client.mkdir(remote_path)
+        except dav.ResourceAlreadyExists:
+            return
+
+    def put(self, local: Path, remote: str, size_bytes: int) -> None:
+        """PUT one file (overwriting any partial copy of its own) with the webdav4 client."""
+        with open(local, "rb") as fh:
+            self.client.upload_fileobj(fh, remote, overwrite=True, size=size_bytes)
+
+    def read_back(self, remote: str) -> tuple[int, str]:
+        """GET a file back; its size in bytes and hex SHA-256."""
+        digest, size = hashlib.sha256(), 0
+        with self.client.http.stream("GET", self.client.join_url(remote)) as response:
+            if response.status_code != 200:
+                raise status_error(response.status_code) if response.status_code != 404 else \
+                    VerifyError(f"{remote} is missing on the server after upload")
+            for chunk in response.iter_bytes():
+                digest.update(chunk)
+                size += len(chunk)
+        return size, digest.hexdigest()
+
+
+def check_local(bundle_dir: Path, files: list[BundleFile]) -> None:
+    """Raise BundleError if a queued file is missing or changed on the device."""
+    for f in files:
+        path = bundle_dir / f.name
+        if not path.is_file() or path.stat().st_size != f.size_bytes or file_sha256(path) != f.sha256:
+            raise BundleError(f"{bundle_dir.name}/{f.name} is missing or changed since it was queued")
+
+
+def send_bundle(conn: Connection, row: dict[str, Any]) -> None:
+    """Upload one outbox row's files (manifest last) and verify each by reading it back."""
+    bundle_dir = Path(row["bundle_dir"])
+    files = files_from_row(row)
+    check_local(bundle_dir, files)
+    conn.make_folder(row["remote_path"])
+    for f in files:
+        remote = f"{row['remote_path']}/{f.remote_name}"
+        conn.put(bundle_dir / f.name, remote, f.size_bytes)
+        size, sha = conn.read_back(remote)
+        if (size, sha) != (f.size_bytes, f.sha256):
+            raise VerifyError(f"{remote} arrived different from the one sent "
+                              f"({size} of {f.size_bytes} bytes)")
+
+
+def _db_of(store_or_db: Any) -> Any:
+    """The sqlite-utils Database of a Store, or the Database itself."""
+    return getattr(store_or_db, "db", store_or_db)
+
+
+def sync_once(store_or_db: Any, target: SyncTarget, now: datetime | None = None,
+              force: bool = False, progress: Callable[[int, int], None] | None = None,
+              rng: random.Random | None = None) -> SyncReport:
+    """Send every due bundle of the outbox (every waiting one when `force`, i.e. "send now").
+
+    Raises InsecureTargetError before any traffic for a refused address. Errors while sending are
+    recorded on the bundles (attempts, last error, next try) and summed up in the report.
+    `progress(done, total)` is called after each bundle.
+    """
+    outbox = Outbox(_db_of(store_or_db))
+    conn = Connection(target)
+    now = now or utc_now()
+    rng = rng or random.Random()
+    due = outbox.due(now, force=force)
+    report = SyncReport()
+    try:
+        if due:
+            report.probed = True
+            _send_due(outbox, conn, due, now, rng, report, progress)
+    finally:
+        conn.close()
+    report.waiting = len(outbox.waiting())
+    report.next_try_at = outbox.next_try_at()
+    return report
+
+
+def _send_due(outbox: Outbox, conn: Connection, due: list[dict[str, Any]], now: datetime,
+              rng: random.Random, report: SyncReport,
+              progress: Callable[[int, int], None] | None) -> None:
+    """Probe, then send the due rows one by one; a run-wide error stops and backs off the rest."""
+    try:
+        conn.probe()
+    except Exception as exc:  # noqa: BLE001 - every failure is classified and recorded
+        _fail(outbox, due, classify(exc), conn.target, now, rng, report)
+        return
+    for done, row in enumerate(due, start=1):
+        try:
+            send_bundle(conn, row)
+        except (BundleError, VerifyError) as exc:
+            _fail(outbox, [row], exc, conn.target, now, rng, report)
+        except Exception as exc:  # noqa: BLE001 - every failure is classified and recorded
+            _fail(outbox, due[done - 1:], classify(exc), conn.target, now, rng, report)
+            return
+        else:
+            outbox.mark_sent(row["id"], utc_now())
+            report.sent.append(row["id"])
+        if progress is not None:
+            progress(done, len(due))
+
+
+def _fail(outbox: Outbox, rows: list[dict[str, Any]], exc: Exception, target: SyncTarget,
+          now: datetime, rng: random.Random, report: SyncReport) -> None:
+    """Record one error on rows, each backing off by its own count of failures."""
+    kind = getattr(exc, "kind", "local") if not isinstance(exc, BundleError) else "local"
+    message = scrub(str(exc), target)
+    log.warning("sync: %s", message)
+    report.error, report.error_kind = message, kind
+    for row in rows:
+        delay_s = backoff_s(kind, int(row["attempts"] or 0) + 1, rng)
+        outbox.mark_failed(row["id"], message, kind, now + timedelta(seconds=delay_s), now)
+
+
+def sync_store(store: Any, force: bool = False,
+               progress: Callable[[int, int], None] | None = None) -> SyncReport:
+    """Sync a Store to its saved office folder ("send now" is `force=True`).
+
+    Raises NotConfiguredError or InsecureTargetError (before any traffic) for a missing or refused
+    folder. Call it from the thread that opened the store (SQLite connections stay in their thread).
+    """
+    return sync_once(store, load_target(store), force=force, progress=progress)
+
+
+def cli_sync(data_dir: Path | None) -> int:
+    """`python -m mobile_app sync`: send now; print what was sent, what waits and the last error.
+
+    Exit 0 when nothing waits because of an error, 1 when something does, 2 for a refused or
+    missing office folder while bundles wait.
+    """
+    from mobile_app.records import Store
+
+    store = Store.open(data_dir)
+    try:
+        outbox = Outbox(store.db)
+        report = SyncReport(waiting=len(outbox.waiting()))
+        if report.waiting:
+            try:
+                report = sync_store(store, force=True)
+            except (NotConfiguredError, InsecureTargetError) as exc:
+                print(f"sync: {exc}", file=sys.stderr)
+                return 2
+        print_report(outbox, report)
+        return 1 if any(row["last_error"] for row in outbox.waiting()) else 0
+    finally:
+        store.close()
+
+
+def print_report(outbox: Outbox, report: SyncReport) -> None:
+    """Print the run's result for a terminal: sent now, waiting (with errors), last error."""
+    print(f"Sent now: {len(report.sent)}")
+    for row in map(outbox.get, report.sent):
+        print(f"  {row['bundle_name']} -> {row['remote_path']}/ at {row['sent_at']}")
+    waiting = outbox.waiting()
+    print(f"Waiting: {len(waiting)}")
+    for row in waiting:
+        note = f"; last error: {row['last_error']}" if row["last_error"] else ""
+        print(f"  {row['bundle_name']} (tries {row['attempts']}, next {row['next_try_at']}{note})")
+    last = outbox.last_error()
+    if last:
+        print(f"Last error: {last}")

@@ -1,0 +1,181 @@
+"""The office's WebDAV folder as configured on the device: address rules, credentials, errors.
+
+The address must be https, or http to a loopback address only (127.0.0.0/8, ::1, localhost); it is
+checked before any traffic. Settings `sync_url` and `sync_user` live in the store; the password lives
+only on the device, in the file `sync-password` (mode 0600) beside the store: never in the database,
+an export, a log or an error message (`scrub` removes it from any text).
+"""
+
+from __future__ import annotations
+
+import base64
+import ipaddress
+import os
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+from urllib.parse import quote, urlsplit
+
+PASSWORD_FILE = "sync-password"
+
+
+class SyncError(Exception):
+    """Base of every error the sync raises on purpose; `kind` picks the backoff."""
+
+    kind = "protocol"
+
+
+class NotConfiguredError(SyncError, LookupError):
+    """No office folder (sync_url) is set on this device."""
+
+
+class InsecureTargetError(SyncError, ValueError):
+    """The office folder's address is refused: not https (plain http only to loopback) or bad."""
+
+
+class OfflineError(SyncError, ConnectionError):
+    """The office folder did not answer: no connection, or the server is down."""
+
+    kind = "offline"
+
+
+class DroppedError(SyncError, ConnectionError):
+    """The connection broke during a transfer; the partial upload is overwritten next time."""
+
+    kind = "dropped"
+
+
+class SlowServerError(SyncError, TimeoutError):
+    """The office folder did not answer in time."""
+
+    kind = "timeout"
+
+
+class AuthError(SyncError, PermissionError):
+    """The office folder refused the user name or password (HTTP 401 or 403)."""
+
+    kind = "auth"
+
+
+class ServerError(SyncError, RuntimeError):
+    """The office server failed (HTTP 5xx)."""
+
+    kind = "server"
+
+
+class StorageFullError(ServerError):
+    """The office server has no room left (HTTP 507)."""
+
+    kind = "storage"
+
+
+class ProtocolError(SyncError, ValueError):
+    """The server's answer was not what a WebDAV folder gives."""
+
+
+class VerifyError(SyncError, ValueError):
+    """A file read back from the server differs from the one sent; it is sent again."""
+
+    kind = "verify"
+
+
+@dataclass(frozen=True)
+class SyncTarget:
+    """The office's WebDAV folder and its credentials (the password is never shown in a repr)."""
+
+    url: str
+    user: str
+    password: str = field(repr=False)
+    timeout_s: float = 30.0
+
+
+def is_loopback_host(host: str) -> bool:
+    """True for localhost, 127.0.0.0/8 and ::1 (also as an IPv4-mapped address)."""
+    if host.lower() == "localhost":
+        return True
+    try:
+        address = ipaddress.ip_address(host)
+    except ValueError:
+        return False
+    mapped = getattr(address, "ipv4_mapped", None)
+    return address.is_loopback or bool(mapped and mapped.is_loopback)
+
+
+def check_url(url: str) -> str:
+    """The folder URL, checked and ending in `/`; raises InsecureTargetError before any traffic."""
+    try:
+        parts = urlsplit(url.strip())
+        host = parts.hostname or ""
+        parts.port  # noqa: B018 - raises ValueError for a bad port
+    except ValueError as exc:
+        raise InsecureTargetError("the office folder address is not a valid URL") from exc
+    if parts.username is not None or parts.password is not None:
+        raise InsecureTargetError(
+            "put the user name and password in the sync settings, not in the address")
+    if not host:
+        raise InsecureTargetError("the office folder address has no server name")
+    if parts.scheme == "http" and not is_loopback_host(host):
+        raise InsecureTargetError(
+            f"plain http is refused for {host}: use https (http is allowed only to this device)")
+    if parts.scheme not in ("http", "https"):
+        raise InsecureTargetError("the office folder address must start with https://")
+    if parts.query or parts.fragment:
+        raise InsecureTargetError("the office folder address must not have ? or # parts")
+    return url.strip() if url.strip().endswith("/") else url.strip() + "/"
+
+
+def scrub(text: str, target: SyncTarget) -> str:
+    """`text` with the password (plain, URL-quoted, or inside a Basic auth value) replaced by ***."""
+    secrets = {target.password, quote(target.password, safe=""),
+               base64.b64encode(f"{target.user}:{target.password}".encode()).decode()}
+    for secret in sorted((s for s in secrets if s), key=len, reverse=True):
+        text = text.replace(secret, "***")
+    return text
+
+
+def status_error(status: int) -> SyncError:
+    """The typed error for an HTTP status that is not a success."""
+    if status in (401, 403):
+        return AuthError(f"the office folder refused the user name or password (HTTP {status}); "
+                         "check them in the sync settings")
+    if status == 507:
+        return StorageFullError("the office folder is full (HTTP 507)")
+    if status >= 500:
+        return ServerError(f"the office server failed (HTTP {status})")
+    return ProtocolError(f"the office folder answered HTTP {status}")
+
+
+def password_path(data_dir: Path) -> Path:
+    """Where the sync password is kept on the device: `sync-password` beside the store."""
+    return Path(data_dir) / PASSWORD_FILE
+
+
+def save_password(data_dir: Path, password: str) -> None:
+    """Write the sync password to its file with mode 0600 (owner only)."""
+    path = password_path(data_dir)
+    fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
+    with os.fdopen(fd, "w", encoding="utf-8") as fh:
+        fh.write(password)
+    os.chmod(path, 0o600)
+
+
+def load_password(data_dir: Path) -> str:
+    """The sync password kept on the device, or "" if none was saved."""
+    path = password_path(data_dir)
+    return path.read_text(encoding="utf-8") if path.is_file() else ""
+
+
+def save_target(store: Any, url: str, user: str, password: str) -> None:
+    """Check and save the office folder: URL and user in the store, password in its own file."""
+    store.set_setting("sync_url", check_url(url))
+    store.set_setting("sync_user", user)
+    save_password(Path(store.path).parent, password)
+
+
+def load_target(store: Any) -> SyncTarget:
+    """The office folder saved on this device; raises NotConfiguredError or InsecureTargetError."""
+    url = store.get_setting("sync_url") or ""
+    if not url:
+        raise NotConfiguredError("no office folder is set (sync_url)")
+    return SyncTarget(check_url(url), store.get_setting("sync_user") or "",
+                      load_password(Path(store.path).parent))

@@ -1,0 +1,109 @@
+"""Sync against a real WebDAV server (wsgidav + cheroot on 127.0.0.1, basic auth): the normal paths."""
+
+from __future__ import annotations
+
+import hashlib
+from datetime import UTC, datetime, timedelta
+
+import pytest
+from sync_server import DavServer, make_bundle, tree_hashes
+
+from mobile_app.records import Store
+from mobile_app.records.outbox import Outbox
+from mobile_app.records.sync import SyncTarget, sync_once
+
+T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
+
+
+@pytest.fixture
+def dav(tmp_path):
+    server = DavServer(tmp_path / "server", tmp_path / "requests.log")
+    yield server
+    server.stop()
+
+
+def target_for(server: DavServer, password: str | None = None, timeout_s: float = 10.0):
+    return SyncTarget(server.url, server.user, password or server.password, timeout_s)
+
+
+def bundles(parent, count: int, start: int = 0) -> list:
+    """Small bundles with JSON, CSV and PDF-like bytes, each different."""
+    made = []
+    for n in range(start, start + count):
+        name = f"job{n}-REF{n}-rev1-2026-12-02"
+        made.append(make_bundle(parent, name, {
+            f"{name}.json": f'{{"job": {n}, "zs_ohm": 0.62}}'.encode(),
+            f"{name}.csv": f"circuit,zs_ohm\n{n},0.62\n".encode(),
+            f"{name}.pdf": hashlib.sha256(str(n).encode()).digest() * 40,
+        }))
+    return made
+
+
+def local_hashes(bundle_dir) -> dict[str, str]:
+    return {p.name: hashlib.sha256(p.read_bytes()).hexdigest() for p in bundle_dir.iterdir()}
+
+
+def server_bundles(server: DavServer) -> dict[str, dict[str, str]]:
+    """Each bundle folder on the server's disk with its files' hashes."""
+    office = server.root / "office"
+    return {d.name: tree_hashes(d) for d in sorted(office.iterdir())} if office.exists() else {}
+
+
+def test_bundles_arrive_whole_and_are_marked_sent(tmp_path, dav):
+    store = Store.open(tmp_path / "data")
+    made = bundles(tmp_path / "exports", 3)
+    ids = [Outbox(store.db).enqueue(b, job_id=i, revision=1, now=T0) for i, b in enumerate(made)]
+    dav.start()
+    progress: list[tuple[int, int]] = []
+    report = sync_once(store, target_for(dav), now=T0, progress=lambda d, t: progress.append((d, t)))
+    assert report.sent == ids and report.waiting == 0 and report.error is None
+    assert progress == [(1, 3), (2, 3), (3, 3)]
+    on_server = server_bundles(dav)
+    for row, bundle_dir in zip(Outbox(store.db).sent()[::-1], made, strict=True):
+        assert row["sent_at"] and row["remote_path"].startswith(bundle_dir.name)
+        assert on_server[row["remote_path"]] == local_hashes(bundle_dir)
+    assert all(local_hashes(b) for b in made)  # nothing local deleted
+    methods = [line.split()[0] for line in dav.requests()]
+    assert methods[0] == "PROPFIND" and methods.count("MKCOL") == 4  # office folder + 3 bundles
+
+
+def test_offline_first_bundles_queue_then_all_arrive_after_a_restart(tmp_path, dav):
+    store = Store.open(tmp_path / "data")
+    made = bundles(tmp_path / "exports", 5)
+    for i, b in enumerate(made):
+        Outbox(store.db).enqueue(b, job_id=i, revision=1, now=T0)
+    report = sync_once(store, target_for(dav), now=T0)  # nothing listens on the port yet
+    assert report.sent == [] and report.waiting == 5 and report.error_kind == "offline"
+    assert "did not answer" in report.error
+    assert all(row["attempts"] == 1 and row["last_error_kind"] == "offline"
+               for row in Outbox(store.db).waiting())
+    assert sync_once(store, target_for(dav), now=T0 + timedelta(seconds=1)).probed is False
+    store.close()
+
+    dav.start()
+    store = Store.open(tmp_path / "data")  # the app restarted: state comes back from the database
+    report = sync_once(store, target_for(dav), now=T0 + timedelta(hours=1))
+    assert len(report.sent) == 5 and report.waiting == 0
+    assert sorted(server_bundles(dav).values(), key=str) == sorted(
+        (local_hashes(b) for b in made), key=str)
+
+
+def test_200_bundles_each_arrive_once_byte_identical(tmp_path, dav):
+    store = Store.open(tmp_path / "data")
+    made = bundles(tmp_path / "exports", 200)
+    outbox = Outbox(store.db)
+    for i, b in enumerate(made):
+        outbox.enqueue(b, job_id=i, revision=1, now=T0)
+    dav.start()
+    report = sync_once(store, target_for(dav), now=T0)
+    assert len(report.sent) == 200 and report.waiting == 0
+    for i, b in enumerate(made):  # queuing again does not make a second copy
+        outbox.enqueue(b, job_id=i, revision=1)
+    assert sync_once(store, target_for(dav), now=T0, force=True).probed is False
+    on_server = server_bundles(dav)
+    assert len(on_server) == 200
+    expected = {row["remote_path"]: local_hashes(tmp_path / "exports" / row["bundle_name"])
+                for row in outbox.sent()}
+    assert on_server == expected
+    puts = [line for line in dav.requests() if line.startswith("PUT")]
+    assert len(puts) == 200 * 4 and len(set(puts)) == 200 * 4
