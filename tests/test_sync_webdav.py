@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hashlib
+import time
 from datetime import UTC, datetime, timedelta
 
 import pytest
@@ -10,7 +11,7 @@ from sync_server import DavServer, make_bundle, tree_hashes
 
 from mobile_app.records import Store
 from mobile_app.records.outbox import Outbox
-from mobile_app.records.sync import SyncTarget, sync_once
+from mobile_app.records.sync import SyncTarget, SyncTask, save_target, sync_once
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 
@@ -107,3 +108,70 @@ def test_200_bundles_each_arrive_once_byte_identical(tmp_path, dav):
     assert on_server == expected
     puts = [line for line in dav.requests() if line.startswith("PUT")]
     assert len(puts) == 200 * 4 and len(set(puts)) == 200 * 4
+
+
+def test_an_exported_job_bundle_is_sent_whole(tmp_path, dav):
+    from mobile_app.records.bundle import export_bundle
+    from mobile_app.records.demo import create_demo_job
+
+    store = Store.open(tmp_path / "data")
+    save_target(store, dav.url, dav.user, dav.password)
+    job_id = create_demo_job(store)
+    bundle = export_bundle(store, job_id, tmp_path / "exports")
+    assert all(dav.password.encode() not in p.read_bytes() for p in bundle.path.iterdir())
+    entry_id = Outbox(store.db).enqueue(bundle.path, job_id=job_id, revision=1)
+    dav.start()
+    assert sync_once(store, target_for(dav)).sent == [entry_id]
+    row = Outbox(store.db).get(entry_id)
+    assert server_bundles(dav) == {row["remote_path"]: local_hashes(bundle.path)}
+    assert set(local_hashes(bundle.path)) == {*(p.name for p in bundle.files), "manifest.json"}
+    store.close()
+
+
+def wait_for(reports: list, check, timeout_s: float = 20.0):
+    """The first report that passes `check`, polling the list the task appends to."""
+    deadline = time.monotonic() + timeout_s
+    while time.monotonic() < deadline:
+        found = [r for r in list(reports) if check(r)]
+        if found:
+            return found[0]
+        time.sleep(0.05)
+    raise AssertionError(f"no such report in {reports}")
+
+
+def test_the_background_task_sends_when_the_server_comes_back(tmp_path, dav):
+    data = tmp_path / "data"
+    store = Store.open(data)
+    save_target(store, dav.url, dav.user, dav.password)
+    made = bundles(tmp_path / "exports", 2)
+    for i, b in enumerate(made):
+        Outbox(store.db).enqueue(b, job_id=i, revision=1)
+    reports: list = []
+    task = SyncTask(data, on_report=reports.append, idle_s=0.2).start()
+    try:
+        wait_for(reports, lambda r: r.error_kind == "offline")
+        dav.start()
+        task.wake()  # "send now": the backoff is skipped
+        wait_for(reports, lambda r: len(r.sent) == 2 and r.waiting == 0)
+        made.append(bundles(tmp_path / "exports", 1, start=2)[0])
+        Outbox(store.db).enqueue(made[-1], job_id=2, revision=1)  # queued while the task runs
+        task.wake(force=False)
+        wait_for(reports, lambda r: len(r.sent) == 1 and r.waiting == 0)
+    finally:
+        task.stop()
+        store.close()
+    assert len(server_bundles(dav)) == 3
+
+
+def test_the_background_task_reports_a_missing_folder(tmp_path):
+    data = tmp_path / "data"
+    store = Store.open(data)
+    Outbox(store.db).enqueue(bundles(tmp_path / "exports", 1)[0], job_id=1, revision=1)
+    store.close()
+    reports: list = []
+    task = SyncTask(data, on_report=reports.append, idle_s=0.2).start()
+    try:
+        report = wait_for(reports, lambda r: r.error_kind == "config")
+    finally:
+        task.stop()
+    assert report.error == "no office folder is set (sync_url)" and report.waiting == 1

@@ -18,6 +18,7 @@ import hashlib
 import logging
 import random
 import sys
+import threading
 import xml.etree.ElementTree as ET
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -61,8 +62,8 @@ from mobile_app.records.sync_target import (
 __all__ = [
     "AuthError", "DroppedError", "InsecureTargetError", "NotConfiguredError", "OfflineError",
     "ProtocolError", "ServerError", "SlowServerError", "StorageFullError", "SyncError", "SyncReport",
-    "SyncTarget", "VerifyError", "check_url", "cli_sync", "load_password", "load_target",
-    "save_password", "save_target", "scrub", "sync_once", "sync_store",
+    "SyncTarget", "SyncTask", "VerifyError", "check_url", "cli_sync", "load_password",
+    "load_target", "save_password", "save_target", "scrub", "sync_once", "sync_store",
 ]
 
 log = logging.getLogger("boardside.sync")
@@ -286,7 +287,7 @@ def _send_due(outbox: Outbox, conn: Connection, due: list[dict[str, Any]], now: 
 def _fail(outbox: Outbox, rows: list[dict[str, Any]], exc: Exception, target: SyncTarget,
           now: datetime, rng: random.Random, report: SyncReport) -> None:
     """Record one error on rows, each backing off by its own count of failures."""
-    kind = getattr(exc, "kind", "local") if not isinstance(exc, BundleError) else "local"
+    kind = getattr(exc, "kind", "local")
     message = scrub(str(exc), target)
     log.warning("sync: %s", message)
     report.error, report.error_kind = message, kind
@@ -299,10 +300,72 @@ def sync_store(store: Any, force: bool = False,
                progress: Callable[[int, int], None] | None = None) -> SyncReport:
     """Sync a Store to its saved office folder ("send now" is `force=True`).
 
-    Raises NotConfiguredError or InsecureTargetError (before any traffic) for a missing or refused
-    folder. Call it from the thread that opened the store (SQLite connections stay in their thread).
+    With nothing due it reads no settings and makes no traffic. Otherwise raises NotConfiguredError
+    or InsecureTargetError (before any traffic) for a missing or refused folder. Call it from the
+    thread that opened the store (SQLite connections stay in their thread); see SyncTask.
     """
+    outbox = Outbox(_db_of(store))
+    if not outbox.due(force=force):
+        return SyncReport(waiting=len(outbox.waiting()), next_try_at=outbox.next_try_at())
     return sync_once(store, load_target(store), force=force, progress=progress)
+
+
+class SyncTask:
+    """The app's background sync: a thread with its own Store that sends bundles when they are due.
+
+    `wake()` is "send now" (every waiting bundle, backoff ignored); `wake(force=False)` just looks
+    again, e.g. after a bundle was queued. `on_report(report)` runs in the task's thread after each
+    run; a missing or refused office folder is reported with `error_kind` "config".
+    """
+
+    def __init__(self, data_dir: Path | None, on_report: Callable[[SyncReport], None] | None = None,
+                 idle_s: float = 60.0) -> None:
+        self.data_dir, self.on_report, self.idle_s = data_dir, on_report, idle_s
+        self._event, self._stop = threading.Event(), threading.Event()
+        self._force = False
+        self._thread = threading.Thread(target=self._run, name="boardside-sync", daemon=True)
+
+    def start(self) -> SyncTask:
+        """Start the thread; it runs once at once, then whenever something is due."""
+        self._thread.start()
+        return self
+
+    def wake(self, force: bool = True) -> None:
+        """Run now; with `force`, send every waiting bundle whatever its next try time."""
+        self._force = self._force or force
+        self._event.set()
+
+    def stop(self, timeout_s: float = 30.0) -> None:
+        """Stop after the current run (a transfer in progress ends or times out first)."""
+        self._stop.set()
+        self._event.set()
+        self._thread.join(timeout_s)
+
+    def _run(self) -> None:
+        from mobile_app.records import Store
+
+        store = Store.open(self.data_dir)
+        try:
+            while not self._stop.is_set():
+                self._event.clear()
+                force, self._force = self._force, False
+                try:
+                    report = sync_store(store, force=force)
+                except (NotConfiguredError, InsecureTargetError) as exc:
+                    report = SyncReport(waiting=len(Outbox(store.db).waiting()), error=str(exc),
+                                        error_kind="config")
+                if self.on_report is not None:
+                    self.on_report(report)
+                self._event.wait(self._wait_s(report))
+        finally:
+            store.close()
+
+    def _wait_s(self, report: SyncReport) -> float:
+        """Seconds until the next bundle is due, at most `idle_s`, at least 0.1."""
+        if not report.next_try_at or report.error_kind == "config":
+            return self.idle_s
+        due_in_s = (datetime.fromisoformat(report.next_try_at) - utc_now()).total_seconds()
+        return min(self.idle_s, max(0.1, due_in_s))
 
 
 def cli_sync(data_dir: Path | None) -> int:
@@ -316,13 +379,11 @@ def cli_sync(data_dir: Path | None) -> int:
     store = Store.open(data_dir)
     try:
         outbox = Outbox(store.db)
-        report = SyncReport(waiting=len(outbox.waiting()))
-        if report.waiting:
-            try:
-                report = sync_store(store, force=True)
-            except (NotConfiguredError, InsecureTargetError) as exc:
-                print(f"sync: {exc}", file=sys.stderr)
-                return 2
+        try:
+            report = sync_store(store, force=True)
+        except (NotConfiguredError, InsecureTargetError) as exc:
+            print(f"sync: {exc}", file=sys.stderr)
+            return 2
         print_report(outbox, report)
         return 1 if any(row["last_error"] for row in outbox.waiting()) else 0
     finally:
