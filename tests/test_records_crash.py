@@ -1,0 +1,94 @@
+"""Crash safety: a child process saving readings is killed with SIGKILL at random moments; after each
+kill the store opens, passes `PRAGMA integrity_check`, and every acknowledged save is there."""
+
+from __future__ import annotations
+
+import random
+import signal
+import sqlite3
+import subprocess
+import sys
+import time
+from pathlib import Path
+
+import pytest
+
+from mobile_app.records import Store
+from mobile_app.records.core import STORE_FILE
+
+ROOT = Path(__file__).resolve().parents[1]
+KILLS = 25
+
+# The child saves one field at a time and prints "ack <raw>" only after set_circuit_field returned
+# (that is, after COMMIT). It alternates a reading with units and a unicode description.
+CHILD = """
+import sys
+from pathlib import Path
+from mobile_app.records import Store
+store = Store.open(Path(sys.argv[1]))
+run = int(sys.argv[2])
+ids = [int(i) for i in sys.argv[3].split(",")]
+print("ready", flush=True)
+n = 0
+while True:
+    n += 1
+    circuit_id = ids[n % len(ids)]
+    if n % 2:
+        raw = f"{run * 1_000_000 + n} mΩ"
+        store.set_circuit_field(circuit_id, "zs", raw)
+    else:
+        raw = f"run {run} save {n} ✓ — ünïcode"
+        store.set_circuit_field(circuit_id, "description", raw)
+    print("ack", circuit_id, raw, flush=True)
+"""
+
+
+def prepare(folder: Path) -> list[int]:
+    """A store with one job, one board and four B32 circuits; returns the circuit ids."""
+    with Store.open(folder) as store:
+        job_id = store.create_job({"client_ref": "CRASH", "system": "TN-S", "ze": "0.3"})
+        board_id = store.add_board(job_id, "DB1")
+        first = store.add_circuit(board_id, "1")
+        for name, raw in {"role": "final", "device_kind": "mcb", "device_curve": "B",
+                          "device_rating": "32", "line_csa": "2.5", "cpc_csa": "1.5"}.items():
+            store.set_circuit_field(first, name, raw)
+        return [first] + [store.add_circuit(board_id, str(n)) for n in (2, 3, 4)]
+
+
+@pytest.mark.slow
+def test_sigkill_at_random_moments_loses_no_acknowledged_save(tmp_path: Path) -> None:
+    ids = prepare(tmp_path)
+    chance = random.Random(20261202)
+    acknowledged: list[tuple[int, str]] = []
+    for run in range(1, KILLS + 1):
+        child = subprocess.Popen(
+            [sys.executable, "-c", CHILD, str(tmp_path), str(run), ",".join(map(str, ids))],
+            cwd=ROOT, stdout=subprocess.PIPE, text=True, encoding="utf-8")
+        assert child.stdout is not None
+        assert child.stdout.readline().strip() == "ready"
+        time.sleep(chance.uniform(0.0, 0.25))
+        child.send_signal(signal.SIGKILL)
+        output, _ = child.communicate(timeout=30)
+        assert child.returncode == -signal.SIGKILL
+        lines = [line.split(" ", 2) for line in output.splitlines() if line.startswith("ack ")]
+        acknowledged += [(int(circuit_id), raw) for _, circuit_id, raw in lines]
+
+        conn = sqlite3.connect(tmp_path / STORE_FILE)
+        assert conn.execute("PRAGMA integrity_check").fetchall() == [("ok",)]
+        conn.close()
+        with Store.open(tmp_path) as store:
+            assert store.recovered is None
+            saved = {(row["entity_id"], row["new"]) for row in store.audit(1)}
+            missing = [pair for pair in acknowledged if pair not in saved]
+            assert missing == [], f"run {run}: acknowledged saves lost: {missing[:5]}"
+            for circuit_id in ids:
+                circuit = store.get_circuit(circuit_id)
+                last = {"zs": None, "description": None}
+                for entry in store.audit(1):
+                    if entry["entity_id"] == circuit_id and entry["field"] in last:
+                        last[entry["field"]] = entry["new"]
+                for name, raw in last.items():
+                    if raw is not None:
+                        assert circuit["fields"][name]["raw"] == raw
+    assert len(acknowledged) > KILLS, "the child hardly saved anything before the kills"
+    print(f"{KILLS} kills, {len(acknowledged)} acknowledged saves, all present")
