@@ -1,0 +1,115 @@
+"""Faults on save: a full disk, a read-only store, and two writers editing the same circuit."""
+
+from __future__ import annotations
+
+import os
+import threading
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+
+from mobile_app.records import ConflictError, SaveError, Store
+
+
+@pytest.fixture
+def store(tmp_path: Path) -> Iterator[Store]:
+    """A fresh store with one job, board and circuit (zs typed)."""
+    opened = Store.open(tmp_path)
+    job_id = opened.create_job({"client_ref": "F-1", "system": "TN-S", "ze": "0.3"})
+    board_id = opened.add_board(job_id, "DB1")
+    circuit_id = opened.add_circuit(board_id, "1", "sockets")
+    opened.set_circuit_field(circuit_id, "zs", "0.5")
+    yield opened
+    opened.close()
+
+
+def snapshot(store: Store) -> tuple[dict, int]:
+    """The circuit as stored and the length of the audit trail."""
+    return store.get_circuit(1), len(store.audit(1))
+
+
+def test_disk_full_refuses_the_save_and_writes_nothing(store: Store) -> None:
+    # Simulated: PRAGMA max_page_count caps this connection's file at its current size, so SQLite
+    # answers SQLITE_FULL exactly as it does when the device runs out of space.
+    before = snapshot(store)
+    conn = store.db.conn
+    pages = conn.execute("PRAGMA page_count").fetchone()[0]
+    conn.execute(f"PRAGMA max_page_count = {pages}")
+    big = "long note " * 5000
+    with pytest.raises(SaveError) as caught:
+        store.set_circuit_field(1, "description", big)
+    assert str(caught.value) == "not saved: the device storage is full; free some space and try again"
+    assert isinstance(caught.value, OSError)
+    assert snapshot(store) == before
+    conn.execute("PRAGMA max_page_count = 1073741823")
+    assert store.set_circuit_field(1, "description", big)["raw"] == big
+    assert conn.execute("PRAGMA integrity_check").fetchone() == ("ok",)
+
+
+def test_read_only_store_refuses_the_save_and_writes_nothing(store: Store) -> None:
+    # Simulated: PRAGMA query_only makes SQLite refuse writes with SQLITE_READONLY, the code it
+    # returns for a read-only file; root ignores chmod, so this works for every user.
+    before = snapshot(store)
+    store.db.conn.execute("PRAGMA query_only = ON")
+    with pytest.raises(SaveError, match="not saved: the store's folder is read-only"):
+        store.set_circuit_field(1, "zs", "0.7")
+    store.db.conn.execute("PRAGMA query_only = OFF")
+    assert snapshot(store) == before
+
+
+@pytest.mark.skipif(os.geteuid() == 0, reason="root ignores directory permissions")
+def test_a_read_only_folder_gives_a_clear_error_at_open(tmp_path: Path) -> None:
+    folder = tmp_path / "locked"
+    folder.mkdir()
+    folder.chmod(0o500)
+    try:
+        with pytest.raises(SaveError, match="cannot open the store in"):
+            Store.open(folder)
+    finally:
+        folder.chmod(0o700)
+
+
+def test_a_second_writer_with_a_stale_version_is_told(store: Store) -> None:
+    other = Store.open(store.path.parent)
+    try:
+        seen_here = store.get_circuit(1)["version"]
+        seen_there = other.get_circuit(1)["version"]
+        store.set_circuit_field(1, "zs", "0.61", expected_version=seen_here)
+        with pytest.raises(ConflictError) as caught:
+            other.set_circuit_field(1, "zs", "0.72", expected_version=seen_there)
+        assert str(caught.value) == (
+            f"circuit 1 was changed elsewhere (version {seen_there + 1}, you had {seen_there}):"
+            " reload it before saving")
+        assert other.get_circuit(1)["fields"]["zs"]["raw"] == "0.61"
+        fresh = other.get_circuit(1)["version"]
+        assert other.set_circuit_field(1, "zs", "0.72", expected_version=fresh)["version"] == (
+            fresh + 1)
+    finally:
+        other.close()
+
+
+def test_job_and_board_rows_have_versions_too(store: Store) -> None:
+    job_version = store.get_job(1)["version"]
+    store.set_job_field(1, "ze", "0.31", expected_version=job_version)
+    with pytest.raises(ConflictError, match="job 1 was changed elsewhere"):
+        store.set_job_field(1, "ze", "0.32", expected_version=job_version)
+    board_version = store.boards(1)[0]["version"]
+    store.set_board_field(1, "location", "cellar", expected_version=board_version)
+    with pytest.raises(ConflictError, match="board 1 was changed elsewhere"):
+        store.set_board_field(1, "location", "loft", expected_version=board_version)
+
+
+def test_a_writer_waits_for_the_other_rather_than_failing(store: Store) -> None:
+    other = Store.open(store.path.parent)
+    try:
+        other.db.conn.execute("BEGIN IMMEDIATE")
+        other.db.conn.execute("INSERT INTO settings (key, value) VALUES ('held', '1')")
+        release = threading.Timer(0.3, lambda: other.db.conn.execute("COMMIT"))
+        release.start()
+        assert store.set_circuit_field(1, "zs", "0.55")["raw"] == "0.55"
+        release.join()
+        assert store.get_setting("held") == 1
+        assert other.get_circuit(1)["fields"]["zs"]["raw"] == "0.55"
+    finally:
+        other.close()
