@@ -48,26 +48,28 @@ class FieldSpec:
     low: float
     high: float
     low_inclusive: bool = False
+    positive: bool = True
 
 
-_NO_LIMIT = float("inf")
+_Z = (1e-4, 1e5)
+"""Credible loop impedances: from 0.1 mΩ to 100 kΩ (an RA in TT can be hundreds of ohms)."""
 FIELDS: dict[str, FieldSpec] = {
     "supply.u0": FieldSpec(VOLTAGE, 50.0, 1000.0),
     "supply.cmin": FieldSpec(RATIO, 0.5, 1.1, low_inclusive=True),
-    "supply.ze": FieldSpec(IMPEDANCE, 0.0, _NO_LIMIT),
-    "supply.pfc": FieldSpec(CURRENT, 0.0, _NO_LIMIT),
+    "supply.ze": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
+    "supply.pfc": FieldSpec(CURRENT, 1e-3, 1e6, low_inclusive=True),
     "circuit.device.rating": FieldSpec(CURRENT, 0.0, 10000.0),
-    "circuit.device.points.current": FieldSpec(CURRENT, 0.0, _NO_LIMIT),
-    "circuit.device.points.time": FieldSpec(TIME, 0.0, _NO_LIMIT),
-    "circuit.let_through_i2t": FieldSpec(ENERGY, 0.0, _NO_LIMIT),
-    "circuit.rcd.idn": FieldSpec(CURRENT, 0.0, 10.0),
-    "circuit.line.csa": FieldSpec(AREA, 0.0, 5000.0),
-    "circuit.cpc.csa": FieldSpec(AREA, 0.0, 5000.0),
-    "measured.zs": FieldSpec(IMPEDANCE, 0.0, _NO_LIMIT),
-    "measured.zsc": FieldSpec(IMPEDANCE, 0.0, _NO_LIMIT),
-    "measured.r1r2": FieldSpec(IMPEDANCE, 0.0, _NO_LIMIT),
-    "measured.ze": FieldSpec(IMPEDANCE, 0.0, _NO_LIMIT),
-    "measured.test_temp_c": FieldSpec(TEMPERATURE, -40.0, 80.0, low_inclusive=True),
+    "circuit.device.points.current": FieldSpec(CURRENT, 1e-3, 1e7, low_inclusive=True),
+    "circuit.device.points.time": FieldSpec(TIME, 1e-4, 1e6, low_inclusive=True),
+    "circuit.let_through_i2t": FieldSpec(ENERGY, 1e-3, 1e12, low_inclusive=True),
+    "circuit.rcd.idn": FieldSpec(CURRENT, 1e-3, 10.0, low_inclusive=True),
+    "circuit.line.csa": FieldSpec(AREA, 0.1, 5000.0, low_inclusive=True),
+    "circuit.cpc.csa": FieldSpec(AREA, 0.1, 5000.0, low_inclusive=True),
+    "measured.zs": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
+    "measured.zsc": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
+    "measured.r1r2": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
+    "measured.ze": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
+    "measured.test_temp_c": FieldSpec(TEMPERATURE, -40.0, 80.0, low_inclusive=True, positive=False),
     "settings.final_circuit_max_a": FieldSpec(CURRENT, 0.0, 10000.0),
 }
 
@@ -81,11 +83,15 @@ def parse_value(field: str, value: object) -> float:
     spec = FIELDS.get(field)
     if spec is None:
         raise InputError(field, "is not a numeric field")
+    if type(value) is float or type(value) is int:  # the common case, checked in one comparison
+        inside_low = spec.low <= value if spec.low_inclusive else spec.low < value
+        if inside_low and value <= spec.high and (value > 0 or not spec.positive):
+            return float(value)
     number = parse_quantity(field, value, spec.kind)
+    if spec.positive and number <= 0:
+        raise InputError(field, "must be greater than zero")
     below = number < spec.low if spec.low_inclusive else number <= spec.low
     if below:
-        if spec.low == 0.0:
-            raise InputError(field, "must be greater than zero")
         bound = "at least" if spec.low_inclusive else "greater than"
         raise InputError(field, f"must be {bound} {spec.low:g} {spec.kind.symbol}".rstrip())
     if number > spec.high:

@@ -43,16 +43,12 @@ class Step:
 
 
 def fmt(x: float) -> str:
-    """A number for people: three significant figures, no exponent for everyday magnitudes."""
+    """A number for people: four significant figures, no exponent for everyday magnitudes."""
     magnitude = abs(x)
-    if magnitude >= 1000:
+    if magnitude >= 1e4:
         return f"{x:.0f}"
-    if magnitude >= 100:
-        return f"{x:.1f}".rstrip("0").rstrip(".")
-    if magnitude >= 10:
-        return f"{x:.2f}".rstrip("0").rstrip(".")
-    if magnitude >= 0.01 or magnitude == 0:
-        return f"{x:.3f}".rstrip("0").rstrip(".") or "0"
+    if magnitude >= 1e-3 or magnitude == 0:
+        return f"{x:.4g}"
     return f"{x:.3g}"
 
 

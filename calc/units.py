@@ -87,6 +87,8 @@ def _parse_text(field: str, text: str, kind: Kind) -> float:
     if match is None:
         raise InputError(field, f'"{_shorten(text)}" is not a number')
     number = float(match.group(1).replace(",", "."))
+    if not math.isfinite(number):
+        raise InputError(field, "must be a finite number")
     unit = match.group(2)
     if kind is TEMPERATURE:
         if unit.lower() not in _TEMPERATURE_UNITS:
