@@ -7,6 +7,7 @@ plus optional faults, applied by a small WSGI layer in front of wsgidav (the ser
 - `--slow SECONDS:N`  sleep before answering the first N requests (a slow server);
 - `--exit-after-bytes B`  the process dies (os._exit) once B bytes of PUT bodies were read: the
                       server stops in the middle of an upload, leaving a partial file on its disk;
+- `--cert PEM --key PEM`  serve https with that certificate;
 - `--truncate-put B`  PUT bodies are cut to B bytes but the server still answers 201 (a lying server).
 
 Every request is appended to the log file as `METHOD PATH STATUS` so tests can count them.
@@ -141,6 +142,10 @@ def serve(args: argparse.Namespace) -> None:
     }
     app = fault_layer(WsgiDAVApp(config), _Faults(args), Path(args.log))
     server = wsgi.Server(("127.0.0.1", args.port), app, numthreads=8)
+    if args.cert:
+        from cheroot.ssl.builtin import BuiltinSSLAdapter
+
+        server.ssl_adapter = BuiltinSSLAdapter(args.cert, args.key)
     server.prepare()
     print("READY", flush=True)
     server.serve()
@@ -156,20 +161,24 @@ def free_port() -> int:
 class DavServer:
     """A wsgidav subprocess on 127.0.0.1 serving `root`, restartable on the same port."""
 
-    def __init__(self, root: Path, log: Path, user: str = "office", password: str = "s3cret-Pw!"):
+    def __init__(self, root: Path, log: Path, user: str = "office", password: str = "s3cret-Pw!",
+                 tls: tuple[Path, Path] | None = None):
         self.root, self.log, self.user, self.password = root, log, user, password
+        self.tls = tls
         self.port = free_port()
         self.proc: subprocess.Popen | None = None
         root.mkdir(parents=True, exist_ok=True)
 
     @property
     def url(self) -> str:
-        return f"http://127.0.0.1:{self.port}/office/"
+        return f"{'https' if self.tls else 'http'}://127.0.0.1:{self.port}/office/"
 
     def start(self, *faults: str) -> DavServer:
         """Start the server with optional fault flags and wait until it listens."""
         cmd = [sys.executable, str(HERE), "--root", str(self.root), "--port", str(self.port),
                "--user", self.user, "--password", self.password, "--log", str(self.log), *faults]
+        if self.tls:
+            cmd += ["--cert", str(self.tls[0]), "--key", str(self.tls[1])]
         self.proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, text=True)
         assert self.proc.stdout is not None
         line = self.proc.stdout.readline()
@@ -186,6 +195,16 @@ class DavServer:
     def requests(self) -> list[str]:
         """The request log lines so far."""
         return self.log.read_text(encoding="utf-8").splitlines() if self.log.exists() else []
+
+
+def self_signed_cert(folder: Path) -> tuple[Path, Path]:
+    """A self-signed certificate and key for 127.0.0.1 made with the openssl command (P-256)."""
+    cert, key = folder / "cert.pem", folder / "key.pem"
+    subprocess.run(["openssl", "req", "-x509", "-newkey", "ec", "-pkeyopt",
+                    "ec_paramgen_curve:prime256v1", "-nodes", "-keyout", str(key), "-out", str(cert),
+                    "-days", "2", "-subj", "/CN=127.0.0.1", "-addext", "subjectAltName=IP:127.0.0.1"],
+                   check=True, capture_output=True)
+    return cert, key
 
 
 def make_bundle(parent: Path, name: str, files: dict[str, bytes]) -> Path:
@@ -218,6 +237,8 @@ def main() -> None:
     parser.add_argument("--slow")
     parser.add_argument("--exit-after-bytes", type=int)
     parser.add_argument("--truncate-put", type=int)
+    parser.add_argument("--cert")
+    parser.add_argument("--key")
     serve(parser.parse_args())
 
 

@@ -21,11 +21,11 @@ from mobile_app.records.sync import (
     backoff_s,
     check_url,
     load_password,
-    parse_is_collection,
     save_password,
     scrub,
     sync_once,
 )
+from mobile_app.records.sync_target import parse_is_collection
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 _SOCKET_EVENTS: list[str] = []

@@ -3,11 +3,12 @@
 from __future__ import annotations
 
 import hashlib
+import shutil
 import time
 from datetime import UTC, datetime, timedelta
 
 import pytest
-from sync_server import DavServer, make_bundle, tree_hashes
+from sync_server import DavServer, make_bundle, self_signed_cert, tree_hashes
 
 from mobile_app.records import Store
 from mobile_app.records.outbox import Outbox
@@ -175,3 +176,22 @@ def test_the_background_task_reports_a_missing_folder(tmp_path):
     finally:
         task.stop()
     assert report.error == "no office folder is set (sync_url)" and report.waiting == 1
+
+
+@pytest.mark.skipif(shutil.which("openssl") is None, reason="needs the openssl command")
+def test_https_with_an_unknown_certificate_is_refused_then_accepted_with_its_authority(tmp_path):
+    cert, key = self_signed_cert(tmp_path)
+    server = DavServer(tmp_path / "server", tmp_path / "requests.log", tls=(cert, key)).start()
+    try:
+        store = Store.open(tmp_path / "data")
+        made = bundles(tmp_path / "exports", 1)
+        Outbox(store.db).enqueue(made[0], job_id=1, revision=1, now=T0)
+        report = sync_once(store, target_for(server), now=T0)
+        assert report.sent == [] and report.error_kind == "certificate"
+        assert report.error.startswith("the office server's https certificate could not be verified")
+        trusted = SyncTarget(server.url, server.user, server.password, ca_file=str(cert))
+        assert sync_once(store, trusted, now=T0, force=True).sent
+        assert list(server_bundles(server).values()) == [local_hashes(made[0])]
+        store.close()
+    finally:
+        server.stop()

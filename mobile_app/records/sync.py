@@ -17,9 +17,9 @@ from __future__ import annotations
 import hashlib
 import logging
 import random
+import ssl
 import sys
 import threading
-import xml.etree.ElementTree as ET
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from datetime import datetime, timedelta
@@ -39,6 +39,7 @@ from mobile_app.records.outbox import (
 )
 from mobile_app.records.sync_target import (
     AuthError,
+    CertificateError,
     DroppedError,
     InsecureTargetError,
     NotConfiguredError,
@@ -51,8 +52,10 @@ from mobile_app.records.sync_target import (
     SyncTarget,
     VerifyError,
     check_url,
+    classify,
     load_password,
     load_target,
+    parse_is_collection,
     save_password,
     save_target,
     scrub,
@@ -60,15 +63,15 @@ from mobile_app.records.sync_target import (
 )
 
 __all__ = [
-    "AuthError", "DroppedError", "InsecureTargetError", "NotConfiguredError", "OfflineError",
-    "ProtocolError", "ServerError", "SlowServerError", "StorageFullError", "SyncError", "SyncReport",
-    "SyncTarget", "SyncTask", "VerifyError", "check_url", "cli_sync", "load_password",
-    "load_target", "save_password", "save_target", "scrub", "sync_once", "sync_store",
+    "AuthError", "CertificateError", "DroppedError", "InsecureTargetError", "NotConfiguredError",
+    "OfflineError", "ProtocolError", "ServerError", "SlowServerError", "StorageFullError",
+    "SyncError", "SyncReport", "SyncTarget", "SyncTask", "VerifyError", "check_url", "cli_sync",
+    "load_password", "load_target", "save_password", "save_target", "scrub", "sync_once",
+    "sync_store",
 ]
 
 log = logging.getLogger("boardside.sync")
 log.addHandler(logging.NullHandler())
-MAX_XML_BYTES = 1 << 20
 # kind of error -> (first delay, longest delay) in seconds; each further failure doubles the delay
 BACKOFF_S: dict[str, tuple[float, float]] = {
     "offline": (30, 1800),
@@ -78,6 +81,7 @@ BACKOFF_S: dict[str, tuple[float, float]] = {
     "verify": (60, 3600),
     "storage": (900, 6 * 3600),
     "protocol": (900, 6 * 3600),
+    "certificate": (1800, 12 * 3600),
     "auth": (1800, 12 * 3600),
     "local": (3600, 24 * 3600),
 }
@@ -103,51 +107,6 @@ def backoff_s(kind: str, failures: int, rng: random.Random) -> float:
     return delay_s / 2 + rng.uniform(0, delay_s / 2)
 
 
-def classify(exc: Exception) -> SyncError:
-    """Turn an httpx or webdav4 error into a typed SyncError with a plain message (no URL)."""
-    if isinstance(exc, SyncError):
-        return exc
-    if isinstance(exc, httpx.ConnectTimeout | httpx.ConnectError):
-        return OfflineError("the office folder did not answer (no connection or server down)")
-    if isinstance(exc, httpx.TimeoutException):
-        return SlowServerError("the office folder was too slow to answer (timed out)")
-    if isinstance(exc, httpx.HTTPError):
-        return DroppedError("the connection to the office folder broke during the transfer")
-    if isinstance(exc, dav.InsufficientStorage):
-        return StorageFullError("the office folder is full (HTTP 507)")
-    if isinstance(exc, dav.BadGatewayError):
-        return ServerError("the office server failed (HTTP 502)")
-    if isinstance(exc, dav.HTTPError):
-        return status_error(exc.status_code)
-    if isinstance(exc, dav.ForbiddenOperation):
-        return AuthError("the office folder does not let this user create folders (HTTP 403)")
-    if isinstance(exc, dav.ResourceConflict):
-        return ProtocolError("the office folder's parent does not exist on the server (HTTP 409)")
-    if isinstance(exc, dav.ClientError):
-        return ProtocolError(f"the office folder gave an unexpected answer ({type(exc).__name__})")
-    return ProtocolError(f"unexpected problem while sending ({type(exc).__name__})")
-
-
-def parse_is_collection(body: bytes) -> bool:
-    """True if a PROPFIND multistatus says the resource is a collection.
-
-    Parsed safely: at most 1 MiB, and any DTD or entity declaration is refused before parsing.
-    """
-    if len(body) > MAX_XML_BYTES:
-        raise ProtocolError("the office folder's answer is too large")
-    lowered = body.lower()
-    if b"<!doctype" in lowered or b"<!entity" in lowered:
-        raise ProtocolError("the office folder's answer declares entities; refused")
-    try:
-        root = ET.fromstring(body)
-    except ET.ParseError as exc:
-        raise ProtocolError("the office folder's answer is not valid WebDAV XML") from exc
-    if root.tag != "{DAV:}multistatus":
-        raise ProtocolError("the office folder's answer is not a WebDAV multistatus")
-    first = root.find("{DAV:}response")
-    return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
-
-
 PROPFIND_BODY = (b'<?xml version="1.0" encoding="utf-8"?>'
                  b'<d:propfind xmlns:d="DAV:"><d:prop><d:resourcetype/></d:prop></d:propfind>')
 
@@ -160,7 +119,8 @@ class Connection:
         self.url = check_url(target.url)
         timeout = httpx.Timeout(target.timeout_s, connect=min(target.timeout_s, 10.0))
         auth = (target.user, target.password) if target.user else None
-        self.client = dav.Client(self.url, auth=auth, retry=False,
+        verify = ssl.create_default_context(cafile=target.ca_file) if target.ca_file else True
+        self.client = dav.Client(self.url, auth=auth, retry=False, verify=verify,
                                  timeout=timeout, follow_redirects=False, trust_env=False)
 
     def close(self) -> None:
@@ -193,8 +153,8 @@ class Connection:
         with open(local, "rb") as fh:
             self.client.upload_fileobj(fh, remote, overwrite=True, size=size_bytes)
 
-    def read_back(self, remote: str) -> tuple[int, str]:
-        """GET a file back; its size in bytes and hex SHA-256."""
+    def read_back(self, remote: str, expected_bytes: int) -> tuple[int, str]:
+        """GET a file back; its size in bytes and hex SHA-256 (reading stops past the size sent)."""
         digest, size = hashlib.sha256(), 0
         with self.client.http.stream("GET", self.client.join_url(remote)) as response:
             if response.status_code != 200:
@@ -203,6 +163,8 @@ class Connection:
             for chunk in response.iter_bytes():
                 digest.update(chunk)
                 size += len(chunk)
+                if size > expected_bytes:
+                    break
         return size, digest.hexdigest()
 
 
@@ -223,7 +185,7 @@ def send_bundle(conn: Connection, row: dict[str, Any]) -> None:
     for f in files:
         remote = f"{row['remote_path']}/{f.remote_name}"
         conn.put(bundle_dir / f.name, remote, f.size_bytes)
-        size, sha = conn.read_back(remote)
+        size, sha = conn.read_back(remote, f.size_bytes)
         if (size, sha) != (f.size_bytes, f.sha256):
             raise VerifyError(f"{remote} arrived different from the one sent "
                               f"({size} of {f.size_bytes} bytes)")

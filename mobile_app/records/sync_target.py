@@ -1,9 +1,11 @@
 """The office's WebDAV folder as configured on the device: address rules, credentials, errors.
 
 The address must be https, or http to a loopback address only (127.0.0.0/8, ::1, localhost); it is
-checked before any traffic. Settings `sync_url` and `sync_user` live in the store; the password lives
-only on the device, in the file `sync-password` (mode 0600) beside the store: never in the database,
-an export, a log or an error message (`scrub` removes it from any text).
+checked before any traffic. Settings `sync_url`, `sync_user` and, for an office with its own
+certificate authority, `sync_ca_file` (a PEM file) live in the store. The password lives only on the
+device, in the file `sync-password` (mode 0600) beside the store: never in the database, an export,
+a log or an error message (`scrub` removes it from any text). Errors from httpx and webdav4, and
+the server's XML (parsed safely), are turned here into the typed errors below with plain messages.
 """
 
 from __future__ import annotations
@@ -11,12 +13,18 @@ from __future__ import annotations
 import base64
 import ipaddress
 import os
+import ssl
+import xml.etree.ElementTree as ET
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 from urllib.parse import quote, urlsplit
 
+import httpx
+from webdav4 import client as dav
+
 PASSWORD_FILE = "sync-password"
+MAX_XML_BYTES = 1 << 20
 
 
 class SyncError(Exception):
@@ -73,6 +81,12 @@ class ProtocolError(SyncError, ValueError):
     """The server's answer was not what a WebDAV folder gives."""
 
 
+class CertificateError(SyncError, ConnectionError):
+    """The office server's https certificate could not be verified."""
+
+    kind = "certificate"
+
+
 class VerifyError(SyncError, ValueError):
     """A file read back from the server differs from the one sent; it is sent again."""
 
@@ -87,6 +101,7 @@ class SyncTarget:
     user: str
     password: str = field(repr=False)
     timeout_s: float = 30.0
+    ca_file: str | None = None  # PEM file of the office's own certificate authority, if any
 
 
 def is_loopback_host(host: str) -> bool:
@@ -142,7 +157,68 @@ def status_error(status: int) -> SyncError:
         return StorageFullError("the office folder is full (HTTP 507)")
     if status >= 500:
         return ServerError(f"the office server failed (HTTP {status})")
+    if 300 <= status < 400:
+        return ProtocolError(f"the office folder redirects elsewhere (HTTP {status}): "
+                             "check its address (redirects are not followed)")
     return ProtocolError(f"the office folder answered HTTP {status}")
+
+
+def classify(exc: Exception) -> SyncError:
+    """Turn an httpx or webdav4 error into a typed SyncError with a plain message (no URL)."""
+    if isinstance(exc, SyncError):
+        return exc
+    if isinstance(exc, httpx.ConnectError) and _caused_by_ssl(exc):
+        return CertificateError("the office server's https certificate could not be verified; "
+                                "if the office uses its own authority, set its certificate file")
+    if isinstance(exc, httpx.ConnectTimeout | httpx.ConnectError):
+        return OfflineError("the office folder did not answer (no connection or server down)")
+    if isinstance(exc, httpx.TimeoutException):
+        return SlowServerError("the office folder was too slow to answer (timed out)")
+    if isinstance(exc, httpx.HTTPError):
+        return DroppedError("the connection to the office folder broke during the transfer")
+    if isinstance(exc, dav.InsufficientStorage):
+        return StorageFullError("the office folder is full (HTTP 507)")
+    if isinstance(exc, dav.BadGatewayError):
+        return ServerError("the office server failed (HTTP 502)")
+    if isinstance(exc, dav.HTTPError):
+        return status_error(exc.status_code)
+    if isinstance(exc, dav.ForbiddenOperation):
+        return AuthError("the office folder does not let this user create folders (HTTP 403)")
+    if isinstance(exc, dav.ResourceConflict):
+        return ProtocolError("the office folder's parent does not exist on the server (HTTP 409)")
+    if isinstance(exc, dav.ClientError):
+        return ProtocolError(f"the office folder gave an unexpected answer ({type(exc).__name__})")
+    return ProtocolError(f"unexpected problem while sending ({type(exc).__name__})")
+
+
+def _caused_by_ssl(exc: BaseException) -> bool:
+    """True if an ssl.SSLError is among the causes of `exc`."""
+    seen: BaseException | None = exc
+    while seen is not None:
+        if isinstance(seen, ssl.SSLError):
+            return True
+        seen = seen.__cause__ or seen.__context__
+    return False
+
+
+def parse_is_collection(body: bytes) -> bool:
+    """True if a PROPFIND multistatus says the resource is a collection.
+
+    Parsed safely: at most 1 MiB, and any DTD or entity declaration is refused before parsing.
+    """
+    if len(body) > MAX_XML_BYTES:
+        raise ProtocolError("the office folder's answer is too large")
+    lowered = body.lower()
+    if b"<!doctype" in lowered or b"<!entity" in lowered:
+        raise ProtocolError("the office folder's answer declares entities; refused")
+    try:
+        root = ET.fromstring(body)
+    except ET.ParseError as exc:
+        raise ProtocolError("the office folder's answer is not valid WebDAV XML") from exc
+    if root.tag != "{DAV:}multistatus":
+        raise ProtocolError("the office folder's answer is not a WebDAV multistatus")
+    first = root.find("{DAV:}response")
+    return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
 
 
 def password_path(data_dir: Path) -> Path:
@@ -178,4 +254,5 @@ def load_target(store: Any) -> SyncTarget:
     if not url:
         raise NotConfiguredError("no office folder is set (sync_url)")
     return SyncTarget(check_url(url), store.get_setting("sync_user") or "",
-                      load_password(Path(store.path).parent))
+                      load_password(Path(store.path).parent),
+                      ca_file=store.get_setting("sync_ca_file") or None)
