@@ -102,8 +102,21 @@ class StoreCore:
 
     @contextlib.contextmanager
     def _write(self) -> Iterator[sqlite3.Connection]:
-        """One write transaction (BEGIN IMMEDIATE … COMMIT); SQLite refusals become SaveError."""
+        """One write transaction (BEGIN IMMEDIATE … COMMIT); SQLite refusals become SaveError.
+
+        Inside another write it is a savepoint, so a larger change (an import) commits as one.
+        """
         conn = self.db.conn
+        if conn.in_transaction:
+            conn.execute("SAVEPOINT nested_write")
+            try:
+                yield conn
+            except BaseException:
+                conn.execute("ROLLBACK TO nested_write")
+                conn.execute("RELEASE nested_write")
+                raise
+            conn.execute("RELEASE nested_write")
+            return
         try:
             conn.execute("BEGIN IMMEDIATE")
         except sqlite3.OperationalError as error:

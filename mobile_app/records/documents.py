@@ -6,7 +6,6 @@ import datetime
 from typing import Any
 
 import calc
-from mobile_app.records.core import now_iso
 from mobile_app.records.errors import DocumentError, InvalidValueError
 from mobile_app.records.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
 from mobile_app.records.review import ReviewStore
@@ -91,37 +90,31 @@ class DocumentStore(ReviewStore):
         return None if row is None else row["name"]
 
     def import_job_document(self, doc: dict[str, Any]) -> int:
-        """Create a new draft job from a job document (fields re-parsed from their raw text,
-        circuits reassessed, library curves added when not already in the library)."""
+        """Create a new draft job from a job document, in one transaction.
+
+        Fields are re-parsed from their raw text, circuits reassessed, library curves added when
+        not already in the library; the job starts as a draft (an approval is not imported).
+        """
         if not isinstance(doc, dict) or doc.get("schema") != DOCUMENT_SCHEMA:
             raise DocumentError(f'"schema" is not "{DOCUMENT_SCHEMA}"')
         if doc.get("schema_version") != DOCUMENT_SCHEMA_VERSION:
             raise DocumentError(f"schema_version {doc.get('schema_version')!r} is not supported")
-        try:
-            library_ids = self._import_library(doc.get("library_devices") or [])
-            job = doc["job"]
-            job_id = self.create_job({n: _raw(job["fields"], n) for n in JOB_FIELDS})
-            for board in doc.get("boards") or []:
-                board_fields = board.get("fields") or {}
-                board_id = self.add_board(job_id, _raw(board_fields, "designation"))
-                for name in BOARD_FIELDS[1:]:
-                    self.set_board_field(board_id, name, _raw(board_fields, name))
-                for circuit in board.get("circuits") or []:
-                    self._import_circuit(board_id, circuit["fields"], library_ids)
-        except (KeyError, TypeError, AttributeError, InvalidValueError) as error:
-            raise DocumentError(f"{type(error).__name__}: {error}") from error
         with self._write() as conn:
-            self._audit(
-                conn,
-                job_id,
-                None,
-                "job",
-                job_id,
-                "imported",
-                None,
-                f"{_raw(job['fields'], 'client_ref')} revision {job.get('revision')}"
-                f" at {now_iso()}",
-            )
+            try:
+                library_ids = self._import_library(doc.get("library_devices") or [])
+                job = doc["job"]
+                job_id = self.create_job({n: _raw(job["fields"], n) for n in JOB_FIELDS})
+                for board in doc.get("boards") or []:
+                    board_fields = board.get("fields") or {}
+                    board_id = self.add_board(job_id, _raw(board_fields, "designation"))
+                    for name in BOARD_FIELDS[1:]:
+                        self.set_board_field(board_id, name, _raw(board_fields, name))
+                    for circuit in board.get("circuits") or []:
+                        self._import_circuit(board_id, circuit["fields"], library_ids)
+            except (KeyError, TypeError, AttributeError, InvalidValueError) as error:
+                raise DocumentError(f"{type(error).__name__}: {error}") from error
+            note = f"{_raw(job['fields'], 'client_ref')} revision {job.get('revision')}"
+            self._audit(conn, job_id, None, "job", job_id, "imported", None, note)
         return job_id
 
     def _import_circuit(
