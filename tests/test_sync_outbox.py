@@ -2,13 +2,17 @@
 
 from __future__ import annotations
 
+import ipaddress
 import json
 import random
+import re
 import stat
 import sys
 from datetime import UTC, datetime, timedelta
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from sqlite_utils import Database
 from sync_server import make_bundle
 
@@ -196,3 +200,22 @@ def test_unknown_server_xml_with_entities_is_refused():
         parse_is_collection(b"<html><body>login")
     with pytest.raises(ProtocolError, match="not a WebDAV multistatus"):
         parse_is_collection(b"<html/>")
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.text())
+def test_any_name_sanitises_to_one_safe_path_segment(name):
+    safe = safe_name(name)
+    assert re.fullmatch(r"[A-Za-z0-9-][A-Za-z0-9._-]{0,79}", safe)
+    assert safe == safe_name(safe)  # stable: a retry computes the same remote name
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.ip_addresses(v=4))
+def test_plain_http_is_accepted_exactly_for_127_0_0_0_slash_8(address):
+    url = f"http://{address}/office/"
+    if address in ipaddress.ip_network("127.0.0.0/8"):  # RFC 1122 section 3.2.1.3: loopback
+        assert check_url(url) == url
+    else:
+        with pytest.raises(InsecureTargetError):
+            check_url(url)
