@@ -1,0 +1,1 @@
+"""Reusable Flet widgets of the field app: thin, no arithmetic, no SQL."""

@@ -1,0 +1,58 @@
+"""A row of large choice buttons (one selected), saving on tap."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import flet as ft
+
+from mobile_app.state.fields import Choice
+
+
+def choice_row(
+    key: str,
+    label: str,
+    choices: tuple[Choice, ...],
+    selected: str,
+    on_pick: Callable[[str], None],
+    *,
+    disabled: bool = False,
+    message: str | None = None,
+) -> ft.Column:
+    """Label, then one button per choice; the selected one is filled and ticked."""
+    buttons: list[ft.Control] = []
+
+    def pick(value: str) -> Callable[[ft.Event[ft.Button]], None]:
+        def handler(e: ft.Event[ft.Button]) -> None:
+            for button in buttons:
+                _style(button, button.data == value)
+            on_pick(value)
+            row.update()
+
+        return handler
+
+    for choice in choices:
+        button = ft.Button(
+            content=choice.label,
+            key=f"{key}-{choice.value}",
+            data=choice.value,
+            on_click=pick(choice.value),
+            disabled=disabled,
+            height=48,
+        )
+        _style(button, choice.value == selected)
+        buttons.append(button)
+    row = ft.Row(buttons, wrap=True, spacing=8, run_spacing=8)
+    parts: list[ft.Control] = [ft.Text(label, size=14, weight=ft.FontWeight.W_600), row]
+    if message:
+        parts.append(ft.Text(message, color=ft.Colors.ERROR, size=13))
+    return ft.Column(parts, spacing=6, key=key)
+
+
+def _style(button: ft.Button, selected: bool) -> None:
+    button.icon = ft.Icons.CHECK if selected else None
+    button.style = ft.ButtonStyle(
+        bgcolor=ft.Colors.PRIMARY if selected else ft.Colors.SURFACE_CONTAINER_HIGHEST,
+        color=ft.Colors.ON_PRIMARY if selected else ft.Colors.ON_SURFACE,
+        shape=ft.RoundedRectangleBorder(radius=10),
+    )

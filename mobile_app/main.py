@@ -1,0 +1,138 @@
+"""Boardside in web mode: open the store, route between screens, serve on 127.0.0.1 without a CDN.
+
+Nothing runs at import time; `serve` (called by `python -m mobile_app`) starts the server.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Callable
+from pathlib import Path
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.palette import dark_theme, light_theme, theme_mode
+from mobile_app.records import Store
+from mobile_app.state.settings import SettingsState
+from mobile_app.state.walk import Walk
+
+ASSETS_DIR = Path(__file__).resolve().parent.parent / "assets"
+
+
+class Shell:
+    """One browser session: its page, its store and the route it shows."""
+
+    def __init__(self, page: ft.Page, store: Any) -> None:
+        self.page = page
+        self.store = store
+        self._walks: dict[int, Walk] = {}
+        self._values: dict[str, Any] = {}
+
+    def go(self, route: str) -> None:
+        """Show another screen (pushes a browser history entry, so reload and back work)."""
+        self.page.run_task(self.page.push_route, route)
+
+    def toast(self, message: str) -> None:
+        """A short message at the bottom of the screen."""
+        self.page.show_dialog(ft.SnackBar(ft.Text(message), key="toast"))
+
+    def walk(self, circuit_id: int, step: str) -> Walk:
+        """The walk state of a circuit, kept for the session so unsaved text survives step changes."""
+        walk = self._walks.get(circuit_id)
+        if walk is None:
+            walk = self._walks[circuit_id] = Walk(self.store, circuit_id, step)
+        else:
+            walk.step = step
+            walk.reload()
+        return walk
+
+    def session_value(self, key: str, factory: Callable[[], Any]) -> Any:
+        """A state object kept for the session (e.g. a curve being entered), made on first use."""
+        if key not in self._values:
+            self._values[key] = factory()
+        return self._values[key]
+
+    def forget(self, key: str) -> None:
+        """Drop a session state object."""
+        self._values.pop(key, None)
+
+    def apply_theme(self) -> None:
+        """Theme mode from the settings."""
+        self.page.theme_mode = theme_mode(SettingsState(self.store).get("theme"))
+
+    def render(self) -> None:
+        """Build the view for the current route."""
+        view = route_view(self, self.page.route or "/")
+        self.page.views.clear()
+        self.page.views.append(view)
+        self.page.update()
+
+
+def _routes() -> list[tuple[re.Pattern[str], Callable[..., ft.View]]]:
+    from mobile_app.views import (
+        job_view,
+        jobs_view,
+        library_view,
+        new_job_view,
+        outbox_view,
+        review_view,
+        settings_view,
+        walk_view,
+    )
+
+    return [
+        (re.compile(r"^/?$"), jobs_view.build),
+        (re.compile(r"^/new$"), new_job_view.build),
+        (re.compile(r"^/job/(\d+)$"), job_view.build),
+        (re.compile(r"^/job/(\d+)/review$"), review_view.build),
+        (re.compile(r"^/job/(\d+)/circuit/(\d+)/(\w+)$"), walk_view.build),
+        (re.compile(r"^/library$"), library_view.build),
+        (re.compile(r"^/outbox$"), outbox_view.build),
+        (re.compile(r"^/settings$"), settings_view.build),
+    ]
+
+
+def route_view(shell: Shell, route: str) -> ft.View:
+    """The view for a route; unknown routes show the jobs list."""
+    path = route.split("?", 1)[0]
+    for pattern, build in _routes():
+        match = pattern.match(path)
+        if match:
+            return build(shell, *match.groups())
+    return _routes()[0][1](shell)
+
+
+def make_main(data_dir: Path | None) -> Callable[[ft.Page], None]:
+    """The Flet entry point for one session, bound to the store folder."""
+
+    def main(page: ft.Page) -> None:
+        page.title = "Boardside"
+        page.theme = light_theme()
+        page.dark_theme = dark_theme()
+        shell = Shell(page, Store.open(data_dir))
+        shell.apply_theme()
+        page.on_route_change = lambda _e: shell.render()
+        page.on_close = lambda _e: shell.store.close()
+        shell.render()
+
+    return main
+
+
+def serve(port: int, data_dir: Path | None, demo: bool) -> int:
+    """Serve the app on 127.0.0.1:`port` with no CDN; with `demo`, create the demo job first."""
+    if demo:
+        from mobile_app.state.jobs import demo_if_empty
+
+        with Store.open(data_dir) as store:
+            demo_if_empty(store)
+    ft.run(
+        make_main(data_dir),
+        view=ft.AppView.WEB_BROWSER,
+        host="127.0.0.1",
+        port=port,
+        no_cdn=True,
+        assets_dir=str(ASSETS_DIR),
+        name="",
+    )
+    return 0

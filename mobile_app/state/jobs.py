@@ -1,0 +1,227 @@
+"""The jobs list and one job's screen: supply, boards and each board's circuits with their marks."""
+
+from __future__ import annotations
+
+import datetime
+from dataclasses import dataclass
+from typing import Any
+
+from mobile_app.records import StoreError
+from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, FieldSpec, all_specs
+from mobile_app.state.settings import SettingsState
+from mobile_app.state.text import VerdictMark, format_quantity, status_word, verdict_mark
+
+
+@dataclass(frozen=True)
+class JobRow:
+    """One line of the jobs list."""
+
+    id: int
+    title: str
+    subtitle: str
+    status: str
+    status_word: str
+    circuits: int
+    failing: int
+    incomplete: int
+
+    @property
+    def summary(self) -> str:
+        """`8 circuits · 2 failing · 1 incomplete`."""
+        parts = [f"{self.circuits} circuit" + ("" if self.circuits == 1 else "s")]
+        if self.failing:
+            parts.append(f"{self.failing} failing")
+        if self.incomplete:
+            parts.append(f"{self.incomplete} incomplete")
+        return " · ".join(parts)
+
+
+class JobsList:
+    """The jobs list: search text and the rows that match it."""
+
+    def __init__(self, store: Any) -> None:
+        self.store = store
+        self.search = ""
+
+    def rows(self) -> list[JobRow]:
+        """Jobs matching the search, as the store orders them."""
+        return [
+            JobRow(
+                id=int(job["id"]),
+                title=job.get("client_ref") or f"Job {job['id']}",
+                subtitle=" · ".join(p for p in (job.get("site_address"), job.get("date")) if p),
+                status=job.get("status") or "draft",
+                status_word=status_word(job.get("status")),
+                circuits=int(job.get("circuits") or 0),
+                failing=int(job.get("failing") or 0),
+                incomplete=int(job.get("incomplete") or 0),
+            )
+            for job in self.store.list_jobs(self.search.strip())
+        ]
+
+    def new_job(self, client_ref: str, site_address: str = "", by: int | None = None) -> int:
+        """Create a draft job with the supply defaults from settings and one board; returns its id."""
+        defaults = SettingsState(self.store).job_defaults()
+        fields = {
+            "client_ref": client_ref.strip() or "New job",
+            "site_address": site_address.strip(),
+            "date": datetime.date.today().isoformat(),
+            **defaults,
+        }
+        job_id = int(self.store.create_job(fields, by=by))
+        self.store.add_board(job_id, "DB1")
+        return job_id
+
+
+@dataclass(frozen=True)
+class CircuitRow:
+    """One circuit under its board: number, description, verdict mark."""
+
+    id: int
+    number: str
+    description: str
+    verdict: str
+    mark: VerdictMark
+
+
+@dataclass(frozen=True)
+class BoardView:
+    """One board with its circuits."""
+
+    id: int
+    designation: str
+    location: str
+    circuits: tuple[CircuitRow, ...]
+
+
+@dataclass(frozen=True)
+class JobField:
+    """One job or supply field: spec, text as typed, parsed value text, message."""
+
+    spec: FieldSpec
+    raw: str
+    parsed_text: str
+    message: str | None
+
+
+class JobScreen:
+    """One job: its header and supply fields, boards and circuits."""
+
+    def __init__(self, store: Any, job_id: int, by: int | None = None) -> None:
+        self.store = store
+        self.job_id = job_id
+        self.by = by
+        self._typed: dict[str, str] = {}
+        self._save_errors: dict[str, str] = {}
+        self.reload()
+
+    def reload(self) -> None:
+        """Read the job again."""
+        self.job: dict[str, Any] = self.store.get_job(self.job_id)
+
+    @property
+    def title(self) -> str:
+        """The job's client reference, or its number."""
+        raw = (self.job["fields"].get("client_ref") or {}).get("raw")
+        return raw or self.job.get("client_ref") or f"Job {self.job_id}"
+
+    @property
+    def status_word(self) -> str:
+        """Draft, In review, Approved."""
+        return status_word(self.job.get("status"))
+
+    @property
+    def read_only(self) -> bool:
+        """Only draft jobs can be changed."""
+        return (self.job.get("status") or "draft") != "draft"
+
+    def _field(self, spec: FieldSpec) -> JobField:
+        stored = self.job["fields"].get(spec.name) or {}
+        raw = self._typed.get(spec.name, stored.get("raw") or "")
+        value = stored.get("value")
+        parsed = ""
+        if spec.kind == "number" and isinstance(value, int | float) and not stored.get("error"):
+            parsed = "= " + format_quantity(float(value), spec.unit)
+        error = stored.get("error")
+        message = self._save_errors.get(spec.name) or (f"{spec.label}: {error}" if error else None)
+        return JobField(spec, raw, parsed, message)
+
+    def header_fields(self) -> list[JobField]:
+        """Client reference, site, date, description."""
+        return [self._field(spec) for spec in JOB_SPECS]
+
+    def supply_fields(self) -> list[JobField]:
+        """System, U0, Cmin, Ze, prospective fault current."""
+        return [self._field(spec) for spec in SUPPLY_SPECS]
+
+    def set_field(self, name: str, raw: str) -> JobField:
+        """Save one job field at once; a failed save keeps the typed text and says why."""
+        spec = next(s for s in JOB_SPECS + SUPPLY_SPECS if s.name == name)
+        self._typed[name] = raw
+        try:
+            self.store.set_job_field(self.job_id, name, raw, by=self.by)
+        except StoreError as exc:
+            self._save_errors[name] = f"Not saved ({exc}); your text is kept"
+            return self._field(spec)
+        self._typed.pop(name, None)
+        self._save_errors.pop(name, None)
+        self.reload()
+        return self._field(spec)
+
+    def boards(self) -> list[BoardView]:
+        """Boards in order, each with its circuits and their verdict marks."""
+        views = []
+        for board in self.store.boards(self.job_id):
+            circuits = tuple(
+                CircuitRow(
+                    id=int(c["id"]),
+                    number=str(c.get("number") or ""),
+                    description=str(c.get("description") or ""),
+                    verdict=c.get("verdict") or "incomplete",
+                    mark=verdict_mark(c.get("verdict")),
+                )
+                for c in self.store.circuits(board["id"])
+            )
+            views.append(
+                BoardView(
+                    id=int(board["id"]),
+                    designation=str(board.get("designation") or ""),
+                    location=str(board.get("location") or ""),
+                    circuits=circuits,
+                )
+            )
+        return views
+
+    def add_board(self, designation: str = "") -> int:
+        """Add a board named `designation` (or the next DBn)."""
+        name = designation.strip() or f"DB{len(self.store.boards(self.job_id)) + 1}"
+        return int(self.store.add_board(self.job_id, name))
+
+    def add_circuit(self, board_id: int, description: str = "") -> int:
+        """Add the board's next circuit; choices the store left blank get the usual defaults."""
+        existing = self.store.circuits(board_id)
+        numbers = [int(c["number"]) for c in existing if str(c.get("number", "")).isdigit()]
+        number = str(max(numbers, default=0) + 1)
+        circuit_id = int(self.store.add_circuit(board_id, number, description, by=self.by))
+        fields = self.store.get_circuit(circuit_id)["fields"]
+        for spec in all_specs().values():
+            if spec.default and not (fields.get(spec.name) or {}).get("raw"):
+                self.store.set_circuit_field(circuit_id, spec.name, spec.default, by=self.by)
+        return circuit_id
+
+
+def ensure_demo(store: Any) -> int:
+    """The demo job's id, creating it (`mobile_app.records.demo`) if the store does not hold it."""
+    from mobile_app.records import demo
+
+    for job in store.list_jobs(demo.JOB["client_ref"]):
+        if job.get("client_ref") == demo.JOB["client_ref"]:
+            return int(job["id"])
+    return int(demo.create_demo_job(store))
+
+
+def demo_if_empty(store: Any) -> int | None:
+    """Create the demo job when the store holds no job at all (`--demo`); returns its id or None."""
+    if store.list_jobs():
+        return None
+    return ensure_demo(store)

@@ -1,0 +1,116 @@
+"""The device library: a manufacturer's curve entered point by point, with a live preview."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any
+
+import calc
+from mobile_app.records import StoreError
+from mobile_app.state.chart import ChartModel, chart_for
+
+MIN_POINTS = 2
+
+
+@dataclass
+class PointRow:
+    """One point as typed: current and time text, each with its own message."""
+
+    current: str = ""
+    time: str = ""
+    current_error: str | None = None
+    time_error: str | None = None
+
+
+@dataclass
+class CurveDraft:
+    """A curve being entered: its name, rating and point rows, checked on every change."""
+
+    name: str = ""
+    rating: str = ""
+    rows: list[PointRow] = field(default_factory=lambda: [PointRow(), PointRow(), PointRow()])
+    message: str | None = None
+
+    def set_cell(self, index: int, column: str, text: str) -> None:
+        """Change one cell (`column` is "current" or "time") and check it at once."""
+        row = self.rows[index]
+        setattr(row, column, text)
+        path = f"circuit.device.points.{column}"
+        error: str | None = None
+        if text.strip():
+            try:
+                calc.parse_value(path, text)
+            except calc.InputError as exc:
+                error = f"{column.capitalize()}: {exc.problem}"
+        setattr(row, f"{column}_error", error)
+
+    def add_row(self) -> None:
+        """One more empty point."""
+        self.rows.append(PointRow())
+
+    def remove_row(self, index: int) -> None:
+        """Drop a point (at least two rows stay)."""
+        if len(self.rows) > MIN_POINTS:
+            del self.rows[index]
+
+    def _points(self) -> list[list[str]]:
+        return [[r.current, r.time] for r in self.rows if r.current.strip() and r.time.strip()]
+
+    def device(self) -> dict[str, Any]:
+        """The device dict for calc: kind "curve", the typed points and the rating if given."""
+        device: dict[str, Any] = {"kind": "curve", "points": self._points()}
+        if self.rating.strip():
+            device["rating"] = self.rating
+        return device
+
+    def problem(self) -> str | None:
+        """Why the curve cannot be saved yet, in words; None when it can."""
+        for index, row in enumerate(self.rows, start=1):
+            if row.current_error or row.time_error:
+                return f"Point {index}: {row.current_error or row.time_error}"
+        if len(self._points()) < MIN_POINTS:
+            return "Enter at least two points (current and time)"
+        try:
+            calc.device_curve(self.device())
+        except calc.InputError as exc:
+            return _curve_message(exc)
+        return None
+
+    def preview(self) -> ChartModel | None:
+        """The curve drawn as typed so far; None until it is valid."""
+        if self.problem():
+            return None
+        return chart_for(self.device(), None)
+
+    def save(self, store: Any) -> int | None:
+        """Add the curve to the library; returns its id, or None with `message` saying why not."""
+        problem = self.problem() or (None if self.name.strip() else "Give the curve a name")
+        if problem:
+            self.message = problem
+            return None
+        points = [
+            (
+                calc.parse_value("circuit.device.points.current", current),
+                calc.parse_value("circuit.device.points.time", time),
+            )
+            for current, time in self._points()
+        ]
+        rating = calc.parse_value("circuit.device.rating", self.rating) if self.rating.strip() else None
+        try:
+            device_id = int(store.add_library_device(self.name.strip(), points, rating_a=rating))
+        except StoreError as exc:
+            self.message = f"Not saved: {exc}"
+            return None
+        self.message = f"Saved {self.name.strip()} to the library"
+        return device_id
+
+
+def _curve_message(exc: calc.InputError) -> str:
+    """calc's point errors in the screen's words."""
+    problem = exc.problem
+    if exc.field.startswith("circuit.device.points[") and "]" in exc.field:
+        index = exc.field.split("[", 1)[1].split("]", 1)[0]
+        return f"Point {index}: {problem}"
+    if "fall" in problem:
+        return f"Times must fall as current rises: {problem.split('(', 1)[-1].rstrip(')')}"
+    return problem[0].upper() + problem[1:]

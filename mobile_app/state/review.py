@@ -1,0 +1,117 @@
+"""Review: submit a job; a supervisor approves with name and PIN, or returns it with a comment."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from mobile_app.records import LockedOutError, PinError, StoreError
+from mobile_app.state.text import status_word
+
+
+@dataclass(frozen=True)
+class Outcome:
+    """What a review action did: done or not, and the message to show."""
+
+    ok: bool
+    message: str
+
+
+class ReviewState:
+    """The review screen of one job."""
+
+    def __init__(self, store: Any, job_id: int) -> None:
+        self.store = store
+        self.job_id = job_id
+
+    @property
+    def status(self) -> str:
+        """draft, in review (as the store spells it), approved."""
+        return str(self.store.get_job(self.job_id).get("status") or "draft")
+
+    @property
+    def status_word(self) -> str:
+        """The status as shown."""
+        return status_word(self.status)
+
+    def supervisors(self) -> list[dict[str, Any]]:
+        """People who may approve."""
+        return [p for p in self.store.people() if p.get("role") == "supervisor"]
+
+    def _person(self, name: str, role: str | None) -> dict[str, Any] | None:
+        wanted = name.strip().casefold()
+        for person in self.store.people():
+            if person["name"].strip().casefold() == wanted and (role is None or person["role"] == role):
+                return person
+        return None
+
+    def recorder(self, name: str) -> int:
+        """The id of the person recording (created as qualified the first time)."""
+        person = self._person(name, None)
+        if person is not None:
+            return int(person["id"])
+        return int(self.store.add_person(name.strip() or "Electrician", "qualified"))
+
+    def submit(self, recorded_by: str) -> Outcome:
+        """Submit the job for review in the name of `recorded_by`."""
+        try:
+            self.store.submit_for_review(self.job_id, self.recorder(recorded_by))
+        except StoreError as exc:
+            return Outcome(False, f"Not submitted: {exc}")
+        return Outcome(True, "Submitted for review")
+
+    def approve(self, supervisor_name: str, pin: str) -> Outcome:
+        """Approve as the named supervisor with their PIN."""
+        person = self._person(supervisor_name, "supervisor")
+        if person is None:
+            return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
+        if not pin.strip():
+            return Outcome(False, "Enter the supervisor's PIN")
+        try:
+            self.store.approve(self.job_id, int(person["id"]), pin.strip())
+        except LockedOutError as exc:
+            return Outcome(False, f"Locked: {exc}")
+        except PinError as exc:
+            return Outcome(False, f"PIN not accepted: {exc}")
+        except StoreError as exc:
+            return Outcome(False, f"Not approved: {exc}")
+        return Outcome(True, f"Approved by {person['name']}")
+
+    def return_to_draft(self, supervisor_name: str, comment: str) -> Outcome:
+        """Return the job to its recorder with a comment (the comment is required)."""
+        if not comment.strip():
+            return Outcome(False, "Say what needs changing before returning the job")
+        person = self._person(supervisor_name, "supervisor")
+        if person is None:
+            return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
+        try:
+            self.store.return_to_draft(self.job_id, int(person["id"]), comment.strip())
+        except StoreError as exc:
+            return Outcome(False, f"Not returned: {exc}")
+        return Outcome(True, "Returned to draft with your comment")
+
+    def add_supervisor(self, name: str, pin: str) -> Outcome:
+        """Register a supervisor with a PIN (the store checks the PIN's length)."""
+        if not name.strip():
+            return Outcome(False, "Enter the supervisor's name")
+        try:
+            self.store.add_person(name.strip(), "supervisor", pin.strip())
+        except StoreError as exc:
+            return Outcome(False, f"Not added: {exc}")
+        return Outcome(True, f"Supervisor {name.strip()} added")
+
+    def history(self, limit: int = 12) -> list[str]:
+        """The job's review events as lines (`2026-12-02 07:30 · Approved (was In review) · Ann`)."""
+        lines = []
+        for entry in self.store.audit(self.job_id):
+            if entry.get("entity") == "review" and entry.get("field") == "status":
+                what = f"{status_word(entry.get('new'))} (was {status_word(entry.get('old'))})"
+            elif entry.get("entity") == "review":
+                what = f"{entry.get('field') or 'review'}: {entry.get('new')}"
+            elif entry.get("entity") == "job" and entry.get("new") == "created":
+                what = "created"
+            else:
+                continue
+            when = str(entry.get("when") or "")[:16].replace("T", " ")
+            lines.append(" · ".join(str(p) for p in (when, what, entry.get("who")) if p))
+        return lines[-limit:]

@@ -1,0 +1,101 @@
+"""Settings: supply defaults for new jobs, the final-circuit scope and the office sync target.
+
+Setting keys in the store: `default_system`, `default_u0`, `default_cmin`, `final_circuit_max_a`
+("32" or "63"), `sync_url`, `sync_user`, `theme` ("light", "dark" or "system"). The sync password is
+not a setting: it is handed to the sync step only.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from mobile_app.records import StoreError
+
+DEFAULTS: dict[str, str] = {
+    "default_system": "TN-C-S",
+    "default_u0": "230",
+    "default_cmin": "0.95",
+    "final_circuit_max_a": "32",
+    "sync_url": "",
+    "sync_user": "",
+    "theme": "system",
+}
+SCOPES: tuple[str, ...] = ("32", "63")
+THEMES: tuple[str, ...] = ("system", "light", "dark")
+
+
+class SettingsError(ValueError):
+    """A setting value the app does not accept."""
+
+
+@dataclass(frozen=True)
+class SettingView:
+    """One setting as shown: key, current text, message if the last save failed."""
+
+    key: str
+    value: str
+    message: str | None
+
+
+class SettingsState:
+    """Read and save settings, each at once."""
+
+    def __init__(self, store: Any) -> None:
+        self.store = store
+        self._messages: dict[str, str] = {}
+        self._typed: dict[str, str] = {}
+
+    def get(self, key: str) -> str:
+        """The saved text of a setting, or its default."""
+        if key in self._typed:
+            return self._typed[key]
+        value = self.store.get_setting(key, None)
+        return DEFAULTS.get(key, "") if value is None else str(value)
+
+    def view(self, key: str) -> SettingView:
+        """A setting with its message."""
+        return SettingView(key, self.get(key), self._messages.get(key))
+
+    def set(self, key: str, value: str) -> SettingView:
+        """Save one setting; a rejected or failed save keeps the text and says why."""
+        self._typed[key] = value
+        try:
+            self._check(key, value)
+            self.store.set_setting(key, value.strip())
+        except (SettingsError, StoreError) as exc:
+            self._messages[key] = str(exc)
+            return self.view(key)
+        self._typed.pop(key, None)
+        self._messages.pop(key, None)
+        return self.view(key)
+
+    @staticmethod
+    def _check(key: str, value: str) -> None:
+        if key not in DEFAULTS:
+            raise SettingsError(f"unknown setting {key!r}")
+        if key == "final_circuit_max_a" and value.strip() not in SCOPES:
+            raise SettingsError("final-circuit scope must be 32 or 63 A")
+        if key == "theme" and value.strip() not in THEMES:
+            raise SettingsError("theme must be system, light or dark")
+        url = value.strip()
+        if key == "sync_url" and url and not url.startswith(("https://", "http://")):
+            raise SettingsError("the office folder address must start with https://")
+
+    def job_defaults(self) -> dict[str, str]:
+        """Supply fields for a new job."""
+        return {
+            "system": self.get("default_system"),
+            "u0": self.get("default_u0"),
+            "cmin": self.get("default_cmin"),
+        }
+
+    def save_office(self, url: str, user: str, password: str) -> str:
+        """Check and save the office folder (password kept beside the store, never in settings)."""
+        from mobile_app.records.sync import SyncError, save_target
+
+        try:
+            save_target(self.store, url.strip(), user.strip(), password)
+        except (SyncError, StoreError, OSError) as exc:
+            return f"Not saved: {exc}"
+        return "Office folder saved"

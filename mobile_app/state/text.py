@@ -1,0 +1,75 @@
+"""Words, marks and number formats shared by every screen."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import calc
+
+CAUTIONS: tuple[str, ...] = tuple(calc.CAUTIONS)
+"""The cautions shown wherever results are shown: the calculation core's own words."""
+
+
+@dataclass(frozen=True)
+class VerdictMark:
+    """How a verdict is shown: a word, an icon name (Flet Icons member) and a colour role."""
+
+    word: str
+    icon: str
+    tone: str
+
+
+_MARKS: dict[str, VerdictMark] = {
+    "pass": VerdictMark("PASS", "CHECK_CIRCLE", "good"),
+    "fail": VerdictMark("FAIL", "CANCEL", "bad"),
+    "incomplete": VerdictMark("INCOMPLETE", "HOURGLASS_EMPTY", "unknown"),
+    "check": VerdictMark("CHECK", "WARNING_AMBER", "warn"),
+    "info": VerdictMark("INFO", "INFO_OUTLINE", "neutral"),
+}
+
+
+def verdict_mark(verdict: str | None) -> VerdictMark:
+    """The word, icon and tone for a verdict; unknown or missing verdicts read as incomplete."""
+    return _MARKS.get(verdict or "incomplete", _MARKS["incomplete"])
+
+
+_STATUS_WORDS = {
+    "draft": "Draft",
+    "in_review": "In review",
+    "in-review": "In review",
+    "review": "In review",
+    "submitted": "In review",
+    "returned": "Returned",
+    "approved": "Approved",
+}
+
+
+def status_word(status: str | None) -> str:
+    """The word shown for a job's status."""
+    return _STATUS_WORDS.get(status or "draft", (status or "draft").replace("_", " ").capitalize())
+
+
+def format_number(value: float) -> str:
+    """A number with three significant figures, without exponent for everyday magnitudes."""
+    if value == 0:
+        return "0"
+    magnitude = abs(value)
+    if magnitude >= 1000:
+        return f"{value:,.0f}".replace(",", " ")
+    if magnitude >= 100:
+        return f"{value:.0f}"
+    if magnitude >= 10:
+        return f"{value:.1f}"
+    if magnitude >= 1:
+        return f"{value:.2f}"
+    if magnitude >= 0.001:
+        return f"{value:.3g}"
+    return f"{value:.2e}"
+
+
+def format_quantity(value: float | None, unit: str) -> str:
+    """`0.62 Ω`, `370 A`, `0.0123 s`; an em dash when there is no value."""
+    if value is None:
+        return "—"
+    text = format_number(float(value))
+    return f"{text} {unit}".strip()

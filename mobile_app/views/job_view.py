@@ -1,0 +1,97 @@
+"""A job: its details and supply, its boards, each board's circuits with their verdict marks."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.choice_row import choice_row
+from mobile_app.components.screen import screen
+from mobile_app.components.text_input import text_input
+from mobile_app.components.verdict_badge import verdict_badge
+from mobile_app.state.jobs import BoardView, JobField, JobScreen
+
+
+def _input(job: JobScreen, field: JobField) -> ft.Control:
+    name = field.spec.name
+    if field.spec.kind == "choice":
+        return choice_row(
+            f"job-{name}", field.spec.label, field.spec.choices, field.raw,
+            lambda value: job.set_field(name, value), disabled=job.read_only, message=field.message,
+        )
+
+    def changed(text: str) -> tuple[str, str | None]:
+        saved = job.set_field(name, text)
+        return saved.parsed_text, saved.message
+
+    return text_input(
+        f"job-{name}", field.spec.label, field.raw, changed,
+        numeric=field.spec.kind == "number", hint=field.spec.hint, helper=field.parsed_text,
+        error=field.message, read_only=job.read_only,
+    )
+
+
+def _board(shell: Any, job: JobScreen, board: BoardView) -> ft.Control:
+    tiles: list[ft.Control] = [
+        ft.ListTile(
+            key=f"circuit-{c.id}",
+            leading=ft.Text(c.number, size=20, weight=ft.FontWeight.BOLD),
+            title=ft.Text(c.description or f"Circuit {c.number}", size=16),
+            trailing=verdict_badge(c.mark, size=13),
+            on_click=lambda _e, cid=c.id: shell.go(f"/job/{job.job_id}/circuit/{cid}/device"),
+            min_height=56,
+        )
+        for c in board.circuits
+    ]
+    if not tiles:
+        tiles.append(ft.Text("No circuits yet.", size=14))
+
+    def add(_e: Any) -> None:
+        circuit_id = job.add_circuit(board.id)
+        shell.go(f"/job/{job.job_id}/circuit/{circuit_id}/device")
+
+    if not job.read_only:
+        tiles.append(
+            ft.OutlinedButton("Add circuit", icon=ft.Icons.ADD, height=48,
+                              key=f"add-circuit-{board.id}", on_click=add)
+        )
+    title = board.designation + (f" · {board.location}" if board.location else "")
+    return ft.Card(
+        content=ft.Container(
+            ft.Column([ft.Text(title, size=18, weight=ft.FontWeight.BOLD), *tiles], spacing=4),
+            padding=12,
+        )
+    )
+
+
+def build(shell: Any, job_id: str) -> ft.View:
+    """The job screen."""
+    job = JobScreen(shell.store, int(job_id))
+
+    def add_board(_e: Any) -> None:
+        job.add_board()
+        shell.render()
+
+    body: list[ft.Control] = [
+        ft.Row(
+            [ft.Icon(ft.Icons.LOCK if job.read_only else ft.Icons.EDIT_NOTE),
+             ft.Text(f"Status: {job.status_word}", size=16, weight=ft.FontWeight.BOLD,
+                     key="job-status")],
+            spacing=6,
+        ),
+    ]
+    if job.read_only:
+        body.append(ft.Text("This job is locked while in review or approved.", size=14))
+    body.append(ft.Text("Boards and circuits", size=20, weight=ft.FontWeight.BOLD))
+    body.extend(_board(shell, job, board) for board in job.boards())
+    if not job.read_only:
+        body.append(ft.OutlinedButton("Add board", icon=ft.Icons.ADD, height=48, key="add-board",
+                                      on_click=add_board))
+    body.append(ft.Text("Supply", size=20, weight=ft.FontWeight.BOLD))
+    body.extend(_input(job, field) for field in job.supply_fields())
+    body.append(ft.Text("Job details", size=20, weight=ft.FontWeight.BOLD))
+    body.extend(_input(job, field) for field in job.header_fields())
+    review = ft.FilledButton("Review", icon=ft.Icons.RATE_REVIEW, height=48, key="open-review",
+                             on_click=lambda _e: shell.go(f"/job/{job.job_id}/review"))
+    return screen(f"/job/{job_id}", job.title, body, shell.go, back="/", bottom=review)

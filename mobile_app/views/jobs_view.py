@@ -1,0 +1,90 @@
+"""Jobs: search, each job's status and failing circuits, new job, open the demo."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.screen import screen
+from mobile_app.state.jobs import JobRow, JobsList, ensure_demo
+
+
+def _job_card(row: JobRow, go: Any) -> ft.Card:
+    status_icon = {"approved": ft.Icons.VERIFIED, "draft": ft.Icons.EDIT_NOTE}.get(
+        row.status, ft.Icons.RATE_REVIEW
+    )
+    failing = (
+        ft.Row(
+            [ft.Icon(ft.Icons.CANCEL, color="#B3141B", size=20),
+             ft.Text(f"{row.failing} failing", weight=ft.FontWeight.BOLD)],
+            spacing=4,
+            tight=True,
+        )
+        if row.failing
+        else ft.Row([ft.Icon(ft.Icons.CHECK_CIRCLE_OUTLINE, size=20), ft.Text("none failing")],
+                    spacing=4, tight=True)
+    )
+    return ft.Card(
+        key=f"job-{row.id}",
+        content=ft.ListTile(
+            title=ft.Text(row.title, size=18, weight=ft.FontWeight.BOLD),
+            subtitle=ft.Column(
+                [
+                    ft.Text(row.subtitle or "No site address"),
+                    ft.Row(
+                        [ft.Icon(status_icon, size=20), ft.Text(row.status_word), failing],
+                        spacing=8,
+                        wrap=True,
+                    ),
+                    ft.Text(row.summary, size=13),
+                ],
+                spacing=4,
+                tight=True,
+            ),
+            on_click=lambda _e: go(f"/job/{row.id}"),
+            min_height=72,
+        ),
+    )
+
+
+def build(shell: Any) -> ft.View:
+    """The jobs list."""
+    jobs = JobsList(shell.store)
+    listing = ft.Column(spacing=8, key="job-list")
+
+    def fill() -> None:
+        rows = jobs.rows()
+        listing.controls = [_job_card(row, shell.go) for row in rows] or [
+            ft.Text("No jobs match." if jobs.search else "No jobs yet: start a new one.", size=16)
+        ]
+
+    def searched(e: ft.Event[ft.TextField]) -> None:
+        jobs.search = e.control.value or ""
+        fill()
+        listing.update()
+
+    def open_demo(_e: Any) -> None:
+        shell.go(f"/job/{ensure_demo(shell.store)}")
+
+    fill()
+    body: list[ft.Control] = [
+        ft.TextField(
+            key="job-search",
+            label="Search jobs",
+            prefix_icon=ft.Icons.SEARCH,
+            on_change=searched,
+        ),
+        ft.Row(
+            [
+                ft.FilledButton("New job", icon=ft.Icons.ADD, key="new-job", height=48,
+                                on_click=lambda _e: shell.go("/new")),
+                ft.OutlinedButton("Open demo", icon=ft.Icons.SCHOOL_OUTLINED, key="open-demo",
+                                  height=48, on_click=open_demo),
+            ],
+            wrap=True,
+            spacing=10,
+        ),
+        listing,
+    ]
+    return screen("/", "Boardside", body, shell.go, tab=0)

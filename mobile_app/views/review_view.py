@@ -1,0 +1,66 @@
+"""Review: submit the job; a supervisor approves with name and PIN or returns it with a comment."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.screen import screen
+from mobile_app.state.review import Outcome, ReviewState
+
+
+def build(shell: Any, job_id: str) -> ft.View:
+    """The review screen of a job."""
+    review = ReviewState(shell.store, int(job_id))
+    status = review.status
+    message = ft.Text("", size=15, key="review-message")
+
+    def show(outcome: Outcome) -> None:
+        if outcome.ok:
+            shell.toast(outcome.message)
+            shell.render()
+        else:
+            message.value = outcome.message
+            message.color = ft.Colors.ERROR
+            message.update()
+
+    body: list[ft.Control] = [
+        ft.Text(f"Status: {review.status_word}", size=20, weight=ft.FontWeight.BOLD, key="review-status"),
+    ]
+    if status == "draft":
+        recorder = ft.TextField(key="recorder-name", label="Recorded by (your name)")
+        body += [
+            ft.Text("When every circuit is walked, submit the job for a supervisor's review.", size=15),
+            recorder,
+            ft.FilledButton("Submit for review", icon=ft.Icons.SEND, height=48, key="submit-review",
+                            on_click=lambda _e: show(review.submit(recorder.value or ""))),
+        ]
+    elif status == "approved":
+        body.append(ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28),
+                            ft.Text("Approved and locked.", size=16)]))
+    else:
+        supervisor = ft.TextField(key="supervisor-name", label="Supervisor name")
+        pin = ft.TextField(key="supervisor-pin", label="PIN", password=True,
+                           keyboard_type=ft.KeyboardType.NUMBER)
+        comment = ft.TextField(key="return-comment", label="Comment (to return the job)",
+                               multiline=True, min_lines=2)
+        body += [
+            ft.Text("Supervisor: check the circuits, then approve with your PIN or return the job "
+                    "with a comment.", size=15),
+            supervisor,
+            pin,
+            ft.FilledButton("Approve", icon=ft.Icons.VERIFIED, height=48, key="approve",
+                            on_click=lambda _e: show(review.approve(supervisor.value or "",
+                                                                    pin.value or ""))),
+            comment,
+            ft.OutlinedButton("Return to draft", icon=ft.Icons.UNDO, height=48, key="return-draft",
+                              on_click=lambda _e: show(review.return_to_draft(
+                                  supervisor.value or "", comment.value or ""))),
+        ]
+    body.append(message)
+    history = review.history()
+    if history:
+        body.append(ft.Text("History", size=18, weight=ft.FontWeight.BOLD))
+        body.extend(ft.Text(line, size=13) for line in history)
+    return screen(f"/job/{job_id}/review", "Review", body, shell.go, back=f"/job/{job_id}")

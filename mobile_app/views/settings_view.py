@@ -1,0 +1,88 @@
+"""Settings: supply defaults, final-circuit scope, theme, the office folder and supervisors."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.choice_row import choice_row
+from mobile_app.components.screen import screen
+from mobile_app.components.text_input import text_input
+from mobile_app.state.fields import SYSTEMS, Choice
+from mobile_app.state.review import ReviewState
+from mobile_app.state.settings import SettingsState
+
+
+def build(shell: Any) -> ft.View:
+    """The settings screen."""
+    settings = SettingsState(shell.store)
+
+    def saver(key: str) -> Any:
+        def changed(text: str) -> tuple[str, str | None]:
+            view = settings.set(key, text)
+            return "", view.message
+
+        return changed
+
+    def theme_picked(value: str) -> None:
+        settings.set("theme", value)
+        shell.apply_theme()
+        shell.page.update()
+
+    office_message = ft.Text("", size=14, key="office-message")
+    url = ft.TextField(key="sync-url", label="Office folder (WebDAV https:// address)",
+                       value=settings.get("sync_url"))
+    user = ft.TextField(key="sync-user", label="User", value=settings.get("sync_user"))
+    password = ft.TextField(key="sync-password", label="Password", password=True,
+                            can_reveal_password=True)
+
+    def save_office(_e: Any) -> None:
+        office_message.value = settings.save_office(url.value or "", user.value or "",
+                                                    password.value or "")
+        office_message.update()
+
+    sup_name = ft.TextField(key="new-supervisor-name", label="Supervisor name")
+    sup_pin = ft.TextField(key="new-supervisor-pin", label="Supervisor PIN", password=True,
+                           keyboard_type=ft.KeyboardType.NUMBER)
+    sup_message = ft.Text("", size=14, key="supervisor-message")
+
+    def add_supervisor(_e: Any) -> None:
+        outcome = ReviewState(shell.store, 0).add_supervisor(sup_name.value or "", sup_pin.value or "")
+        sup_message.value = outcome.message
+        sup_message.color = None if outcome.ok else ft.Colors.ERROR
+        sup_message.update()
+
+    body: list[ft.Control] = [
+        ft.Text("Defaults for new jobs", size=20, weight=ft.FontWeight.BOLD),
+        choice_row("set-default_system", "Earthing system", SYSTEMS, settings.get("default_system"),
+                   lambda v: settings.set("default_system", v)),
+        text_input("set-default_u0", "U0 (V)", settings.get("default_u0"), saver("default_u0"),
+                   numeric=True),
+        text_input("set-default_cmin", "Cmin", settings.get("default_cmin"), saver("default_cmin"),
+                   numeric=True),
+        choice_row("set-final_circuit_max_a", "Final circuits: table times apply up to",
+                   (Choice("32", "32 A"), Choice("63", "63 A")),
+                   settings.get("final_circuit_max_a"),
+                   lambda v: settings.set("final_circuit_max_a", v)),
+        ft.Text("Screen", size=20, weight=ft.FontWeight.BOLD),
+        choice_row("set-theme", "Theme",
+                   (Choice("system", "As device"), Choice("light", "Light"), Choice("dark", "Dark")),
+                   settings.get("theme"), theme_picked),
+        ft.Text("Office folder", size=20, weight=ft.FontWeight.BOLD),
+        url,
+        user,
+        password,
+        ft.FilledButton("Save office folder", icon=ft.Icons.SAVE, height=48, key="save-office",
+                        on_click=save_office),
+        office_message,
+        ft.Text("Supervisors", size=20, weight=ft.FontWeight.BOLD),
+        ft.Text(", ".join(p["name"] for p in ReviewState(shell.store, 0).supervisors()) or "None yet.",
+                size=14),
+        sup_name,
+        sup_pin,
+        ft.OutlinedButton("Add supervisor", icon=ft.Icons.PERSON_ADD, height=48,
+                          key="add-supervisor", on_click=add_supervisor),
+        sup_message,
+    ]
+    return screen("/settings", "Settings", body, shell.go, tab=3)

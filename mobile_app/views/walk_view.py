@@ -1,0 +1,101 @@
+"""The walk for one circuit: one step per screen with back and next; the last step shows the results."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import flet as ft
+
+from mobile_app.components.choice_row import choice_row
+from mobile_app.components.screen import screen
+from mobile_app.components.text_input import text_input
+from mobile_app.components.verdict_badge import verdict_badge
+from mobile_app.state.fields import STEP_TITLES, STEPS
+from mobile_app.state.text import verdict_mark
+from mobile_app.state.walk import FieldView, Walk
+from mobile_app.views import results_panel_view
+
+
+def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any) -> ft.Control:
+    name = view.spec.name
+    if view.spec.kind == "choice":
+
+        def picked(value: str) -> None:
+            walk.set_field(name, value)
+            if any(name in s.shown_when for s in _step_specs(walk)):
+                rebuild()
+            else:
+                on_saved()
+
+        return choice_row(f"field-{name}", view.spec.label, view.choices, view.raw, picked,
+                          message=view.message)
+
+    def changed(text: str) -> tuple[str, str | None]:
+        saved = walk.set_field(name, text)
+        on_saved()
+        return saved.parsed_text, saved.message
+
+    return text_input(
+        f"field-{name}", view.spec.label, view.raw, changed,
+        numeric=view.spec.kind == "number", hint=view.spec.hint, helper=view.parsed_text,
+        error=view.message,
+    )
+
+
+def _step_specs(walk: Walk) -> list[Any]:
+    return [v.spec for v in walk.fields()]
+
+
+def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
+    """The walk screen for `step` of a circuit."""
+    walk = shell.walk(int(circuit_id), step if step in STEPS else "device")
+    base = f"/job/{job_id}/circuit/{circuit_id}"
+    progress = ft.Column(
+        [
+            ft.Text(f"Step {walk.step_number} of {len(STEPS)} · {STEP_TITLES[walk.step]}", size=14),
+            ft.ProgressBar(value=walk.step_number / len(STEPS), height=6),
+        ],
+        spacing=4,
+    )
+    blockers = ft.Text("", color=ft.Colors.ERROR, size=14, key="walk-blockers")
+    live = ft.Row(spacing=8, key="live-verdict")
+    back = ft.OutlinedButton("Back", icon=ft.Icons.ARROW_BACK, height=52, expand=True, key="walk-back",
+                             disabled=not walk.can_back(),
+                             on_click=lambda _e: shell.go(f"{base}/{STEPS[STEPS.index(walk.step) - 1]}"))
+    nxt = ft.FilledButton("Next", icon=ft.Icons.ARROW_FORWARD, height=52, expand=True, key="walk-next")
+
+    def refresh_controls() -> None:
+        missing = walk.missing()
+        blockers.value = ("To go on: " + "; ".join(missing)) if missing else ""
+        nxt.disabled = not walk.can_next()
+        if walk.step == "readings":
+            mark = verdict_mark(walk.circuit.get("verdict"))
+            live.controls = [ft.Text("Verdict so far", size=14), verdict_badge(mark, size=15)]
+
+    def saved() -> None:
+        refresh_controls()
+        blockers.update()
+        nxt.update()
+        if walk.step == "readings":
+            live.update()
+
+    def go_next(_e: Any) -> None:
+        if walk.can_next():
+            shell.go(f"{base}/{STEPS[STEPS.index(walk.step) + 1]}")
+        else:
+            saved()
+
+    nxt.on_click = go_next
+    refresh_controls()
+    body: list[ft.Control] = [progress]
+    if walk.step == "results":
+        body.extend(results_panel_view.controls(walk.results()))
+        nxt = ft.FilledButton("Back to job", icon=ft.Icons.LIST, height=52, expand=True,
+                              key="walk-done", on_click=lambda _e: shell.go(f"/job/{job_id}"))
+    else:
+        body.extend(_field(walk, view, saved, shell.render) for view in walk.fields())
+        body.append(blockers)
+        if walk.step == "readings":
+            body.append(live)
+    bar = ft.Row([back, nxt], spacing=12)
+    return screen(f"{base}/{walk.step}", walk.title, body, shell.go, back=f"/job/{job_id}", bottom=bar)

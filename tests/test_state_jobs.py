@@ -1,0 +1,109 @@
+"""Jobs list, job screen, review, settings and the device library draft, without Flet."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from mobile_app.records import Store
+from mobile_app.state import CurveDraft, JobScreen, JobsList, ReviewState, SettingsState, Walk
+from mobile_app.state.jobs import demo_if_empty, ensure_demo
+
+
+@pytest.fixture
+def store(tmp_path: Path):
+    with Store.open(tmp_path) as opened:
+        yield opened
+
+
+def test_new_job_uses_settings_defaults_and_has_a_board(store) -> None:
+    SettingsState(store).set("default_system", "TT")
+    job = JobScreen(store, JobsList(store).new_job("Ref 7", "9 Quay"))
+    supply = {f.spec.name: f for f in job.supply_fields()}
+    assert supply["system"].raw == "TT"
+    assert supply["u0"].parsed_text == "= 230 V"
+    assert [b.designation for b in job.boards()] == ["DB1"]
+
+
+def test_search_and_failing_counts(store) -> None:
+    jobs = JobsList(store)
+    job = JobScreen(store, jobs.new_job("Harbour office"))
+    jobs.new_job("Bakery")
+    walk = Walk(store, job.add_circuit(job.boards()[0].id))
+    for name, raw in (("device_curve", "B"), ("device_rating", "32"), ("line_csa", "2.5"),
+                      ("cpc_csa", "1.5"), ("zs", "2.0")):
+        walk.set_field(name, raw)
+    jobs.search = "harbour"
+    rows = jobs.rows()
+    assert [r.title for r in rows] == ["Harbour office"]
+    assert rows[0].failing == 1 and rows[0].status_word == "Draft"
+    assert rows[0].summary == "1 circuit · 1 failing"
+    circuit = job.boards()[0].circuits[0]
+    assert circuit.mark.word == "FAIL"
+
+
+def test_job_field_error_keeps_text(store) -> None:
+    job = JobScreen(store, JobsList(store).new_job("Supply test"))
+    field = job.set_field("u0", "230 banana")
+    assert field.raw == "230 banana"
+    assert field.message is not None and field.message.startswith("U0: ")
+
+
+def test_review_submit_wrong_pin_then_approve(store) -> None:
+    job_id = JobsList(store).new_job("Review test")
+    review = ReviewState(store, job_id)
+    assert review.add_supervisor("Ann Supervisor", "135790").ok
+    assert review.submit("Sam").ok
+    assert review.status_word == "In review"
+    wrong = review.approve("Ann Supervisor", "000000")
+    assert not wrong.ok and wrong.message.startswith("PIN not accepted")
+    assert not review.approve("Nobody", "135790").ok
+    assert review.approve("ann supervisor", "135790").ok
+    assert review.status == "approved"
+    assert JobScreen(store, job_id).read_only
+    assert any("Approved" in line for line in review.history())
+
+
+def test_return_needs_a_comment(store) -> None:
+    job_id = JobsList(store).new_job("Return test")
+    review = ReviewState(store, job_id)
+    review.add_supervisor("Ann", "135790")
+    review.submit("Sam")
+    assert review.return_to_draft("Ann", "  ").message.startswith("Say what needs changing")
+    assert review.return_to_draft("Ann", "Circuit 3 needs R1+R2").ok
+    assert review.status == "draft"
+
+
+def test_settings_reject_bad_values_and_keep_text(store) -> None:
+    settings = SettingsState(store)
+    view = settings.set("final_circuit_max_a", "40")
+    assert view.value == "40" and view.message == "final-circuit scope must be 32 or 63 A"
+    assert settings.set("final_circuit_max_a", "63").message is None
+    assert SettingsState(store).get("final_circuit_max_a") == "63"
+    assert settings.save_office("http://office.example/dav", "me", "pw").startswith("Not saved")
+
+
+def test_curve_draft_errors_and_preview(store) -> None:
+    draft = CurveDraft(name="Test MCCB")
+    draft.set_cell(0, "current", "200")
+    draft.set_cell(0, "time", "100 s")
+    draft.set_cell(1, "current", "1 kA")
+    draft.set_cell(1, "time", "200 s")
+    assert draft.problem() is not None and draft.problem().startswith("Times must fall")
+    assert draft.preview() is None
+    draft.set_cell(1, "time", "80 ms")
+    draft.set_cell(2, "current", "lots")
+    assert draft.problem() is not None and draft.problem().startswith("Point 3: Current")
+    draft.set_cell(2, "current", "")
+    assert draft.problem() is None
+    assert draft.preview() is not None
+    assert draft.save(store) is not None
+    assert [d["name"] for d in store.library_devices()] == ["Test MCCB"]
+
+
+def test_demo_only_when_empty_and_found_again(store) -> None:
+    first = demo_if_empty(store)
+    assert first is not None
+    assert demo_if_empty(store) is None
+    assert ensure_demo(store) == first

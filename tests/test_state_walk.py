@@ -1,0 +1,129 @@
+"""The walk's screen logic without Flet: step order, defaults, messages, next/back rules, saving."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from mobile_app.records import Store
+from mobile_app.state import STEPS, JobScreen, JobsList, Walk
+
+
+@pytest.fixture
+def store(tmp_path: Path):
+    with Store.open(tmp_path) as opened:
+        yield opened
+
+
+def new_circuit(store) -> tuple[JobScreen, int]:
+    job = JobScreen(store, JobsList(store).new_job("Walk test", "1 Test Street"))
+    return job, job.add_circuit(job.boards()[0].id)
+
+
+def fill_to_readings(walk: Walk) -> None:
+    for name, raw in (("device_curve", "B"), ("device_rating", "32"), ("line_csa", "2.5"),
+                      ("cpc_csa", "1.5")):
+        walk.set_field(name, raw)
+
+
+def test_steps_in_walk_order() -> None:
+    assert STEPS == ("device", "conductors", "readings", "results")
+
+
+def test_new_circuit_gets_usual_choices(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id)
+    assert walk.raw("device_kind") == "mcb"
+    assert walk.raw("line_material") == "copper"
+    assert walk.raw("cpc_arrangement") == "in-cable"
+    assert walk.raw("zs") == ""
+
+
+def test_next_is_blocked_until_required_device_fields(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id)
+    assert not walk.can_back()
+    assert "Curve is needed" in walk.missing()
+    assert "Rating In is needed" in walk.missing()
+    assert walk.next() == "device"
+    walk.set_field("device_curve", "C")
+    walk.set_field("device_rating", "32 A")
+    assert walk.can_next()
+    assert walk.next() == "conductors"
+    assert walk.back() == "device"
+
+
+def test_curve_field_only_for_circuit_breakers(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id)
+    assert "device_curve" in [v.spec.name for v in walk.fields()]
+    walk.set_field("device_kind", "fuse-gg")
+    names = [v.spec.name for v in walk.fields()]
+    assert "device_curve" not in names and "library_device_id" not in names
+    walk.set_field("device_kind", "curve")
+    assert "library_device_id" in [v.spec.name for v in walk.fields()]
+
+
+def test_invalid_reading_names_the_field_and_keeps_the_text(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="readings")
+    fill_to_readings(walk)
+    view = walk.set_field("zs", "0.6x2")
+    assert view.raw == "0.6x2"
+    assert view.message is not None and view.message.startswith("Zs: ")
+    assert view.parsed_text == ""
+    assert not walk.can_next()
+    view = walk.set_field("zs", "620 mΩ")
+    assert view.message is None
+    assert view.parsed_text == "= 0.62 Ω"
+    assert walk.can_next()
+
+
+def test_optional_reading_does_not_block(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="readings")
+    fill_to_readings(walk)
+    walk.set_field("zs", "0.62")
+    view = walk.set_field("zsc", "oops")
+    assert view.message is not None and view.message.startswith("Zsc: ")
+    assert walk.can_next()
+
+
+def test_units_as_typed(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="conductors")
+    assert walk.set_field("line_csa", "2.5mm2").parsed_text == "= 2.50 mm²"
+    walk.step = "device"
+    assert walk.set_field("rcd_idn", "30 mA").parsed_text == "= 0.03 A"
+
+
+def test_everything_typed_survives_a_new_walk_object(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="readings")
+    fill_to_readings(walk)
+    walk.set_field("zs", "620 mΩ")
+    again = Walk(store, circuit_id, step="readings")
+    assert again.raw("zs") == "620 mΩ"
+    assert again.raw("device_rating") == "32"
+
+
+def test_save_error_keeps_typed_text(store) -> None:
+    job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="readings")
+    fill_to_readings(walk)
+    person = store.add_person("Sam", "qualified")
+    store.submit_for_review(job.job_id, person)
+    view = walk.set_field("zs", "0.7")
+    assert view.raw == "0.7"
+    assert view.save_error is not None and view.save_error.startswith("Not saved")
+
+
+def test_second_circuit_copies_the_first_ones_device(store) -> None:
+    job, first = new_circuit(store)
+    fill_to_readings(Walk(store, first))
+    second = job.add_circuit(job.boards()[0].id)
+    walk = Walk(store, second)
+    assert walk.raw("device_rating") == "32"
+    assert walk.raw("zs") == ""
+    assert walk.title.startswith("Circuit 2 ")
