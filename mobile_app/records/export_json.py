@@ -1,0 +1,210 @@
+"""# Boardside export format
+
+An export is a **bundle**: one folder holding a job's record three ways plus a manifest. Bundles are
+never overwritten; a second export of the same job revision gets a folder name of its own.
+
+```
+job12-ACME-4471-rev1-2026-12-02/
+  job12-ACME-4471-rev1-2026-12-02.json   the complete job (described below); loads back into the app
+  job12-ACME-4471-rev1-2026-12-02.csv    one row per circuit, for a spreadsheet
+  job12-ACME-4471-rev1-2026-12-02.pdf    the printed record with the working of every circuit
+  manifest.json                          the size and SHA-256 of each file above
+```
+The name is `job<id>-<client reference>-rev<revision>-<UTC date of export>`, the client reference
+reduced to ASCII letters, digits and `-` (at most 40 characters). A second export of the same revision
+on the same day is named `...-2026-12-02-2`, then `-3`, up to `-999`. An export of one board adds
+`-board-<designation>` before the date. Files are read-only. A bundle is written in a hidden work folder
+(`.<name>.<random>.partial`) and moved under its name only when complete, so a bundle folder is never
+half-written.
+
+## manifest.json
+```
+{"schema": "boardside-bundle", "schema_version": 1, "name": "<folder name>",
+ "job_id": 12, "revision": 1, "board_id": null, "exported_at": "2026-12-02T07:15:03+00:00",
+ "calc_version": "0.1.0",
+ "files": {"<file name>": {"sha256": "<64 lower-case hex digits>", "bytes": 12345}, ...},
+ "cautions": ["...", "...", "..."]}
+```
+`files` lists the JSON, CSV and PDF files (not the manifest itself): `sha256` is the SHA-256 of the
+file's bytes and `bytes` its size. `board_id` is the board's id in a one-board export, else `null`.
+
+## The JSON file
+UTF-8, one line (not indented), numbers as JSON numbers (never NaN or Infinity), `null` where nothing is
+known. `schema` is `"boardside-job"` and `schema_version` is 1. A reader refuses a document whose
+`schema` differs or whose `schema_version` is greater than the one it knows. Importing a JSON export
+creates a new draft job from the fields as typed and assesses its circuits again.
+
+### Top level
+- `schema`: always `"boardside-job"`.
+- `schema_version`: 1 for this layout; raised when a key changes meaning or goes away.
+- `calc_version`: version of the calculation core in the app at export time.
+- `exported_at`: when the document was made, ISO-8601 with UTC offset.
+- `cautions`: the cautions that go with every result (a list of sentences).
+- `job`: the job (below).
+- `boards`: the job's boards, each with its circuits (only one board in a one-board export).
+- `library_devices`: manufacturer time–current curves used by the job's circuits.
+- `audit`: every recorded change to the job, oldest first.
+
+### A field: `{"raw", "value", "error"}`
+Every reading and setting is kept exactly as typed beside what it means:
+- `raw`: the text as typed (`"620 mΩ"`), or `null` if nothing was typed;
+- `value`: the parsed value in base units (a number in Ω, A, V, s, mm², °C or A²s; a canonical word
+  for a choice, e.g. `"TN-C-S"` for `"tncs"`; `null` when blank or unusable);
+- `error`: why the text could not be used (`null` when it could).
+
+### `job`
+- `id`: the job's number in the store it came from (an import gives a new number).
+- `revision`: 1 for the first record; a change after approval opens the next revision.
+- `status`: `draft`, `submitted` (for review) or `approved` (locked).
+- `parent_job_id`, `revision_reason`: the job this revision was opened from and why (`null` for a
+  first revision).
+- `client_ref`, `site_address`, `description`, `date`, `system`: as typed (repeated from `fields`).
+- `fields`: each job field as a field: `client_ref`, `site_address`, `description`, `date`,
+  `system` (`TN-S`, `TN-C-S` or `TT`), `u0` (V), `cmin` (voltage factor, no unit), `ze` (Ω, at the
+  origin), `pfc` (A, prospective fault current at the origin).
+- `recorded_by`: the name of who created the job.
+- `submitted_by`: the name of who submitted it for review (`null` if not submitted).
+- `approved_by`, `approved_at`: the supervisor who approved it and when (`null` until approved).
+- `review_comment`: the reviewer's comment when the job was returned to draft, else `null`.
+
+### `boards[]`
+- `id`: the board's number in the store it came from.
+- `designation`, `location`, `supplied_from`: as typed.
+- `fields`: each board field as a field: `designation`, `location`, `supplied_from`, and `system` and
+  `ze` (Ω) where the board's supply differs from the job's (blank means the job's supply).
+- `circuits`: the board's circuits, in order.
+
+### `boards[].circuits[]`
+- `id`: the circuit's number in the store it came from.
+- `number`, `description`: as typed.
+- `fields`: each circuit field as a field: `number`, `description`, `role` (`final` or
+  `distribution`), `device_kind` (`mcb`, `fuse-gg` or `curve`), `device_curve` (`B`, `C`, `D`),
+  `device_rating` (A), `library_device_id` (an id in `library_devices`), `let_through_i2t` (A²s),
+  `rcd_idn` (A), `rcd_type` (`general` or `s`), `line_csa` (mm²), `line_material`, `line_insulation`,
+  `cpc_csa` (mm²), `cpc_material`, `cpc_arrangement` (`in-cable`, `separate` or `armour`), `zs` (Ω),
+  `zsc` (Ω), `r1r2` (Ω), `ze` (Ω), `test_temp_c` (°C).
+- `verdict`: `pass`, `fail` or `incomplete` (`null` before the first assessment).
+- `assessment`: the calculation core's output (below), or `null`.
+- `calc_version`: version of the calculation core that made this assessment.
+- `assessment_error`: why the core could not assess the circuit (verdict `incomplete`), else `null`.
+- `updated_at`, `updated_by`: when the circuit last changed, and the id of the person who changed it
+  (their name is in the `audit` entries with that `person_id`).
+
+### `assessment`
+The calculation core's output as it made it; a value's name carries its unit:
+- `verdict`, `reasons`: the overall verdict and the checks that decided it (`"disconnection: fail"`).
+- `calc_version`, `inputs`: the core's version and the normalised inputs it worked from.
+- `device`: the protective device in short (`"B32"`).
+- `zs_ohm`, `zs_source`: the Zs used (Ω) and where it came from (`"measured"` or `"Ze + (R1+R2)"`).
+- `earth_fault_current_a`: If = U0·Cmin/Zs (A); `short_circuit_current_a`: Isc = U0·Cmin/Zsc (A).
+- `max_disconnection_time_s`: the time the rules allow for this circuit (s).
+- `device_time_s`, `device_time_at_short_circuit_s`: the device's operating time at If and at Isc (s).
+- `rcd_time_s`, `disconnection_time_s`: the RCD's time, and the time that clears the fault (s).
+- `zs_max_ohm`: the largest Zs that still meets the allowed time (Ω);
+  `zs_limit_at_test_temp_ohm`: that limit corrected to the test temperature (Ω);
+  `zs_rule_of_thumb_ohm`: 0.8 × Zs max (Ω, common practice); `zs_margin_ok`: Zs within it.
+- `disconnection_ok`, `line_withstand_ok`, `cpc_ok`, `cpc_adiabatic_ok`, `touch_voltage_ok`: each
+  check's outcome (`true`, `false` or `null` when it could not be made).
+- `touch_voltage_v`: RA·IΔn for a TT circuit relying on an RCD (V).
+- `k_line`, `k_cpc`: k of the line and protective conductors (A·s½/mm²).
+- `line_withstand_time_s`: t = k²S²/I², how long the line conductor survives the fault (s).
+- `cpc_proportional_min_mm2`: the protective conductor the proportional-size rule asks for (mm²);
+  `cpc_by_proportional_rule`: whether the rule was met.
+- `cpc_min_csa_mm2`: S = √(I²t)/k, the smallest protective conductor that survives the fault (mm²).
+- `cautions`: the cautions, as the core gives them.
+- `steps`: the working in walk order, each with `id`, `title`, `formula`, `working` (the formula with
+  the numbers), `value`, `unit`, `verdict` (`pass`, `fail`, `incomplete`, `check` or `info`), `note`.
+
+Keys the core adds in a later version are kept as they are.
+
+### `library_devices[]`
+`id`, `name`, `rating_a` (A), `points`: a list of `[current_a, time_s]`, time falling as current rises.
+
+### `audit[]`
+`id`, `when` (ISO-8601), `person_id` and `who` (the person's id and name), `entity` (`job`, `board` or
+`circuit`) and `entity_id`, `label` (the board's or circuit's designation), `what` (in words),
+`field`, `old` and `new` (the value before and after, as typed).
+
+## The CSV file
+UTF-8 with a byte-order mark (so spreadsheets pick the encoding), comma-separated, CRLF line ends, one
+header row, then one row per circuit, board by board. Headers carry their units, e.g.
+`Zs measured (Ω)`, `If (A)`, `k line (A·s½/mm²)`. Numbers are parsed values in base units, written
+plainly (`0.62`, `1.2e-05`); an empty cell means no value; `yes`/`no` for checks. The column
+`Input problems` lists any reading that could not be used, with the text as typed. Any text cell that
+starts with `=`, `+`, `-`, `@`, a tab or a carriage return and is not a number gets a leading
+apostrophe `'`, so that no spreadsheet runs it as a formula. The last column repeats the cautions.
+
+## The PDF file
+A4, DejaVu Sans embedded (its licence is in mobile_app/fonts). The job and its supply, the cautions,
+each board's table of circuits with their verdicts, the review and approval block, then the working of
+every circuit (each step's result and verdict, its formula and the numbers, its note) and the cautions
+again. Every page's footer carries the cautions and `page n of N`.
+"""
+
+from __future__ import annotations
+
+import json
+from typing import Any
+
+from mobile_app.records.documents import DOCUMENT_SCHEMA, DOCUMENT_SCHEMA_VERSION
+from mobile_app.records.errors import DocumentError
+from mobile_app.records.export_common import CAUTIONS
+
+SCHEMA = DOCUMENT_SCHEMA
+SCHEMA_VERSION = DOCUMENT_SCHEMA_VERSION
+
+
+def check_document(doc: Any) -> dict[str, Any]:
+    """Return `doc` if it is a boardside-job document of a version this code reads; DocumentError if not."""
+    if not isinstance(doc, dict):
+        raise DocumentError("a job document must be a JSON object")
+    if doc.get("schema") != SCHEMA:
+        raise DocumentError(f"schema is {doc.get('schema')!r}, not {SCHEMA!r}")
+    version = doc.get("schema_version")
+    if not isinstance(version, int) or isinstance(version, bool) or not 1 <= version <= SCHEMA_VERSION:
+        raise DocumentError(
+            f"schema_version {version!r} is not one this version reads (1 to {SCHEMA_VERSION})"
+        )
+    if not isinstance(doc.get("job"), dict) or not isinstance(doc.get("boards"), list):
+        raise DocumentError("a job document needs a 'job' object and a 'boards' list")
+    return doc
+
+
+def with_cautions(doc: dict[str, Any]) -> dict[str, Any]:
+    """A copy of `doc` (top level only) that carries the cautions, placed after `exported_at`."""
+    if doc.get("cautions"):
+        return dict(doc)
+    result: dict[str, Any] = {}
+    for key, value in doc.items():
+        result[key] = value
+        if key == "exported_at":
+            result["cautions"] = list(CAUTIONS)
+    result.setdefault("cautions", list(CAUTIONS))
+    return result
+
+
+def job_json_bytes(doc: dict[str, Any]) -> bytes:
+    """The JSON file of a job document: UTF-8 on one line, with the cautions; DocumentError if not JSON-able.
+
+    Not indented: Python's indenting encoder is several times slower than its compact one.
+    """
+    checked = with_cautions(check_document(doc))
+    try:
+        text = json.dumps(checked, ensure_ascii=False, allow_nan=False)
+    except (TypeError, ValueError) as error:
+        raise DocumentError(f"the job document cannot be written as JSON: {error}") from error
+    return (text + "\n").encode("utf-8")
+
+
+def load_job_json(data: bytes | str) -> dict[str, Any]:
+    """Read a JSON export back into a job document, checking its schema; DocumentError if unusable."""
+    try:
+        doc = json.loads(data)
+    except (UnicodeDecodeError, json.JSONDecodeError) as error:
+        raise DocumentError(f"not valid JSON: {error}") from error
+    return check_document(doc)
+
+
+def import_job_json(store: Any, data: bytes | str) -> int:
+    """Load a JSON export into `store` as a new job and return its id."""
+    return int(store.import_job_document(load_job_json(data)))

@@ -1,0 +1,127 @@
+"""CSV export: one row per circuit, unit-carrying headers, formula injection neutralised."""
+
+from __future__ import annotations
+
+import csv
+import io
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+
+from mobile_app.records import Store
+from mobile_app.records.demo import create_demo_job
+from mobile_app.records.export import job_csv_bytes, neutralise_cell
+from mobile_app.records.export_csv import csv_cell, csv_headers
+
+# Cells a spreadsheet would run as a formula (OWASP "CSV injection", common practice) and plain
+# numbers that must stay numbers: (text, expected cell).
+INJECTION_CASES = [
+    ("=1+2", "'=1+2"),
+    ("=HYPERLINK(\"http://x.invalid\",\"click\")", "'=HYPERLINK(\"http://x.invalid\",\"click\")"),
+    ("+44 20 7946 0000", "'+44 20 7946 0000"),
+    ("-2+3", "'-2+3"),
+    ("@SUM(A1:A9)", "'@SUM(A1:A9)"),
+    ("\t=1+2", "'\t=1+2"),
+    ("\r=1+2", "'\r=1+2"),
+    ("-", "'-"),
+    ("+", "'+"),
+    ("-0.5", "-0.5"),
+    ("+3", "+3"),
+    ("-1.5e-3", "-1.5e-3"),
+    ("0.62", "0.62"),
+    ("Kiln 1", "Kiln 1"),
+    ("", ""),
+    (" =1+2", " =1+2"),
+]
+
+
+@pytest.mark.parametrize(("text", "expected"), INJECTION_CASES)
+def test_neutralise_cell(text: str, expected: str) -> None:
+    assert neutralise_cell(text) == expected
+
+
+@pytest.mark.parametrize(
+    ("value", "expected"),
+    [(None, ""), (True, "yes"), (False, "no"), (3, "3"), (0.62, "0.62"), (1.2e-05, "1.2e-05"),
+     (float("inf"), ""), ("=cmd", "'=cmd"), ("-0.25", "-0.25")],
+)
+def test_csv_cell(value: object, expected: str) -> None:
+    assert csv_cell(value) == expected
+
+
+@pytest.fixture(scope="module")
+def store_job(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Store, int]]:
+    """The demo job plus a board of hostile descriptions and readings."""
+    store = Store.open(Path(tmp_path_factory.mktemp("csv-store")))
+    job_id = create_demo_job(store)
+    board_id = store.add_board(job_id, "=BOARD()", "@loft", "-feed")
+    for number, (text, _cell) in enumerate(INJECTION_CASES[:9], start=1):
+        circuit_id = store.add_circuit(board_id, str(number), text)
+        store.set_circuit_field(circuit_id, "zs", text)
+    yield store, job_id
+    store.close()
+
+
+def _rows(data: bytes) -> list[dict[str, str]]:
+    """The CSV read back with the csv module, as a spreadsheet import would."""
+    assert data.startswith(b"\xef\xbb\xbf"), "UTF-8 byte-order mark for spreadsheets"
+    return list(csv.DictReader(io.StringIO(data.decode("utf-8-sig"), newline="")))
+
+
+def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    doc = store.job_document(job_id)
+    rows = _rows(job_csv_bytes(doc))
+    circuits = [c for board in doc["boards"] for c in board["circuits"]]
+    assert len(rows) == len(circuits) == 22 + 9
+    assert list(rows[0]) == csv_headers()
+    for header in ("Zs measured (Ω)", "If (A)", "In (A)", "Line csa (mm²)", "RCD IΔn (A)",
+                   "k line (A·s½/mm²)", "Let-through I²t (A²s)", "Test temperature (°C)"):
+        assert header in rows[0]
+    first = rows[0]
+    assert first["Board"] == "DB-1" and first["Circuit"] == "1"
+    assert float(first["Zs measured (Ω)"]) == pytest.approx(0.71)
+    assert float(first["If (A)"]) == pytest.approx(230 * 0.95 / 0.71)
+    assert first["Verdict"] == "pass"
+    assert first["Updated by"] == "Rosa Quennell"
+    assert "competent person" in first["Cautions"]
+    verdicts = {row["Verdict"] for row in rows}
+    assert {"pass", "fail", "incomplete"} <= verdicts
+
+
+def test_milliohms_typed_are_written_in_ohms(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    rows = _rows(job_csv_bytes(store.job_document(job_id)))
+    office = next(row for row in rows if row["Description"] == "Office sockets (radial)")
+    assert office["Zs measured (Ω)"] == "0.71"  # typed "710 mΩ" in the demo
+
+
+def test_hostile_text_is_neutralised_in_the_file(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    doc = store.job_document(job_id)
+    stored = [c["description"] for c in doc["boards"][-1]["circuits"]]
+    rows = [row for row in _rows(job_csv_bytes(doc)) if row["Board"] == "'=BOARD()"]
+    assert [row["Description"] for row in rows] == [neutralise_cell(text) for text in stored]
+    assert rows[0]["Description"] == "'=1+2"
+    for row in rows:
+        for header, cell in row.items():
+            if cell[:1] in ("=", "+", "-", "@", "\t", "\r"):
+                float(cell)  # raises unless the cell is a plain number
+    phone = next(row for row in rows if row["Description"] == "'+44 20 7946 0000")
+    assert phone["Zs measured (Ω)"] == ""
+    assert phone["Input problems"].startswith('zs "+44 20 7946 0000": ')
+    formula = next(row for row in rows if row["Description"] == "'=1+2")
+    assert formula["Input problems"].startswith('zs "=1+2": ')
+
+
+def test_tab_and_carriage_return_survive_the_csv_quoting() -> None:
+    circuits = [{"number": "1", "description": text, "fields": {}} for text in ("\t=1+2", "\r=1+2")]
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 1},
+           "boards": [{"designation": "DB", "circuits": circuits}]}
+    assert [row["Description"] for row in _rows(job_csv_bytes(doc))] == ["'\t=1+2", "'\r=1+2"]
+
+
+def test_empty_document_gives_only_headers() -> None:
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 1}, "boards": []}
+    assert _rows(job_csv_bytes(doc)) == []

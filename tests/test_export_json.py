@@ -1,0 +1,150 @@
+"""JSON export: the documented format, reading it back, and the round trip through a second store."""
+
+from __future__ import annotations
+
+import json
+import re
+from collections.abc import Iterator
+from pathlib import Path
+from typing import Any
+
+import pytest
+
+import mobile_app.records.export_json as export_json
+from mobile_app.records import Store
+from mobile_app.records.demo import create_demo_job
+from mobile_app.records.errors import DocumentError
+from mobile_app.records.export import CAUTIONS, import_job_json, job_json_bytes, load_job_json
+
+FORMAT_MD = Path(export_json.__file__).with_name("EXPORT-FORMAT.md")
+
+
+@pytest.fixture(scope="module")
+def store_job(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Store, int]]:
+    """The demo job plus a board holding unusable readings and unusual text."""
+    store = Store.open(Path(tmp_path_factory.mktemp("json-store")))
+    job_id = create_demo_job(store)
+    board_id = store.add_board(job_id, "DB-9 Ω", "loft, ², √, Δ", "=feed")
+    odd = store.add_circuit(board_id, "1", "=1+2 sockets “quoted” \\ back\\slash")
+    store.set_circuit_field(odd, "zs", "abc")
+    store.set_circuit_field(odd, "device_rating", "32 A")
+    store.set_circuit_field(odd, "test_temp_c", "-5 °C")
+    store.set_job_field(job_id, "date", "31 Feb")
+    yield store, job_id
+    store.close()
+
+
+def test_module_docstring_is_the_format_file() -> None:
+    assert export_json.__doc__ == FORMAT_MD.read_text(encoding="utf-8")
+
+
+def _documented_names() -> set[str]:
+    """Every `name` written in backquotes in EXPORT-FORMAT.md."""
+    return set(re.findall(r"`([A-Za-z_][A-Za-z0-9_]*)`", FORMAT_MD.read_text(encoding="utf-8")))
+
+
+def _keys(doc: dict[str, Any]) -> set[str]:
+    """The keys of every level the format describes, from a real document."""
+    circuits = [c for board in doc["boards"] for c in board["circuits"]]
+    assessed = [c["assessment"] for c in circuits if c["assessment"]]
+    keys = set(doc) | set(doc["job"]) | set(doc["job"]["fields"])
+    for board in doc["boards"]:
+        keys |= set(board) | set(board["fields"])
+    for circuit in circuits:
+        keys |= set(circuit) | set(circuit["fields"])
+        for field in circuit["fields"].values():
+            keys |= set(field)
+    for assessment in assessed:
+        keys |= set(assessment)
+        for step in assessment["steps"]:
+            keys |= set(step)
+    for item in doc["library_devices"] + doc["audit"]:
+        keys |= set(item)
+    return keys
+
+
+def test_every_key_of_a_real_document_is_documented(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    doc = json.loads(job_json_bytes(store.job_document(job_id)))
+    undocumented = _keys(doc) - _documented_names()
+    assert not undocumented, f"document EXPORT-FORMAT.md keys: {sorted(undocumented)}"
+
+
+def test_file_is_utf8_json_with_schema_and_cautions(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    data = job_json_bytes(store.job_document(job_id))
+    assert "Ω".encode() in data and b"\\u03a9" not in data
+    doc = json.loads(data.decode("utf-8"))
+    assert doc["schema"] == "boardside-job" and doc["schema_version"] == 1
+    assert doc["cautions"] == list(CAUTIONS)
+    assert list(doc)[:5] == ["schema", "schema_version", "calc_version", "exported_at", "cautions"]
+
+
+def test_readings_are_kept_as_typed_beside_their_values(store_job: tuple[Store, int]) -> None:
+    store, job_id = store_job
+    doc = load_job_json(job_json_bytes(store.job_document(job_id)))
+    odd = doc["boards"][-1]["circuits"][0]
+    assert odd["fields"]["zs"]["raw"] == "abc"
+    assert odd["fields"]["zs"]["value"] is None and odd["fields"]["zs"]["error"]
+    assert odd["fields"]["test_temp_c"] == {"raw": "-5 °C", "value": -5.0, "error": None}
+    assert odd["verdict"] == "incomplete"
+    first = doc["boards"][0]["circuits"][1]
+    assert first["fields"]["zs"] == {"raw": "710 mΩ", "value": 0.71, "error": None}
+    steps = first["assessment"]["steps"]
+    assert any(step["formula"] == "If = U0 · Cmin / Zs" for step in steps)
+    assert doc["job"]["fields"]["date"]["raw"] == "31 Feb" and doc["job"]["fields"]["date"]["error"]
+
+
+def _comparable(doc: dict[str, Any]) -> list[Any]:
+    """What an import must keep: job and board fields, each circuit's fields, verdict and assessment."""
+    return [
+        doc["job"]["fields"],
+        [
+            (board["fields"], [(c["number"], c["description"], c["fields"], c["verdict"],
+                                c["assessment"], c["calc_version"]) for c in board["circuits"]])
+            for board in doc["boards"]
+        ],
+        [(d["name"], d["rating_a"], d["points"]) for d in doc["library_devices"]],
+    ]
+
+
+def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_path: Path) -> None:
+    store, job_id = store_job
+    original = store.job_document(job_id)
+    data = job_json_bytes(original)
+    other = Store.open(tmp_path / "office")
+    try:
+        new_id = import_job_json(other, data)
+        again = other.job_document(new_id)
+    finally:
+        other.close()
+    assert _comparable(again) == _comparable(original)
+    assert json.loads(job_json_bytes(again))["boards"][-1]["circuits"][0]["fields"]["zs"]["raw"] == "abc"
+
+
+@pytest.mark.parametrize(
+    ("data", "problem"),
+    [
+        (b"{not json", "not valid JSON"),
+        (b"[1, 2]", "must be a JSON object"),
+        (b'{"schema": "other", "schema_version": 1, "job": {}, "boards": []}', "schema is 'other'"),
+        (b'{"schema": "boardside-job", "schema_version": 2, "job": {}, "boards": []}',
+         "schema_version 2"),
+        (b'{"schema": "boardside-job", "schema_version": "1", "job": {}, "boards": []}',
+         "schema_version '1'"),
+        (b'{"schema": "boardside-job", "schema_version": 1, "boards": []}', "'job' object"),
+        (b"\xff\xfe", "not valid JSON"),
+    ],
+)
+def test_load_refuses_what_it_cannot_read(data: bytes, problem: str) -> None:
+    with pytest.raises(DocumentError) as caught:
+        load_job_json(data)
+    assert problem in str(caught.value)
+    assert str(caught.value).startswith("not a readable job document: ")
+
+
+def test_values_json_cannot_hold_are_refused() -> None:
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 1, "x": float("nan")},
+           "boards": []}
+    with pytest.raises(DocumentError, match="cannot be written as JSON"):
+        job_json_bytes(doc)
