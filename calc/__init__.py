@@ -32,6 +32,14 @@ def device_curve(device: dict[str, Any]) -> list[tuple[float, float]]:
 
 
 __all__ = [
-    "CAUTIONS", "Assessment", "CalcError", "InputError", "Step", "__version__", "assess",
-    "device_curve", "parse_value", "read_points",
+    "CAUTIONS",
+    "Assessment",
+    "CalcError",
+    "InputError",
+    "Step",
+    "__version__",
+    "assess",
+    "device_curve",
+    "parse_value",
+    "read_points",
 ]

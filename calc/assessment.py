@@ -2,14 +2,15 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from functools import cached_property
 from typing import Any
 
 from calc.conductors import k_values, line_withstand, protective_conductor
 from calc.devices import make_device
 from calc.inputs import CircuitInput, read_input
 from calc.limits import max_disconnection_time
-from calc.steps import CAUTIONS, FAIL, INCOMPLETE, PASS, Step
+from calc.steps import CAUTIONS, FAIL, INCOMPLETE, PASS, Step, StepThunk
 from calc.version import __version__
 from calc.walk import (
     device_time_step,
@@ -58,12 +59,20 @@ class Assessment:
     cpc_ok: bool | None
     verdict: str
     reasons: tuple[str, ...]
-    steps: tuple[Step, ...]
+    step_thunks: tuple[StepThunk, ...] = field(repr=False, compare=False)
+
+    @cached_property
+    def steps(self) -> tuple[Step, ...]:
+        """The steps in walk order, each with its formula, working, value, unit and verdict."""
+        return tuple(thunk() for thunk in self.step_thunks)
 
     def to_dict(self) -> dict[str, Any]:
         """The assessment as JSON-ready data (the calc command line's output)."""
-        out: dict[str, Any] = {"calc_version": __version__, "verdict": self.verdict,
-                               "reasons": list(self.reasons)}
+        out: dict[str, Any] = {
+            "calc_version": __version__,
+            "verdict": self.verdict,
+            "reasons": list(self.reasons),
+        }
         for name in _HEADLINE:
             out[name] = getattr(self, name)
         out["steps"] = [step.to_dict() for step in self.steps]
@@ -73,12 +82,32 @@ class Assessment:
 
 
 _HEADLINE = (
-    "device", "zs_ohm", "zs_source", "earth_fault_current_a", "short_circuit_current_a",
-    "max_disconnection_time_s", "device_time_s", "rcd_time_s", "disconnection_time_s",
-    "device_time_at_short_circuit_s", "zs_max_ohm", "zs_limit_at_test_temp_ohm",
-    "zs_rule_of_thumb_ohm", "zs_margin_ok", "disconnection_ok", "touch_voltage_v", "touch_voltage_ok",
-    "k_line", "k_cpc", "line_withstand_time_s", "line_withstand_ok", "cpc_proportional_min_mm2",
-    "cpc_min_csa_mm2", "cpc_by_proportional_rule", "cpc_adiabatic_ok", "cpc_ok",
+    "device",
+    "zs_ohm",
+    "zs_source",
+    "earth_fault_current_a",
+    "short_circuit_current_a",
+    "max_disconnection_time_s",
+    "device_time_s",
+    "rcd_time_s",
+    "disconnection_time_s",
+    "device_time_at_short_circuit_s",
+    "zs_max_ohm",
+    "zs_limit_at_test_temp_ohm",
+    "zs_rule_of_thumb_ohm",
+    "zs_margin_ok",
+    "disconnection_ok",
+    "touch_voltage_v",
+    "touch_voltage_ok",
+    "k_line",
+    "k_cpc",
+    "line_withstand_time_s",
+    "line_withstand_ok",
+    "cpc_proportional_min_mm2",
+    "cpc_min_csa_mm2",
+    "cpc_by_proportional_rule",
+    "cpc_adiabatic_ok",
+    "cpc_ok",
 )
 
 
@@ -107,17 +136,24 @@ def assess_input(inp: CircuitInput) -> Assessment:
     """Assess an already checked input."""
     s = inp.supply
     device = make_device(inp.device)
-    steps: list[Step] = [system_step(inp)]
+    steps: list[StepThunk] = [system_step(inp)]
     loop, zs_step = loop_impedance(inp)
     steps.append(zs_step)
-    if_a, if_step = fault_current_step("earth-fault-current", "Earth fault current", "If", "Zs",
-                                       s.u0_v, s.cmin, loop.zs_ohm, "needs Zs")
-    isc_a, isc_step = fault_current_step("short-circuit-current", "Short-circuit current", "Isc", "Zsc",
-                                         s.u0_v, s.cmin, inp.readings.zsc_ohm,
-                                         "Zsc not measured: the line check uses If")
+    if_a, if_step = fault_current_step(
+        "earth-fault-current", "Earth fault current", "If", "Zs", s.u0_v, s.cmin, loop.zs_ohm, "needs Zs"
+    )
+    isc_a, isc_step = fault_current_step(
+        "short-circuit-current",
+        "Short-circuit current",
+        "Isc",
+        "Zsc",
+        s.u0_v,
+        s.cmin,
+        inp.readings.zsc_ohm,
+        "Zsc not measured: the line check uses If",
+    )
     steps += [if_step, isc_step]
-    limit = max_disconnection_time(s.system, s.u0_v, inp.role, inp.device.rating_a,
-                                   inp.final_circuit_max_a)
+    limit = max_disconnection_time(s.system, s.u0_v, inp.role, inp.device.rating_a, inp.final_circuit_max_a)
     steps.append(limit_step(limit))
     op, op_step = device_time_step("device-time", "Device time at If", device, "If", if_a)
     steps.append(op_step)
@@ -131,8 +167,9 @@ def assess_input(inp: CircuitInput) -> Assessment:
     ra_ok, ra_v, ra_s = ra_step(inp, loop.zs_ohm)
     if ra_s is not None:
         steps.append(ra_s)
-    device_alone = op is not None and op.time_s is not None and limit.time_s is not None \
-        and op.time_s <= limit.time_s
+    device_alone = (
+        op is not None and op.time_s is not None and limit.time_s is not None and op.time_s <= limit.time_s
+    )
     margin, m_steps = margin_steps(inp, loop, zs_max, deciding=inp.rcd is None or device_alone)
     steps += m_steps
     k_l, k_p, k_steps = k_values(inp)
@@ -147,21 +184,49 @@ def assess_input(inp: CircuitInput) -> Assessment:
     if m_steps and margin.ok is not None:
         checks["Zs margin"] = margin.ok
     verdict, reasons = _overall(checks)
-    steps.append(Step("verdict", "Verdict", "all checks", "; ".join(
-        f"{name} {'—' if ok is None else ('pass' if ok else 'fail')}" for name, ok in checks.items()),
-        verdict, "", verdict, "; ".join(reasons)))
+    steps.append(
+        lambda: Step(
+            "verdict",
+            "Verdict",
+            "all checks",
+            "; ".join(
+                f"{name} {'—' if ok is None else ('pass' if ok else 'fail')}" for name, ok in checks.items()
+            ),
+            verdict,
+            "",
+            verdict,
+            "; ".join(reasons),
+        )
+    )
     return Assessment(
-        inputs=inp, device=device.label, zs_ohm=loop.zs_ohm, zs_source=loop.source,
-        earth_fault_current_a=if_a, short_circuit_current_a=isc_a,
-        max_disconnection_time_s=limit.time_s, device_time_s=op.time_s if op else None,
-        rcd_time_s=rcd_time, disconnection_time_s=disc_time,
+        inputs=inp,
+        device=device.label,
+        zs_ohm=loop.zs_ohm,
+        zs_source=loop.source,
+        earth_fault_current_a=if_a,
+        short_circuit_current_a=isc_a,
+        max_disconnection_time_s=limit.time_s,
+        device_time_s=op.time_s if op else None,
+        rcd_time_s=rcd_time,
+        disconnection_time_s=disc_time,
         device_time_at_short_circuit_s=line.device_time_s if isc_a is not None else None,
-        zs_max_ohm=zs_max, zs_limit_at_test_temp_ohm=margin.limit_at_test_ohm,
-        zs_rule_of_thumb_ohm=margin.rule_of_thumb_ohm, zs_margin_ok=margin.ok,
-        disconnection_ok=disc_ok, touch_voltage_v=ra_v, touch_voltage_ok=ra_ok,
-        k_line=k_l.k, k_cpc=k_p.k, line_withstand_time_s=line.withstand_time_s,
-        line_withstand_ok=line.ok, cpc_proportional_min_mm2=cpc.proportional_min_mm2,
-        cpc_min_csa_mm2=cpc.min_csa_mm2, cpc_by_proportional_rule=cpc.by_rule,
-        cpc_adiabatic_ok=cpc.adiabatic_ok, cpc_ok=cpc.ok, verdict=verdict, reasons=reasons,
-        steps=tuple(steps),
+        zs_max_ohm=zs_max,
+        zs_limit_at_test_temp_ohm=margin.limit_at_test_ohm,
+        zs_rule_of_thumb_ohm=margin.rule_of_thumb_ohm,
+        zs_margin_ok=margin.ok,
+        disconnection_ok=disc_ok,
+        touch_voltage_v=ra_v,
+        touch_voltage_ok=ra_ok,
+        k_line=k_l.k,
+        k_cpc=k_p.k,
+        line_withstand_time_s=line.withstand_time_s,
+        line_withstand_ok=line.ok,
+        cpc_proportional_min_mm2=cpc.proportional_min_mm2,
+        cpc_min_csa_mm2=cpc.min_csa_mm2,
+        cpc_by_proportional_rule=cpc.by_rule,
+        cpc_adiabatic_ok=cpc.adiabatic_ok,
+        cpc_ok=cpc.ok,
+        verdict=verdict,
+        reasons=reasons,
+        step_thunks=tuple(steps),
     )

@@ -13,16 +13,22 @@ from calc import assess
 
 NUMBERS = {
     "supply": {"system": "TN-C-S", "u0": 230, "cmin": 0.95, "ze": 0.35},
-    "circuit": {"role": "final", "device": {"kind": "mcb", "curve": "B", "rating": 32},
-                "line": {"csa": 2.5, "material": "copper", "insulation": "thermoplastic-70"},
-                "cpc": {"csa": 1.5, "material": "copper", "arrangement": "in-cable"}},
+    "circuit": {
+        "role": "final",
+        "device": {"kind": "mcb", "curve": "B", "rating": 32},
+        "line": {"csa": 2.5, "material": "copper", "insulation": "thermoplastic-70"},
+        "cpc": {"csa": 1.5, "material": "copper", "arrangement": "in-cable"},
+    },
     "measured": {"zs": 0.62, "zsc": 0.41, "r1r2": 0.3, "test_temp_c": 20},
 }
 STRINGS = {
     "supply": {"system": "TN-C-S", "u0": "230 V", "cmin": "0.95", "ze": "350 mΩ"},
-    "circuit": {"role": "final", "device": {"kind": "mcb", "curve": "B", "rating": "32 A"},
-                "line": {"csa": "2.5mm2", "material": "copper", "insulation": "thermoplastic-70"},
-                "cpc": {"csa": "1.5 mm²", "material": "copper", "arrangement": "in-cable"}},
+    "circuit": {
+        "role": "final",
+        "device": {"kind": "mcb", "curve": "B", "rating": "32 A"},
+        "line": {"csa": "2.5mm2", "material": "copper", "insulation": "thermoplastic-70"},
+        "cpc": {"csa": "1.5 mm²", "material": "copper", "arrangement": "in-cable"},
+    },
     "measured": {"zs": "620 mΩ", "zsc": "0.41 ohm", "r1r2": "0.3 Ω", "test_temp_c": "20 °C"},
 }
 
@@ -58,8 +64,10 @@ def main() -> None:
     strings = median_us(lambda: assess(STRINGS))
     with_dict = median_us(lambda: assess(NUMBERS).to_dict())
     print(f"bare formulas (floats)        {base:8.2f} µs")
-    print(f"assess from numbers           {numbers:8.2f} µs  ({numbers / base:5.1f}× bare; target ≤ 50 µs, "
-          f"≤ 30×)")
+    print(
+        f"assess from numbers           {numbers:8.2f} µs  ({numbers / base:5.1f}× bare; target ≤ 50 µs, "
+        f"≤ 30×)"
+    )
     print(f"assess from unit strings      {strings:8.2f} µs  ({strings / base:5.1f}× bare; target ≤ 300 µs)")
     print(f"assess + to_dict from numbers {with_dict:8.2f} µs  ({with_dict / base:5.1f}× bare)")
 

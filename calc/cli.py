@@ -68,8 +68,9 @@ def _read_json(name: str, stdin: TextIO) -> Any:
     try:
         return json.loads(text)
     except json.JSONDecodeError as exc:
-        raise InputError("input", f"not valid JSON ({exc.msg} at line {exc.lineno} column "
-                                  f"{exc.colno})") from None
+        raise InputError(
+            "input", f"not valid JSON ({exc.msg} at line {exc.lineno} column {exc.colno})"
+        ) from None
     except RecursionError:
         raise InputError("input", "JSON nested too deeply") from None
 
@@ -123,8 +124,9 @@ def run(argv: Sequence[str], stdin: TextIO, stdout: TextIO) -> int:
         if not isinstance(data, dict):
             raise InputError("input", "must be a JSON object")
         result = assess(data)
-        stdout.write(render_text(result) if args.text else json.dumps(result.to_dict(), indent=2,
-                                                                      ensure_ascii=False))
+        stdout.write(
+            render_text(result) if args.text else json.dumps(result.to_dict(), indent=2, ensure_ascii=False)
+        )
         stdout.write("\n")
         return 0
     u0 = parse_value("supply.u0", args.u0) if args.u0 is not None else DEFAULT_U0_V
@@ -132,8 +134,13 @@ def run(argv: Sequence[str], stdin: TextIO, stdout: TextIO) -> int:
     device = device_from_text(args.device, args.points)
     rows = limits(device, u0, cmin)
     if args.json:
-        stdout.write(json.dumps({"device": make_device(read_device(device)).label, "u0": u0,
-                                 "cmin": cmin, "limits": rows}, indent=2) + "\n")
+        stdout.write(
+            json.dumps(
+                {"device": make_device(read_device(device)).label, "u0": u0, "cmin": cmin, "limits": rows},
+                indent=2,
+            )
+            + "\n"
+        )
     else:
         stdout.write(_limits_text(make_device(read_device(device)).label, u0, cmin, rows) + "\n")
     return 0

@@ -91,22 +91,29 @@ class Mcb:
         multiple = current_a / self.rating_a
         if multiple >= self.instantaneous_multiple:
             return OperatingTime(
-                t["instantaneous_time_s"], INSTANTANEOUS,
+                t["instantaneous_time_s"],
+                INSTANTANEOUS,
                 f"at or above {self.instantaneous_multiple:g} In curve {self.curve_letter} trips in "
-                f"under 0.1 s (IEC 60898-1 Table 7); 0.1 s is an upper bound")
+                f"under 0.1 s (IEC 60898-1 Table 7); 0.1 s is an upper bound",
+            )
         if multiple >= t["c_test_multiple"]:
             return OperatingTime(
-                self.c_test_time_s, UPPER_BOUND,
+                self.c_test_time_s,
+                UPPER_BOUND,
                 f"below {self.instantaneous_multiple:g} In the standard only guarantees tripping within "
                 f"{self.c_test_time_s:g} s (from 2.55 In, IEC 60898-1 Table 7); the maker's curve may be "
-                f"faster: enter it as a curve device to use it")
+                f"faster: enter it as a curve device to use it",
+            )
         if multiple >= t["conventional_tripping_multiple"]:
             return OperatingTime(
-                self.conventional_time_s, UPPER_BOUND,
+                self.conventional_time_s,
+                UPPER_BOUND,
                 f"overload region: tripping guaranteed only within {self.conventional_time_s:g} s "
-                f"(1.45 In, IEC 60898-1 Table 7)")
-        return OperatingTime(None, NOT_OPERATING,
-                             "below 1.45 In the breaker is not required to trip (IEC 60898-1 Table 7)")
+                f"(1.45 In, IEC 60898-1 Table 7)",
+            )
+        return OperatingTime(
+            None, NOT_OPERATING, "below 1.45 In the breaker is not required to trip (IEC 60898-1 Table 7)"
+        )
 
     def current_for_time(self, time_s: float) -> float | None:
         """Smallest current at which tripping within `time_s` is guaranteed, or None if none is."""
@@ -126,9 +133,14 @@ class Mcb:
         i_c = t["c_test_multiple"] * self.rating_a
         i_inst = self.instantaneous_multiple * self.rating_a
         t_inst = t["instantaneous_time_s"]
-        return [(i_conv, self.conventional_time_s), (i_c, self.conventional_time_s),
-                (i_c, self.c_test_time_s), (i_inst, self.c_test_time_s), (i_inst, t_inst),
-                (i_inst * 4, t_inst)]
+        return [
+            (i_conv, self.conventional_time_s),
+            (i_c, self.conventional_time_s),
+            (i_c, self.c_test_time_s),
+            (i_inst, self.c_test_time_s),
+            (i_inst, t_inst),
+            (i_inst * 4, t_inst),
+        ]
 
 
 @dataclass(frozen=True)
@@ -150,19 +162,30 @@ class PointsDevice:
         first_i, first_t = self.points[0]
         last_i, last_t = self.points[-1]
         if current_a < first_i:
-            return OperatingTime(None, NOT_OPERATING,
-                                 f"below {first_i:.3g} A the {self.source} does not show the device "
-                                 f"operating")
+            return OperatingTime(
+                None,
+                NOT_OPERATING,
+                f"below {first_i:.3g} A the {self.source} does not show the device operating",
+            )
         if current_a > last_i:
             if self.standard:
-                return OperatingTime(last_t, UPPER_BOUND,
-                                     f"above {last_i:.4g} A the fuse clears within {last_t:g} s; the "
-                                     f"model holds no faster point, so {last_t:g} s is an upper bound")
-            return OperatingTime(None, BEYOND_CURVE,
-                                 f"above the last point entered ({last_i:.4g} A); add points at higher "
-                                 f"currents from the maker's chart (never extrapolated)")
-        return OperatingTime(loglog_time(self.points, current_a), INTERPOLATED,
-                             f"log-log interpolation between the points of the {self.source}")
+                return OperatingTime(
+                    last_t,
+                    UPPER_BOUND,
+                    f"above {last_i:.4g} A the fuse clears within {last_t:g} s; the "
+                    f"model holds no faster point, so {last_t:g} s is an upper bound",
+                )
+            return OperatingTime(
+                None,
+                BEYOND_CURVE,
+                f"above the last point entered ({last_i:.4g} A); add points at higher "
+                f"currents from the maker's chart (never extrapolated)",
+            )
+        return OperatingTime(
+            loglog_time(self.points, current_a),
+            INTERPOLATED,
+            f"log-log interpolation between the points of the {self.source}",
+        )
 
     def current_for_time(self, time_s: float) -> float | None:
         """Smallest current at which operation within `time_s` is shown, or None if none is."""
@@ -184,10 +207,11 @@ def mcb(curve_letter: str, rating_a: float) -> Mcb:
     t = tables.load("mcb")
     large = rating_a > t["c_test_large_above_a"]
     return Mcb(
-        curve_letter, rating_a, float(t["curve"][curve_letter]["instantaneous_trip"]),
+        curve_letter,
+        rating_a,
+        float(t["curve"][curve_letter]["instantaneous_trip"]),
         float(t["c_test_time_large_s"] if large else t["c_test_time_s"]),
-        float(t["conventional_time_large_s"] if rating_a > t["large_above_a"]
-              else t["conventional_time_s"]),
+        float(t["conventional_time_large_s"] if rating_a > t["large_above_a"] else t["conventional_time_s"]),
     )
 
 
@@ -197,8 +221,10 @@ def fuse_gg(rating_a: float) -> PointsDevice:
     data = tables.load("fuse_gg")
     row = next(r for r in data["rating"] if r["in_a"] == rating_a)
     basis_v = data["table_u0_v"] * data["table_cmin"]
-    points = [(row["fusing_multiple"] * rating_a, float(row["conventional_time_s"])),
-              (basis_v / row["zs_5_ohm"], 5.0)]
+    points = [
+        (row["fusing_multiple"] * rating_a, float(row["conventional_time_s"])),
+        (basis_v / row["zs_5_ohm"], 5.0),
+    ]
     if "zs_0_4_ohm" in row:
         points.append((basis_v / row["zs_0_4_ohm"], 0.4))
     if "gates_a" in row:

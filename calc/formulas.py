@@ -80,7 +80,9 @@ def k_from_constants(
     IEC 60364-5-54 Annex A (A.54.1) and IEC 60949 clause 3.
     """
     return math.sqrt(
-        qc_j_per_c_mm3 * (beta_c + 20.0) / rho20_ohm_mm
+        qc_j_per_c_mm3
+        * (beta_c + 20.0)
+        / rho20_ohm_mm
         * math.log((beta_c + theta_f_c) / (beta_c + theta_i_c))
     )
 

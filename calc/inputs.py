@@ -175,20 +175,36 @@ class CircuitInput:
         circuit: dict[str, Any] = {
             "role": self.role,
             "device": device,
-            "line": {"csa": self.line.csa_mm2, "material": self.line.material,
-                     "insulation": self.line.insulation},
-            "cpc": {"csa": self.cpc.csa_mm2, "material": self.cpc.material,
-                    "arrangement": self.cpc.arrangement},
+            "line": {
+                "csa": self.line.csa_mm2,
+                "material": self.line.material,
+                "insulation": self.line.insulation,
+            },
+            "cpc": {
+                "csa": self.cpc.csa_mm2,
+                "material": self.cpc.material,
+                "arrangement": self.cpc.arrangement,
+            },
         }
         if self.let_through_a2s is not None:
             circuit["let_through_i2t"] = self.let_through_a2s
         if self.rcd is not None:
             circuit["rcd"] = {"idn": self.rcd.idn_a, "type": self.rcd.type}
-        supply = {"system": self.supply.system, "u0": self.supply.u0_v, "cmin": self.supply.cmin,
-                  "ze": self.supply.ze_ohm, "pfc": self.supply.pfc_a}
+        supply = {
+            "system": self.supply.system,
+            "u0": self.supply.u0_v,
+            "cmin": self.supply.cmin,
+            "ze": self.supply.ze_ohm,
+            "pfc": self.supply.pfc_a,
+        }
         r = self.readings
-        measured = {"zs": r.zs_ohm, "zsc": r.zsc_ohm, "r1r2": r.r1r2_ohm, "ze": r.ze_ohm,
-                    "test_temp_c": r.test_temp_c}
+        measured = {
+            "zs": r.zs_ohm,
+            "zsc": r.zsc_ohm,
+            "r1r2": r.r1r2_ohm,
+            "ze": r.ze_ohm,
+            "test_temp_c": r.test_temp_c,
+        }
         return {
             "supply": {k: v for k, v in supply.items() if v is not None},
             "circuit": circuit,
@@ -204,7 +220,7 @@ def _section(data: Mapping[str, Any], name: str, path: str, required: bool) -> M
         if required:
             raise InputError(field, "is required")
         return {}
-    if not isinstance(value, Mapping):
+    if not isinstance(value, dict):
         raise InputError(field, "must be an object")
     return value
 
@@ -215,8 +231,9 @@ def _only(section: Mapping[str, Any], path: str, allowed: tuple[str, ...]) -> No
             raise InputError(f"{path}.{key}" if path else str(key), "is not a known field")
 
 
-def _number(section: Mapping[str, Any], path: str, name: str, default: float | None = None,
-            required: bool = False) -> float | None:
+def _number(
+    section: Mapping[str, Any], path: str, name: str, default: float | None = None, required: bool = False
+) -> float | None:
     field = f"{path}.{name}"
     value = section.get(name)
     if value is None or (isinstance(value, str) and not value.strip() and not required):
@@ -233,14 +250,17 @@ def _required_number(section: Mapping[str, Any], path: str, name: str) -> float:
     return number
 
 
-def _choice(section: Mapping[str, Any], path: str, name: str, choices: tuple[str, ...],
-            default: str | None = None) -> str:
+def _choice(
+    section: Mapping[str, Any], path: str, name: str, choices: tuple[str, ...], default: str | None = None
+) -> str:
     field = f"{path}.{name}"
     value = section.get(name)
     if value is None:
         if default is None:
             raise InputError(field, f"is required (one of {', '.join(choices)})")
         return default
+    if value in choices:
+        return value
     if not isinstance(value, str):
         raise InputError(field, f"must be one of {', '.join(choices)}")
     for choice in choices:
@@ -259,15 +279,20 @@ def read_device(section: Mapping[str, Any]) -> DeviceSpec:
         rating = _required_number(section, path, "rating")
         ratings = tables.load("mcb")["ratings_a"]
         if rating not in ratings:
-            raise InputError(f"{path}.rating", f"{rating:g} A is not a rating of IEC 60898-1 "
-                             f"(one of {', '.join(str(r) for r in ratings)})")
+            raise InputError(
+                f"{path}.rating",
+                f"{rating:g} A is not a rating of IEC 60898-1 (one of {', '.join(str(r) for r in ratings)})",
+            )
         return DeviceSpec("mcb", curve, rating, None)
     if kind == "fuse-gg":
         rating = _required_number(section, path, "rating")
         ratings = [row["in_a"] for row in tables.load("fuse_gg")["rating"]]
         if rating not in ratings:
-            raise InputError(f"{path}.rating", f"{rating:g} A has no gG data here "
-                             f"(one of {', '.join(str(r) for r in ratings)}); enter its curve points")
+            raise InputError(
+                f"{path}.rating",
+                f"{rating:g} A has no gG data here "
+                f"(one of {', '.join(str(r) for r in ratings)}); enter its curve points",
+            )
         return DeviceSpec("fuse-gg", None, rating, None)
     rating = _number(section, path, "rating")
     return DeviceSpec("curve", None, rating, read_points(section.get("points")))
@@ -299,8 +324,9 @@ def read_points(points: object) -> tuple[tuple[float, float], ...]:
         if i1 == i0:
             raise InputError(field, f"two points at the same current {i0:g} A")
         if t1 >= t0:
-            raise InputError(field, f"time must fall as current rises ({i0:g} A at {t0:g} s, "
-                                    f"then {i1:g} A at {t1:g} s)")
+            raise InputError(
+                field, f"time must fall as current rises ({i0:g} A at {t0:g} s, then {i1:g} A at {t1:g} s)"
+            )
     return tuple(parsed)
 
 
@@ -327,7 +353,7 @@ def read_input(data: object) -> CircuitInput:
 
     Raises InputError naming the first offending field.
     """
-    if not isinstance(data, Mapping):
+    if not isinstance(data, dict):
         raise InputError("input", "must be a JSON object")
     _only(data, "", ("supply", "circuit", "measured", "settings", "meta"))
     s = _section(data, "supply", "", required=True)
@@ -335,8 +361,7 @@ def read_input(data: object) -> CircuitInput:
     system = _choice(s, "supply", "system", SYSTEMS)
     u0 = _number(s, "supply", "u0") or DEFAULT_U0_V
     cmin = _number(s, "supply", "cmin") or DEFAULT_CMIN
-    supply = Supply(system, u0, cmin,
-                    _number(s, "supply", "ze"), _number(s, "supply", "pfc"))
+    supply = Supply(system, u0, cmin, _number(s, "supply", "ze"), _number(s, "supply", "pfc"))
     c = _section(data, "circuit", "", required=True)
     _only(c, "circuit", ("role", "device", "let_through_i2t", "rcd", "line", "cpc"))
     role = _choice(c, "circuit", "role", ROLES, "final")
@@ -358,5 +383,6 @@ def read_input(data: object) -> CircuitInput:
     _only(st, "settings", ("final_circuit_max_a",))
     default_scope = float(tables.load("disconnection_times")["final_circuit_max_a_default"])
     scope = _number(st, "settings", "final_circuit_max_a") or default_scope
-    return CircuitInput(supply, role, device, _number(c, "circuit", "let_through_i2t"), rcd,
-                        line, cpc, readings, scope)
+    return CircuitInput(
+        supply, role, device, _number(c, "circuit", "let_through_i2t"), rcd, line, cpc, readings, scope
+    )

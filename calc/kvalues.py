@@ -47,8 +47,13 @@ def k_protective(material: str, arrangement: str, insulation: str) -> KValue | N
     row = tables.load("k_protective").get(arrangement, {}).get(insulation)
     if row is None or material not in row:
         return None
-    return KValue(float(row[material]), float(row["theta_i_c"]), float(row["theta_f_c"]),
-                  f"IEC 60364-5-54 Table {row['table']}", material in row.get("memory", ()))
+    return KValue(
+        float(row[material]),
+        float(row["theta_i_c"]),
+        float(row["theta_f_c"]),
+        f"IEC 60364-5-54 Table {row['table']}",
+        material in row.get("memory", ()),
+    )
 
 
 def operating_temperature_c(insulation: str) -> float:

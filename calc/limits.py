@@ -15,8 +15,9 @@ class TimeLimit:
     rule: str
 
 
-def max_disconnection_time(system: str, u0_v: float, role: str, rating_a: float | None,
-                           final_circuit_max_a: float) -> TimeLimit:
+def max_disconnection_time(
+    system: str, u0_v: float, role: str, rating_a: float | None, final_circuit_max_a: float
+) -> TimeLimit:
     """Maximum disconnection time by system, U0 and circuit role.
 
     IEC 60364-4-41 Table 41.1 for final circuits up to `final_circuit_max_a` (32 A by default; some
@@ -29,14 +30,19 @@ def max_disconnection_time(system: str, u0_v: float, role: str, rating_a: float 
     in_table = role == "final" and (rating_a is None or rating_a <= final_circuit_max_a)
     if not in_table:
         clause = "411.3.2.4" if system == "TT" else "411.3.2.3"
-        why = "distribution circuit" if role == "distribution" else \
-            f"final circuit above {final_circuit_max_a:g} A"
+        why = (
+            "distribution circuit"
+            if role == "distribution"
+            else f"final circuit above {final_circuit_max_a:g} A"
+        )
         return TimeLimit(data["other_circuits"][column], f"IEC 60364-4-41 {clause}, {earthing}, {why}")
     lower = data["u0_min_v"]
     for band in data["band"]:
         if u0_v <= band["u0_max_v"]:
-            return TimeLimit(band[column], f"IEC 60364-4-41 Table 41.1, {earthing}, "
-                                           f"{lower:g} V < U0 ≤ {band['u0_max_v']:g} V")
+            return TimeLimit(
+                band[column],
+                f"IEC 60364-4-41 Table 41.1, {earthing}, {lower:g} V < U0 ≤ {band['u0_max_v']:g} V",
+            )
         lower = band["u0_max_v"]
     return TimeLimit(None, "IEC 60364-4-41 Table 41.1 does not cover this U0")
 

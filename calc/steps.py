@@ -5,6 +5,7 @@ The same record is shown by the app, printed in the PDF and exported in JSON.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
@@ -38,8 +39,21 @@ class Step:
     note: str = ""
 
     def to_dict(self) -> dict[str, Any]:
-        return {"id": self.id, "title": self.title, "formula": self.formula, "working": self.working,
-                "value": self.value, "unit": self.unit, "verdict": self.verdict, "note": self.note}
+        return {
+            "id": self.id,
+            "title": self.title,
+            "formula": self.formula,
+            "working": self.working,
+            "value": self.value,
+            "unit": self.unit,
+            "verdict": self.verdict,
+            "note": self.note,
+        }
+
+
+StepThunk = Callable[[], "Step"]
+"""A step not yet written out: the walk decides every number and verdict first and writes the working
+text only when someone reads the steps (the app, the PDF, the JSON), which keeps bulk checks fast."""
 
 
 def fmt(x: float) -> str:

@@ -9,10 +9,22 @@ import pytest
 from calc import CAUTIONS, InputError, assess
 
 REQUIRED_KEYS = {
-    "earth_fault_current_a", "short_circuit_current_a", "max_disconnection_time_s", "device_time_s",
-    "device_time_at_short_circuit_s", "zs_max_ohm", "disconnection_ok", "k_line", "k_cpc",
-    "line_withstand_time_s", "line_withstand_ok", "cpc_min_csa_mm2", "cpc_by_proportional_rule",
-    "cpc_ok", "verdict", "steps",
+    "earth_fault_current_a",
+    "short_circuit_current_a",
+    "max_disconnection_time_s",
+    "device_time_s",
+    "device_time_at_short_circuit_s",
+    "zs_max_ohm",
+    "disconnection_ok",
+    "k_line",
+    "k_cpc",
+    "line_withstand_time_s",
+    "line_withstand_ok",
+    "cpc_min_csa_mm2",
+    "cpc_by_proportional_rule",
+    "cpc_ok",
+    "verdict",
+    "steps",
 }
 STEP_KEYS = {"id", "title", "formula", "working", "value", "unit", "verdict", "note"}
 
@@ -150,8 +162,11 @@ def test_tt_with_rcd_touch_voltage(circuit):
 
 
 def test_curve_device_beyond_its_points_is_incomplete(circuit):
-    circuit["circuit"]["device"] = {"kind": "curve", "points": [[40, 100], [150, 5], [300, 0.4]],
-                                    "rating": 32}
+    circuit["circuit"]["device"] = {
+        "kind": "curve",
+        "points": [[40, 100], [150, 5], [300, 0.4]],
+        "rating": 32,
+    }
     circuit["measured"] = {"zs": 0.3}  # If = 728 A, above the last point
     result = assess(circuit)
     assert result.device_time_s is None
@@ -205,6 +220,15 @@ def test_missing_required_fields(circuit):
 
 def test_error_message_text():
     with pytest.raises(InputError) as info:
-        assess({"supply": {"system": "TN-S"}, "circuit": {"device": {"kind": "mcb", "curve": "B",
-                "rating": 32}, "line": {"csa": 2.5}, "cpc": {"csa": 1.5}}, "measured": {"zs": -0.2}})
+        assess(
+            {
+                "supply": {"system": "TN-S"},
+                "circuit": {
+                    "device": {"kind": "mcb", "curve": "B", "rating": 32},
+                    "line": {"csa": 2.5},
+                    "cpc": {"csa": 1.5},
+                },
+                "measured": {"zs": -0.2},
+            }
+        )
     assert str(info.value) == "measured.zs: must be greater than zero"

@@ -14,8 +14,14 @@ ROOT = Path(__file__).resolve().parents[1]
 
 
 def run(*args: str, stdin: str | None = None) -> subprocess.CompletedProcess[str]:
-    return subprocess.run([sys.executable, "-m", "calc", *args], input=stdin, capture_output=True,
-                          text=True, cwd=ROOT, timeout=60)
+    return subprocess.run(
+        [sys.executable, "-m", "calc", *args],
+        input=stdin,
+        capture_output=True,
+        text=True,
+        cwd=ROOT,
+        timeout=60,
+    )
 
 
 def test_assess_from_stdin_prints_json():
@@ -50,8 +56,7 @@ def test_text_output_shows_the_working_and_cautions():
         ({"measured": {"zs": 0}}, "measured.zs"),
         ({"measured": {"zs": "0.5 mm^2"}}, "measured.zs"),
         ({"circuit": {"device": {"kind": "mcb", "curve": "Q", "rating": 32}}}, "circuit.device.curve"),
-        ({"circuit": {"device": {"kind": "curve", "points": [[100, 1], [200, 2]]}}},
-         "circuit.device.points"),
+        ({"circuit": {"device": {"kind": "curve", "points": [[100, 1], [200, 2]]}}}, "circuit.device.points"),
         ({"circuit": {"line": {"csa": 0}}}, "circuit.line.csa"),
         ({"supply": {"u0": 230}}, "supply.system"),
     ],
@@ -73,9 +78,16 @@ def test_invalid_input_one_line_exit_2(change, field):
 
 @pytest.mark.parametrize(
     "args_stdin",
-    [(("assess", "-"), "{not json"), (("assess", "-"), "[1, 2]"), (("assess", "/no/such/file"), None),
-     (("assess",), None), (("frobnicate",), None), (("limits", "--device", "Z99"), None),
-     (("limits", "--device", "curve"), None), (("limits", "--device", "B33"), None)],
+    [
+        (("assess", "-"), "{not json"),
+        (("assess", "-"), "[1, 2]"),
+        (("assess", "/no/such/file"), None),
+        (("assess",), None),
+        (("frobnicate",), None),
+        (("limits", "--device", "Z99"), None),
+        (("limits", "--device", "curve"), None),
+        (("limits", "--device", "B33"), None),
+    ],
 )
 def test_bad_usage_is_one_line(args_stdin):
     args, stdin = args_stdin

@@ -34,8 +34,17 @@ def test_mcb_max_zs_matches_published_tables(curve, rating, zs, time_s):
 
 @pytest.mark.parametrize(
     ("rating", "zs"),
-    [(6, 7.80), (10, 4.65), (16, 2.43), (20, 1.68), (25, 1.29), (32, 0.99), (40, 0.75), (50, 0.57),
-     (63, 0.44)],
+    [
+        (6, 7.80),
+        (10, 4.65),
+        (16, 2.43),
+        (20, 1.68),
+        (25, 1.29),
+        (32, 0.99),
+        (40, 0.75),
+        (50, 0.57),
+        (63, 0.44),
+    ],
 )
 def test_gg_max_zs_at_0_4_s(rating, zs):
     # BS 7671:2018 Table 41.2, BS 88-2 gG fuses, 0.4 s, Cmin 0.95
@@ -44,16 +53,31 @@ def test_gg_max_zs_at_0_4_s(rating, zs):
 
 @pytest.mark.parametrize(
     ("rating", "zs"),
-    [(6, 12), (10, 6.8), (16, 4.0), (20, 2.8), (25, 2.2), (32, 1.7), (40, 1.3), (50, 0.99), (63, 0.78),
-     (80, 0.55), (100, 0.42), (125, 0.32), (160, 0.27), (200, 0.18)],
+    [
+        (6, 12),
+        (10, 6.8),
+        (16, 4.0),
+        (20, 2.8),
+        (25, 2.2),
+        (32, 1.7),
+        (40, 1.3),
+        (50, 0.99),
+        (63, 0.78),
+        (80, 0.55),
+        (100, 0.42),
+        (125, 0.32),
+        (160, 0.27),
+        (200, 0.18),
+    ],
 )
 def test_gg_max_zs_at_5_s(rating, zs):
     # BS 7671:2018 Table 41.4, BS 88-2 gG fuses, 5 s, Cmin 0.95
     assert zs_max({"kind": "fuse-gg", "rating": rating}, 5.0) == pytest.approx(zs, abs=0.01)
 
 
-@pytest.mark.parametrize("row", [r for r in tables.load("fuse_gg")["rating"] if "gates_a" in r],
-                         ids=lambda r: f"gG{r['in_a']}")
+@pytest.mark.parametrize(
+    "row", [r for r in tables.load("fuse_gg")["rating"] if "gates_a" in r], ids=lambda r: f"gG{r['in_a']}"
+)
 def test_gg_model_lies_inside_the_iec_60269_gates(row):
     # IEC 60269-1 Table 3 gates (from memory): the fuse must operate within 5 s at Imax(5 s) and within
     # 0.1 s at Imax(0.1 s), and must not operate within 10 s below Imin(10 s).
@@ -97,8 +121,16 @@ def test_curve_device_is_never_extrapolated():
 
 @pytest.mark.parametrize(
     "points",
-    [[[100, 1], [200, 5]], [[100, 5], [200, 5]], [[100, 5], [100, 1]], [[100, 5]], [], "x",
-     [[100, 5], [200, -1]], [[100, 5], ["200 V", 1]]],
+    [
+        [[100, 1], [200, 5]],
+        [[100, 5], [200, 5]],
+        [[100, 5], [100, 1]],
+        [[100, 5]],
+        [],
+        "x",
+        [[100, 5], [200, -1]],
+        [[100, 5], ["200 V", 1]],
+    ],
 )
 def test_curve_points_that_do_not_fall_are_refused(points):
     with pytest.raises(InputError) as info:
@@ -119,8 +151,9 @@ def _all_devices():
         yield {"kind": "fuse-gg", "rating": row["in_a"]}
 
 
-@pytest.mark.parametrize("device", list(_all_devices()), ids=lambda d: str(d.get("curve", "gG")) +
-                         str(d["rating"]))
+@pytest.mark.parametrize(
+    "device", list(_all_devices()), ids=lambda d: str(d.get("curve", "gG")) + str(d["rating"])
+)
 def test_every_device_curve_in_the_data_is_monotonic(device):
     points = device_curve(device)
     assert all(i > 0 and t > 0 for i, t in points)

@@ -61,8 +61,17 @@ def test_copper_resistance_temperature_factor():
 
 @pytest.mark.parametrize(
     ("system", "u0", "time_s"),
-    [("TN-S", 230, 0.4), ("TN-C-S", 230, 0.4), ("TT", 230, 0.2), ("TN-S", 110, 0.8), ("TT", 110, 0.3),
-     ("TN-S", 400, 0.2), ("TT", 400, 0.07), ("TN-S", 690, 0.1), ("TT", 690, 0.04)],
+    [
+        ("TN-S", 230, 0.4),
+        ("TN-C-S", 230, 0.4),
+        ("TT", 230, 0.2),
+        ("TN-S", 110, 0.8),
+        ("TT", 110, 0.3),
+        ("TN-S", 400, 0.2),
+        ("TT", 400, 0.07),
+        ("TN-S", 690, 0.1),
+        ("TT", 690, 0.04),
+    ],
 )
 def test_table_41_1(system, u0, time_s):
     # IEC 60364-4-41 Table 41.1, final circuits ≤ 32 A

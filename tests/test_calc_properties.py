@@ -13,8 +13,11 @@ from samples import BASE_CIRCUIT
 from calc import CalcError, assess
 
 DEVICES = st.one_of(
-    st.builds(lambda c, r: {"kind": "mcb", "curve": c, "rating": r}, st.sampled_from("BCD"),
-              st.sampled_from([6, 10, 16, 20, 32, 40, 63, 100, 125])),
+    st.builds(
+        lambda c, r: {"kind": "mcb", "curve": c, "rating": r},
+        st.sampled_from("BCD"),
+        st.sampled_from([6, 10, 16, 20, 32, 40, 63, 100, 125]),
+    ),
     st.builds(lambda r: {"kind": "fuse-gg", "rating": r}, st.sampled_from([6, 16, 32, 63, 100, 200])),
 )
 ZS = st.floats(min_value=0.01, max_value=50, allow_nan=False)
@@ -61,22 +64,58 @@ def test_output_json_round_trips_through_its_normalised_inputs(device, zs, zsc, 
 
 JSONISH = st.recursive(
     st.none() | st.booleans() | st.floats() | st.integers() | st.text(max_size=12),
-    lambda children: st.lists(children, max_size=4) | st.dictionaries(st.text(max_size=8), children,
-                                                                      max_size=4),
+    lambda children: (
+        st.lists(children, max_size=4) | st.dictionaries(st.text(max_size=8), children, max_size=4)
+    ),
     max_leaves=20,
 )
 FIELD_VALUES = st.one_of(
-    JSONISH, st.sampled_from(["0.5 mm^2", "620 mΩ", "1e400", "-0", " ", "2.5mm", "30 mA", "°C", "nan",
-                              "inf ohm", "1/0", "ohm ohm", "1 kA**2", "(", "1 A*s"])
+    JSONISH,
+    st.sampled_from(
+        [
+            "0.5 mm^2",
+            "620 mΩ",
+            "1e400",
+            "-0",
+            " ",
+            "2.5mm",
+            "30 mA",
+            "°C",
+            "nan",
+            "inf ohm",
+            "1/0",
+            "ohm ohm",
+            "1 kA**2",
+            "(",
+            "1 A*s",
+        ]
+    ),
 )
-PATHS = st.sampled_from([
-    ("measured", "zs"), ("measured", "zsc"), ("measured", "r1r2"), ("measured", "test_temp_c"),
-    ("supply", "u0"), ("supply", "cmin"), ("supply", "system"), ("circuit", "line", "csa"),
-    ("circuit", "cpc", "csa"), ("circuit", "device", "rating"), ("circuit", "device", "curve"),
-    ("circuit", "device", "kind"), ("circuit", "device", "points"), ("circuit", "rcd"),
-    ("circuit", "let_through_i2t"), ("circuit", "cpc", "arrangement"), ("circuit", "line", "material"),
-    ("supply",), ("circuit",), ("measured",), ("settings", "final_circuit_max_a"),
-])
+PATHS = st.sampled_from(
+    [
+        ("measured", "zs"),
+        ("measured", "zsc"),
+        ("measured", "r1r2"),
+        ("measured", "test_temp_c"),
+        ("supply", "u0"),
+        ("supply", "cmin"),
+        ("supply", "system"),
+        ("circuit", "line", "csa"),
+        ("circuit", "cpc", "csa"),
+        ("circuit", "device", "rating"),
+        ("circuit", "device", "curve"),
+        ("circuit", "device", "kind"),
+        ("circuit", "device", "points"),
+        ("circuit", "rcd"),
+        ("circuit", "let_through_i2t"),
+        ("circuit", "cpc", "arrangement"),
+        ("circuit", "line", "material"),
+        ("supply",),
+        ("circuit",),
+        ("measured",),
+        ("settings", "final_circuit_max_a"),
+    ]
+)
 
 
 @settings(max_examples=400, deadline=None, suppress_health_check=[HealthCheck.too_slow])
