@@ -1,0 +1,127 @@
+"""PDF export: the text a reader (pypdf) finds in it, the embedded font, and the layout helpers."""
+
+from __future__ import annotations
+
+import io
+import re
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+from pypdf import PdfReader
+
+from mobile_app.records import Store
+from mobile_app.records.demo import DEMO_PIN, create_demo_job
+from mobile_app.records.export import CAUTIONS, job_pdf_bytes
+from mobile_app.records.export_pdf_layout import FONT, JobPdf, wrap_text
+
+
+@pytest.fixture(scope="module")
+def approved_pdf(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[dict, PdfReader, str]]:
+    """The demo job, approved by its supervisor, as a PDF read back with pypdf."""
+    store = Store.open(Path(tmp_path_factory.mktemp("pdf-store")))
+    job_id = create_demo_job(store)
+    people = {person["name"]: person["id"] for person in store.people()}
+    store.submit_for_review(job_id, people["Rosa Quennell"])
+    store.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+    doc = store.job_document(job_id)
+    store.close()
+    reader = PdfReader(io.BytesIO(job_pdf_bytes(doc)))
+    text = "\n".join(page.extract_text() for page in reader.pages)
+    yield doc, reader, text
+
+
+def _squash(text: str) -> str:
+    """Text with runs of white space made one space (lines may wrap anywhere in a PDF)."""
+    return " ".join(text.split())
+
+
+def test_job_and_supply_are_in_the_header(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    _doc, reader, _text = approved_pdf
+    first = _squash(reader.pages[0].extract_text())
+    assert "Verification record: TY-2026-118" in first
+    assert "Unit 7, Tannery Yard, Harlow Mill Road, Wexcombe" in first
+    assert "TN-C-S" in first and "230 V" in first and "0.28 Ω" in first
+    assert "1900 A (typed “1.9 kA”)" in first
+    assert "22 circuits: 18 pass, 3 fail, 1 incomplete or not assessed" in first
+
+
+def test_every_circuit_and_verdict_is_listed(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    doc, _reader, text = approved_pdf
+    flat = _squash(text)
+    for board in doc["boards"]:
+        assert f"Board {board['designation']}" in flat
+        for circuit in board["circuits"]:
+            assert f"Board {board['designation']} · circuit {circuit['number']}" in flat
+    assert flat.count("Verdict: PASS") == 18
+    assert flat.count("Verdict: FAIL") == 3
+    assert flat.count("Verdict: INCOMPLETE") == 1
+    assert "Pug mill motor" in flat and "Glaze store sockets" in flat
+
+
+def test_working_shows_formulas_numbers_and_symbols(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    _doc, _reader, text = approved_pdf
+    flat = _squash(text)
+    assert "If = U0 · Cmin / Zs → If = 230 × 0.95 / 0.71 = 307.7 A" in flat
+    assert "S = √(If² · t) / k" in flat
+    for symbol in ("Ω", "²", "√", "Δ", "·", "≤"):
+        assert symbol in flat, symbol
+
+
+def test_review_block_and_cautions(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    _doc, reader, text = approved_pdf
+    flat = _squash(text)
+    assert "Review and approval" in flat
+    assert "Approved by Ines Okafor" in flat and "Recorded by Rosa Quennell" in flat
+    for caution in CAUTIONS:
+        assert _squash(caution) in flat
+    for page in reader.pages:  # the footer carries the cautions on every page
+        assert "Testing live circuits is dangerous" in _squash(page.extract_text())
+
+
+def test_pages_are_numbered(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    _doc, reader, _text = approved_pdf
+    total = len(reader.pages)
+    assert total > 2
+    for number, page in enumerate(reader.pages, start=1):
+        assert re.search(rf"page {number} of {total}\b", page.extract_text())
+
+
+def test_dejavu_is_embedded(approved_pdf: tuple[dict, PdfReader, str]) -> None:
+    _doc, reader, _text = approved_pdf
+    fonts = reader.pages[0]["/Resources"]["/Font"]
+    names = {str(fonts[key].get_object()["/BaseFont"]) for key in fonts}
+    assert any("DejaVuSans" in name for name in names)
+    for key in fonts:
+        descendant = fonts[key].get_object()["/DescendantFonts"][0].get_object()
+        assert "/FontFile2" in descendant["/FontDescriptor"]  # the TrueType program is in the file
+
+
+def test_a_draft_says_it_is_not_approved() -> None:
+    doc = {"schema": "boardside-job", "schema_version": 1, "exported_at": "2026-12-02T07:00:00+00:00",
+           "job": {"id": 3, "revision": 1, "status": "draft", "client_ref": "X-1", "fields": {}},
+           "boards": [{"designation": "DB-A", "circuits": []}]}
+    flat = _squash("\n".join(p.extract_text() for p in PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages))
+    assert "Not approved: this record has not been approved by a supervisor." in flat
+    assert "No circuits recorded on this board." in flat
+    assert "page 1 of" in flat
+
+
+def test_long_unbroken_text_is_wrapped_not_lost() -> None:
+    long_word = "A" * 300
+    circuit = {"number": "1", "description": long_word, "verdict": None, "fields": {}}
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 4, "fields": {}},
+           "boards": [{"designation": "DB-B", "circuits": [circuit]}]}
+    text = "".join(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text().split())
+    assert long_word in text
+
+
+@pytest.mark.parametrize("width_mm", [20.0, 50.0, 180.0])
+def test_wrap_text_keeps_every_word_and_fits(width_mm: float) -> None:
+    pdf = JobPdf("title", "note")
+    pdf.set_font(FONT, "", 9)
+    text = "Zs = 0.71 Ω; If = 230 × 0.95 / 0.71 = 307.7 A; S = √(If² · t) / k " * 4 + "x" * 120
+    lines = wrap_text(pdf, text, width_mm)
+    assert "".join("".join(lines).split()) == "".join(text.split())
+    assert all(pdf.get_string_width(line) <= width_mm + 1e-6 for line in lines)
+    assert wrap_text(pdf, "one\n\ntwo", width_mm) == ["one", "", "two"]
