@@ -150,6 +150,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     """Entry point: typed errors become one line on stderr and exit 2."""
     try:
         return run(sys.argv[1:] if argv is None else argv, sys.stdin, sys.stdout)
+    except BrokenPipeError:  # the reader stopped early (`| head`): not an error of ours
+        sys.stderr.close()
+        return 0
     except CalcError as exc:
         message = str(exc) if isinstance(exc, UsageError) else f"invalid input: {exc}"
         print(message.replace("\n", " "), file=sys.stderr)
