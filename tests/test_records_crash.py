@@ -49,8 +49,14 @@ def prepare(folder: Path) -> list[int]:
         job_id = store.create_job({"client_ref": "CRASH", "system": "TN-S", "ze": "0.3"})
         board_id = store.add_board(job_id, "DB1")
         first = store.add_circuit(board_id, "1")
-        for name, raw in {"role": "final", "device_kind": "mcb", "device_curve": "B",
-                          "device_rating": "32", "line_csa": "2.5", "cpc_csa": "1.5"}.items():
+        for name, raw in {
+            "role": "final",
+            "device_kind": "mcb",
+            "device_curve": "B",
+            "device_rating": "32",
+            "line_csa": "2.5",
+            "cpc_csa": "1.5",
+        }.items():
             store.set_circuit_field(first, name, raw)
         return [first] + [store.add_circuit(board_id, str(n)) for n in (2, 3, 4)]
 
@@ -63,7 +69,11 @@ def test_sigkill_at_random_moments_loses_no_acknowledged_save(tmp_path: Path) ->
     for run in range(1, KILLS + 1):
         child = subprocess.Popen(
             [sys.executable, "-c", CHILD, str(tmp_path), str(run), ",".join(map(str, ids))],
-            cwd=ROOT, stdout=subprocess.PIPE, text=True, encoding="utf-8")
+            cwd=ROOT,
+            stdout=subprocess.PIPE,
+            text=True,
+            encoding="utf-8",
+        )
         assert child.stdout is not None
         assert child.stdout.readline().strip() == "ready"
         time.sleep(chance.uniform(0.0, 0.25))

@@ -80,11 +80,11 @@ def test_a_second_writer_with_a_stale_version_is_told(store: Store) -> None:
             other.set_circuit_field(1, "zs", "0.72", expected_version=seen_there)
         assert str(caught.value) == (
             f"circuit 1 was changed elsewhere (version {seen_there + 1}, you had {seen_there}):"
-            " reload it before saving")
+            " reload it before saving"
+        )
         assert other.get_circuit(1)["fields"]["zs"]["raw"] == "0.61"
         fresh = other.get_circuit(1)["version"]
-        assert other.set_circuit_field(1, "zs", "0.72", expected_version=fresh)["version"] == (
-            fresh + 1)
+        assert other.set_circuit_field(1, "zs", "0.72", expected_version=fresh)["version"] == (fresh + 1)
     finally:
         other.close()
 

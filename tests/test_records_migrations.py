@@ -15,17 +15,24 @@ from mobile_app.records.demo import create_demo_job
 from mobile_app.records.fields import parse_field
 from mobile_app.records.schema import SCHEMA_VERSION, STEPS, build_migrations, migrate
 
-CIRCUIT_TYPED = {"number": "1", "description": "Kitchen ring — façade side", "role": "final",
-                 "device_kind": "mcb", "device_curve": "B", "device_rating": "32",
-                 "line_csa": "2.5", "cpc_csa": "1.5", "cpc_arrangement": "in-cable",
-                 "zs": "0,62 Ω"}
+CIRCUIT_TYPED = {
+    "number": "1",
+    "description": "Kitchen ring — façade side",
+    "role": "final",
+    "device_kind": "mcb",
+    "device_curve": "B",
+    "device_rating": "32",
+    "line_csa": "2.5",
+    "cpc_csa": "1.5",
+    "cpc_arrangement": "in-cable",
+    "zs": "0,62 Ω",
+}
 
 
 def triple(kind: str, name: str, raw: str) -> dict[str, object]:
     """The three columns of one typed field, parsed as the store parses it."""
     parsed = parse_field(kind, name, raw)
-    return {f"{name}_raw": parsed.raw, f"{name}_value": parsed.value,
-            f"{name}_error": parsed.error}
+    return {f"{name}_raw": parsed.raw, f"{name}_value": parsed.value, f"{name}_error": parsed.error}
 
 
 def old_store(folder: Path, version: int) -> Path:
@@ -37,22 +44,46 @@ def old_store(folder: Path, version: int) -> Path:
     db.execute(f"PRAGMA user_version={version}")
     stamp = "2026-01-05T08:00:00.000+00:00"
     db["people"].insert({"id": 1, "name": "Zoë Ålund", "role": "qualified", "created_at": stamp})
-    db["jobs"].insert({"id": 1, "status": "draft", "created_at": stamp, "updated_at": stamp,
-                       "recorded_by": 1, **triple("job", "client_ref", "OLD-1"),
-                       **triple("job", "system", "TN-S"), **triple("job", "u0", "230"),
-                       **triple("job", "cmin", "0.95"), **triple("job", "ze", "0.8")})
-    db["boards"].insert({"id": 1, "job_id": 1, "position": 1,
-                         **triple("board", "designation", "DB-Ø")})
+    db["jobs"].insert(
+        {
+            "id": 1,
+            "status": "draft",
+            "created_at": stamp,
+            "updated_at": stamp,
+            "recorded_by": 1,
+            **triple("job", "client_ref", "OLD-1"),
+            **triple("job", "system", "TN-S"),
+            **triple("job", "u0", "230"),
+            **triple("job", "cmin", "0.95"),
+            **triple("job", "ze", "0.8"),
+        }
+    )
+    db["boards"].insert({"id": 1, "job_id": 1, "position": 1, **triple("board", "designation", "DB-Ø")})
     circuit = {"id": 1, "board_id": 1, "position": 1, "updated_at": stamp, "verdict": "pass"}
     for name, raw in CIRCUIT_TYPED.items():
         circuit.update(triple("circuit", name, raw))
     db["circuits"].insert(circuit)
-    db["audit"].insert({"job_id": 1, "at": stamp, "person_id": 1, "entity": "circuit",
-                        "entity_id": 1, "field": "zs", "old": "", "new": "0,62 Ω"})
+    db["audit"].insert(
+        {
+            "job_id": 1,
+            "at": stamp,
+            "person_id": 1,
+            "entity": "circuit",
+            "entity_id": 1,
+            "field": "zs",
+            "old": "",
+            "new": "0,62 Ω",
+        }
+    )
     if version >= 2:
-        db["library_devices"].insert({"name": "old curve", "rating_a": 100,
-                                      "points": "[[130, 3000], [600, 0.04]]",
-                                      "created_at": stamp})
+        db["library_devices"].insert(
+            {
+                "name": "old curve",
+                "rating_a": 100,
+                "points": "[[130, 3000], [600, 0.04]]",
+                "created_at": stamp,
+            }
+        )
     if version >= 3:
         db.execute("UPDATE boards SET system_raw = 'TT', system_value = 'TT'")
     db.close()
@@ -74,14 +105,12 @@ def test_every_earlier_version_migrates_with_its_data(tmp_path: Path, version: i
     with Store.open(tmp_path) as store:
         assert store.db.conn.execute("PRAGMA user_version").fetchone() == (SCHEMA_VERSION,)
         job = store.get_job(1)
-        assert (job["fields"]["client_ref"]["raw"], job["version"], job["revision"]) == (
-            "OLD-1", 1, 1)
+        assert (job["fields"]["client_ref"]["raw"], job["version"], job["revision"]) == ("OLD-1", 1, 1)
         circuit = store.get_circuit(1)
         assert circuit["fields"]["zs"] == {"raw": "0,62 Ω", "value": 0.62, "error": None}
         assert circuit["fields"]["description"]["raw"] == "Kitchen ring — façade side"
         assert circuit["fields"]["library_device_id"]["raw"] == ""
-        assert store.people() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified",
-                                   "has_pin": 0}]
+        assert store.people() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified", "has_pin": 0}]
         assert [a["new"] for a in store.audit(1)] == ["0,62 Ω"]
         assert len(store.library_devices()) == (1 if version >= 2 else 0)
         assert store.boards(1)[0]["fields"]["system"]["value"] == ("TT" if version >= 3 else None)
@@ -116,7 +145,8 @@ def test_a_failing_migration_leaves_the_file_as_it_was(tmp_path: Path) -> None:
         migrate(db, path, (*STEPS, ("005_broken", broken)))
     db.close()
     assert str(caught.value) == (
-        f"could not update the store {path}: RuntimeError: disk said no (file left unchanged)")
+        f"could not update the store {path}: RuntimeError: disk said no (file left unchanged)"
+    )
     assert dump(path) == before
     assert len(list((tmp_path / "backups").iterdir())) == 1
 
@@ -124,8 +154,9 @@ def test_a_failing_migration_leaves_the_file_as_it_was(tmp_path: Path) -> None:
 def test_a_store_from_a_newer_app_is_refused_untouched(tmp_path: Path) -> None:
     path = old_store(tmp_path, SCHEMA_VERSION)
     with sqlite_utils.Database(path) as db:
-        db["_sqlite_migrations"].insert({"migration_set": "boardside", "name": "099_future",
-                                         "applied_at": "2027-01-01"})
+        db["_sqlite_migrations"].insert(
+            {"migration_set": "boardside", "name": "099_future", "applied_at": "2027-01-01"}
+        )
     before = dump(path)
     with pytest.raises(StoreTooNewError, match="comes from a newer Boardside \\(099_future\\)"):
         Store.open(tmp_path)
@@ -150,12 +181,12 @@ def test_a_damaged_store_is_moved_aside_with_its_bytes(tmp_path: Path) -> None:
     path = tmp_path / STORE_FILE
     conn = sqlite3.connect(path)
     root, page_size = conn.execute(
-        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master"
-        " WHERE name = 'circuits'").fetchone()
+        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master WHERE name = 'circuits'"
+    ).fetchone()
     conn.close()
     data = bytearray(path.read_bytes())
     offset = (root - 1) * page_size
-    data[offset:offset + 12] = b"\x5a" * 12
+    data[offset : offset + 12] = b"\x5a" * 12
     path.write_bytes(bytes(data))
     with Store.open(tmp_path) as store:
         moved = store.recovered

@@ -53,9 +53,15 @@ def draft_job(store: Store, by: int) -> tuple[int, int]:
     job_id = store.create_job({"client_ref": "R-1", "system": "TN-S", "ze": "0.8"}, by=by)
     board_id = store.add_board(job_id, "DB1", by=by)
     circuit_id = store.add_circuit(board_id, "1", "lights", by=by)
-    for name, raw in {"role": "final", "device_kind": "mcb", "device_curve": "B",
-                      "device_rating": "6", "line_csa": "1.5", "cpc_csa": "1.0",
-                      "zs": "1.2"}.items():
+    for name, raw in {
+        "role": "final",
+        "device_kind": "mcb",
+        "device_curve": "B",
+        "device_rating": "6",
+        "line_csa": "1.5",
+        "cpc_csa": "1.0",
+        "zs": "1.2",
+    }.items():
         store.set_circuit_field(circuit_id, name, raw, by=by)
     return job_id, circuit_id
 
@@ -76,7 +82,10 @@ def test_draft_submitted_approved(store: Store) -> None:
     store.approve(job_id, people.supervisor, PIN)
     job = store.get_job(job_id)
     assert (job["status"], job["approved_by"], job["submitted_by"]) == (
-        "approved", people.supervisor, people.apprentice)
+        "approved",
+        people.supervisor,
+        people.apprentice,
+    )
     with pytest.raises(ReadOnlyError, match="open a new revision"):
         store.set_circuit_field(circuit_id, "zs", "0.9")
     with pytest.raises(ReadOnlyError):
@@ -169,7 +178,11 @@ def test_revision_copies_the_approved_job_and_leaves_it_unchanged(store: Store) 
         store.open_revision(job_id, "again", people.qualified)
     new = store.get_job(new_id)
     assert (new["status"], new["revision"], new["parent_job_id"], new["revision_reason"]) == (
-        "draft", 2, job_id, "RCD added to circuit 1")
+        "draft",
+        2,
+        job_id,
+        "RCD added to circuit 1",
+    )
     (board,) = store.boards(new_id)
     (circuit,) = store.circuits(board["id"])
     copied = store.get_circuit(circuit["id"])

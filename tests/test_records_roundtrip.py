@@ -14,9 +14,34 @@ from mobile_app.records.demo import create_demo_job
 from mobile_app.records.errors import DocumentError
 
 ODD = [
-    "", " ", "0.62", " 0.62 ", "0,62", "620 mΩ", "620mΩ", "0.62 ohm", "∞", "NaN", "-0", "1e309",
-    "½", "٠٫٦٢", "0.62\n", "\t", "0.62; DROP TABLE circuits;--", "'", '"', "\\", "%_",
-    "\x00", "a\x00b", "🙂 Zs", "Ω" * 500, "x" * 10_000, "ｆｕｌｌｗｉｄｔｈ", "\u202e0.62",
+    "",
+    " ",
+    "0.62",
+    " 0.62 ",
+    "0,62",
+    "620 mΩ",
+    "620mΩ",
+    "0.62 ohm",
+    "∞",
+    "NaN",
+    "-0",
+    "1e309",
+    "½",
+    "٠٫٦٢",
+    "0.62\n",
+    "\t",
+    "0.62; DROP TABLE circuits;--",
+    "'",
+    '"',
+    "\\",
+    "%_",
+    "\x00",
+    "a\x00b",
+    "🙂 Zs",
+    "Ω" * 500,
+    "x" * 10_000,
+    "ｆｕｌｌｗｉｄｔｈ",
+    "\u202e0.62",
 ]
 fields = st.sampled_from(CIRCUIT_FIELDS)
 texts = st.one_of(st.sampled_from(ODD), st.text(max_size=60))
@@ -33,8 +58,7 @@ def shared(tmp_path_factory: pytest.TempPathFactory) -> Store:
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
 @given(name=fields, raw=texts)
-def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: str,
-                                                          raw: str) -> None:
+def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: str, raw: str) -> None:
     saved = shared.set_circuit_field(1, name, raw)
     stored = shared.get_circuit(1)["fields"][name]
     assert stored["raw"] == raw == saved["raw"]
@@ -45,10 +69,12 @@ def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: s
 
 
 @settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
-@given(job=st.fixed_dictionaries({n: texts for n in JOB_FIELDS}),
-       board=st.sampled_from(BOARD_FIELDS), raw=texts)
-def test_job_and_board_text_comes_back_exactly(shared: Store, job: dict[str, str], board: str,
-                                               raw: str) -> None:
+@given(
+    job=st.fixed_dictionaries({n: texts for n in JOB_FIELDS}), board=st.sampled_from(BOARD_FIELDS), raw=texts
+)
+def test_job_and_board_text_comes_back_exactly(
+    shared: Store, job: dict[str, str], board: str, raw: str
+) -> None:
     job_id = shared.create_job(job)
     fields_back = shared.get_job(job_id)["fields"]
     for name, typed in job.items():
@@ -76,9 +102,10 @@ def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> Non
     assert again["job"]["status"] == "draft"
 
     def shape(document: dict) -> list:
-        return [(b["designation"], b["fields"],
-                 [(c["number"], c["fields"], c["verdict"]) for c in b["circuits"]])
-                for b in document["boards"]]
+        return [
+            (b["designation"], b["fields"], [(c["number"], c["fields"], c["verdict"]) for c in b["circuits"]])
+            for b in document["boards"]
+        ]
 
     library_id = again["library_devices"][0]["id"]
     assert library_id == 2
@@ -90,11 +117,14 @@ def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> Non
     assert shape(again) == shape(doc)
 
 
-@pytest.mark.parametrize("doc, problem", [
-    ({"schema": "other"}, '"schema" is not "boardside-job"'),
-    ({"schema": "boardside-job", "schema_version": 9}, "schema_version 9 is not supported"),
-    ({"schema": "boardside-job", "schema_version": 1}, "KeyError: 'job'"),
-])
+@pytest.mark.parametrize(
+    "doc, problem",
+    [
+        ({"schema": "other"}, '"schema" is not "boardside-job"'),
+        ({"schema": "boardside-job", "schema_version": 9}, "schema_version 9 is not supported"),
+        ({"schema": "boardside-job", "schema_version": 1}, "KeyError: 'job'"),
+    ],
+)
 def test_a_foreign_document_is_refused(tmp_path: Path, doc: dict, problem: str) -> None:
     with Store.open(tmp_path) as store, pytest.raises(DocumentError) as caught:
         store.import_job_document(doc)

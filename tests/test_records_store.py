@@ -25,9 +25,16 @@ from mobile_app.records.errors import InvalidValueError
 ROOT = Path(__file__).resolve().parents[1]
 
 B32_RING = {
-    "role": "final", "device_kind": "mcb", "device_curve": "B", "device_rating": "32",
-    "line_csa": "2.5", "line_material": "copper", "line_insulation": "thermoplastic-70",
-    "cpc_csa": "1.5", "cpc_material": "copper", "cpc_arrangement": "in-cable",
+    "role": "final",
+    "device_kind": "mcb",
+    "device_curve": "B",
+    "device_rating": "32",
+    "line_csa": "2.5",
+    "line_material": "copper",
+    "line_insulation": "thermoplastic-70",
+    "cpc_csa": "1.5",
+    "cpc_material": "copper",
+    "cpc_arrangement": "in-cable",
 }
 
 
@@ -98,8 +105,14 @@ def test_circuit_save_reassesses_and_bumps_the_version(store: Store) -> None:
     assert circuit["assessment"]["earth_fault_current_a"] == pytest.approx(230 * 0.95 / 0.62)
     assert circuit["calc_version"]
     saved = store.set_circuit_field(circuit_id, "zs", "1.9 Ω", expected_version=circuit["version"])
-    assert saved == {"field": "zs", "raw": "1.9 Ω", "value": 1.9, "error": None,
-                     "version": circuit["version"] + 1, "verdict": "fail"}
+    assert saved == {
+        "field": "zs",
+        "raw": "1.9 Ω",
+        "value": 1.9,
+        "error": None,
+        "version": circuit["version"] + 1,
+        "verdict": "fail",
+    }
 
 
 def test_an_invalid_reading_is_kept_and_makes_the_circuit_incomplete(store: Store) -> None:
@@ -146,10 +159,13 @@ def test_calc_input_follows_the_contract_shape(store: Store) -> None:
     store.set_setting("final_circuit_max_a", 63)
     assert store.calc_input(circuit_id) == {
         "supply": {"system": "TN-C-S", "u0": 230.0, "cmin": 0.95, "ze": 0.35},
-        "circuit": {"role": "final", "device": {"kind": "mcb", "curve": "B", "rating": 32.0},
-                    "rcd": {"idn": 0.03, "type": "general"},
-                    "line": {"csa": 2.5, "material": "copper", "insulation": "thermoplastic-70"},
-                    "cpc": {"csa": 1.5, "material": "copper", "arrangement": "in-cable"}},
+        "circuit": {
+            "role": "final",
+            "device": {"kind": "mcb", "curve": "B", "rating": 32.0},
+            "rcd": {"idn": 0.03, "type": "general"},
+            "line": {"csa": 2.5, "material": "copper", "insulation": "thermoplastic-70"},
+            "cpc": {"csa": 1.5, "material": "copper", "arrangement": "in-cable"},
+        },
         "measured": {"zs": 0.62},
         "settings": {"final_circuit_max_a": 63},
     }
@@ -191,21 +207,28 @@ def test_unknown_field_and_missing_rows_raise_typed_errors(store: Store) -> None
 
 
 def test_library_device_is_used_by_a_curve_circuit(store: Store) -> None:
-    device_id = store.add_library_device("Test breaker", [(1000, 0.02), (130, 3000), (450, 30)],
-                                         rating_a=100)
-    assert store.library_devices() == [{"id": device_id, "name": "Test breaker",
-                                         "rating_a": 100.0,
-                                         "points": [[130.0, 3000.0], [450.0, 30.0],
-                                                    [1000.0, 0.02]]}]
+    device_id = store.add_library_device("Test breaker", [(1000, 0.02), (130, 3000), (450, 30)], rating_a=100)
+    assert store.library_devices() == [
+        {
+            "id": device_id,
+            "name": "Test breaker",
+            "rating_a": 100.0,
+            "points": [[130.0, 3000.0], [450.0, 30.0], [1000.0, 0.02]],
+        }
+    ]
     circuit_id = make_circuit(store)
     store.set_circuit_field(circuit_id, "device_kind", "curve")
     saved = store.set_circuit_field(circuit_id, "library_device_id", str(device_id))
     assert saved["error"] is None
     device = store.calc_input(circuit_id)["circuit"]["device"]
-    assert device == {"kind": "curve", "points": [[130.0, 3000.0], [450.0, 30.0], [1000.0, 0.02]],
-                      "rating": 32.0}
+    assert device == {
+        "kind": "curve",
+        "points": [[130.0, 3000.0], [450.0, 30.0], [1000.0, 0.02]],
+        "rating": 32.0,
+    }
     assert store.set_circuit_field(circuit_id, "library_device_id", "77")["error"] == (
-        "no device with id 77 in the library")
+        "no device with id 77 in the library"
+    )
 
 
 def test_library_refuses_a_curve_whose_time_rises(store: Store) -> None:
@@ -238,22 +261,28 @@ def test_demo_job_has_mixed_devices_failures_and_one_incomplete(store: Store) ->
     (row,) = store.list_jobs()
     assert row["id"] == job_id and row["circuits"] >= 20
     assert row["failing"] >= 3 and row["incomplete"] == 1
-    circuits = [store.get_circuit(c["id"]) for b in store.boards(job_id)
-                for c in store.circuits(b["id"])]
-    kinds = {(c["fields"]["device_kind"]["value"], c["fields"]["device_curve"]["value"])
-             for c in circuits}
+    circuits = [store.get_circuit(c["id"]) for b in store.boards(job_id) for c in store.circuits(b["id"])]
+    kinds = {(c["fields"]["device_kind"]["value"], c["fields"]["device_curve"]["value"]) for c in circuits}
     assert {("mcb", "B"), ("mcb", "C"), ("mcb", "D"), ("fuse-gg", None), ("curve", None)} <= kinds
     assert [d["name"] for d in store.library_devices()] == [DEMO_CURVE_NAME]
     tt_board = next(b for b in store.boards(job_id) if b["fields"]["system"]["value"] == "TT")
-    assert all(store.get_circuit(c["id"])["fields"]["rcd_idn"]["value"] == 0.03
-               for c in store.circuits(tt_board["id"]))
+    assert all(
+        store.get_circuit(c["id"])["fields"]["rcd_idn"]["value"] == 0.03
+        for c in store.circuits(tt_board["id"])
+    )
     assert all(c["assessment_error"] is None for c in circuits)
     assert len(circuits) == sum(len(board[4]) for board in BOARDS)
 
 
 def test_demo_command_prints_the_job_id_last(tmp_path: Path) -> None:
-    result = subprocess.run([sys.executable, "-m", "mobile_app", "demo", "--data", str(tmp_path)],
-                            cwd=ROOT, capture_output=True, text=True, timeout=120, check=True)
+    result = subprocess.run(
+        [sys.executable, "-m", "mobile_app", "demo", "--data", str(tmp_path)],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+        timeout=120,
+        check=True,
+    )
     job_id = int(result.stdout.strip().splitlines()[-1])
     with Store.open(tmp_path) as store:
         assert store.get_job(job_id)["fields"]["client_ref"]["raw"] == "TY-2026-118"

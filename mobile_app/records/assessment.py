@@ -91,9 +91,7 @@ def build_calc_input(
     data: dict[str, Any] = {
         "supply": supply,
         "circuit": part,
-        "measured": {
-            name: _value(circuit, name) for name in _MEASURED if _value(circuit, name) is not None
-        },
+        "measured": {name: _value(circuit, name) for name in _MEASURED if _value(circuit, name) is not None},
     }
     if final_circuit_max_a is not None:
         data["settings"] = {"final_circuit_max_a": final_circuit_max_a}
@@ -120,7 +118,7 @@ def assess(data: dict[str, Any], invalid: list[str]) -> Outcome:
         return Outcome("incomplete", None, calc.__version__, str(error))
     return Outcome(
         result["verdict"],
-        json.dumps(result, ensure_ascii=False),
+        json.dumps(result, ensure_ascii=False, separators=(",", ":")),
         str(result.get("calc_version", calc.__version__)),
         None,
     )

@@ -133,9 +133,16 @@ class StoreCore:
                 conn.execute("ROLLBACK")
             raise
 
+    def _query(self, sql: str, params: tuple[Any, ...] | dict[str, Any] = ()) -> list[dict[str, Any]]:
+        """Rows of a read query as dicts (plain sqlite3: no savepoint around each read)."""
+        cursor = self.db.conn.execute(sql, params)
+        names = [column[0] for column in cursor.description]
+        return [dict(zip(names, row, strict=True)) for row in cursor.fetchall()]
+
     def _one(self, sql: str, params: tuple[Any, ...] = ()) -> dict[str, Any] | None:
         """The first row of a query as a dict, or None."""
-        return next(iter(self.db.query(sql, params)), None)
+        rows = self._query(sql, params)
+        return rows[0] if rows else None
 
     def _audit(
         self,
@@ -195,9 +202,8 @@ class StoreCore:
     def people(self) -> list[dict[str, Any]]:
         """Everyone known to the store: id, name, role and whether a PIN is set (never the hash)."""
         return list(
-            self.db.query(
-                "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people"
-                " ORDER BY name, id"
+            self._query(
+                "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people ORDER BY name, id"
             )
         )
 
@@ -238,8 +244,7 @@ class StoreCore:
             raise InvalidValueError("rating_a", "must be greater than zero")
         with self._write() as conn:
             cursor = conn.execute(
-                "INSERT INTO library_devices (name, rating_a, points, created_at)"
-                " VALUES (?, ?, ?, ?)",
+                "INSERT INTO library_devices (name, rating_a, points, created_at) VALUES (?, ?, ?, ?)",
                 (name.strip(), rating_a, json.dumps(clean), now_iso()),
             )
             device_id = int(cursor.lastrowid or 0)
@@ -250,16 +255,12 @@ class StoreCore:
         """The device library: id, name, rating_a, points [[current_a, time_s], ...]."""
         return [
             dict(row, points=json.loads(row["points"]))
-            for row in self.db.query(
-                "SELECT id, name, rating_a, points FROM library_devices ORDER BY name, id"
-            )
+            for row in self._query("SELECT id, name, rating_a, points FROM library_devices ORDER BY name, id")
         ]
 
     def _library_device(self, device_id: int) -> dict[str, Any] | None:
         """One library device with its points decoded, or None."""
-        row = self._one(
-            "SELECT id, name, rating_a, points FROM library_devices WHERE id = ?", (device_id,)
-        )
+        row = self._one("SELECT id, name, rating_a, points FROM library_devices WHERE id = ?", (device_id,))
         return None if row is None else dict(row, points=json.loads(row["points"]))
 
 

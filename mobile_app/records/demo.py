@@ -35,64 +35,153 @@ _RCD_30 = {"rcd_idn": "30 mA", "rcd_type": "general"}
 # (designation, location, supplied from, board fields, circuits); each circuit is
 # (number, description, fields as typed). Fields not given are copied from the previous circuit.
 BOARDS: list[tuple[str, str, str, dict[str, str], list[tuple[str, str, dict[str, str]]]]] = [
-    ("DB-1", "Workshop entrance, north wall", "Origin (meter cupboard)", {}, [
-        ("1", "Workshop sockets (ring)", {
-            "role": "final", "device_kind": "mcb", "device_curve": "B", "device_rating": "32",
-            "line_material": "copper", "line_insulation": "thermoplastic-70",
-            "cpc_material": "copper", **_T_E_25, "zs": "0.71", "zsc": "0.55", "r1r2": "0.42",
-            "test_temp_c": "18 °C"}),
-        ("2", "Office sockets (radial)", {"device_rating": "20", "zs": "710 mΩ", "r1r2": "0.40"}),
-        ("3", "Workshop lighting", {"device_rating": "6", **_T_E_15, "zs": "1.12"}),
-        ("4", "Office lighting", {"zs": "0.98"}),
-        ("5", "Wheel benches", {"device_curve": "C", "device_rating": "16", **_T_E_25,
-                                "zs": "0.82"}),
-        ("6", "Pug mill motor", {"device_curve": "D", "device_rating": "16", "zs": "0.93"}),
-        ("7", "Extract fan", {"device_curve": "C", "device_rating": "10", **_T_E_15,
-                              "zs": "1.31"}),
-        ("8", "Water heater", {"device_curve": "B", "device_rating": "16", **_T_E_25,
-                               "zs": "0.79"}),
-        ("9", "Glaze spray booth", {"device_curve": "C", "device_rating": "32", "line_csa": "6",
-                                    "cpc_csa": "2.5", "zs": "0.91"}),
-        ("10", "Sub-main to kiln room board DB-2", {
-            "role": "distribution", "device_kind": "curve", "device_curve": "",
-            "device_rating": "100", "line_csa": "25", "line_insulation": "thermosetting-90",
-            "cpc_csa": "16", "zs": "0.31", "zsc": "0.27", "r1r2": ""}),
-        ("11", "Feed to glaze store board DB-3", {
-            "device_kind": "mcb", "device_curve": "C", "device_rating": "40", "line_csa": "10",
-            "line_insulation": "thermoplastic-70", "cpc_csa": "10", "zs": "0.39", "zsc": "0.33"}),
-        ("12", "Spare way, kept for a second kiln controller", {
-            "role": "final", "device_curve": "B", "device_rating": "16", **_T_E_25, "zs": "",
-            "zsc": ""}),
-    ]),
-    ("DB-2", "Kiln room, east wall", "DB-1 way 10", {}, [
-        ("1", "Kiln 1", {"role": "final", "device_kind": "fuse-gg", "device_curve": "",
-                         "device_rating": "32", "library_device_id": "", "line_csa": "6",
-                         "line_insulation": "thermosetting-90", "cpc_csa": "2.5",
-                         "zs": "0.55", "zsc": "0.41", "r1r2": "0.27"}),
-        ("2", "Kiln 2", {"zs": "1.21", "zsc": "0.88", "r1r2": "0.93"}),
-        ("3", "Kiln room sockets", {"device_rating": "20", **_T_E_25,
-                                    "line_insulation": "thermoplastic-70", "zs": "0.74"}),
-        ("4", "Kiln controller", {"device_rating": "10", "line_csa": "1.5", "cpc_csa": "1.5",
-                                  "zs": "1.9"}),
-        ("5", "Dryer cabinet", {"device_rating": "16", **_T_E_25, "zs": "1.3"}),
-        ("6", "Kiln room lighting", {"device_rating": "6", **_T_E_15, "zs": "1.6"}),
-    ]),
-    ("DB-3", "Glaze store, inside the door", "DB-1 way 11", {"system": "TT", "ze": "48 Ω"}, [
-        ("1", "Glaze store sockets", {
-            "role": "final", "device_kind": "mcb", "device_curve": "B", "device_rating": "16",
-            "line_material": "copper", "line_insulation": "thermoplastic-70",
-            "cpc_material": "copper", **_T_E_25, **_RCD_30, "zs": "49.2", "zsc": "0.64",
-            "test_temp_c": "9 °C"}),
-        ("2", "Glaze store lighting", {"device_rating": "6", **_T_E_15, "zs": "49.6",
-                                     "zsc": "0.93"}),
-        ("3", "Panel heater", {"device_rating": "10", **_T_E_25, "zs": "49.9", "zsc": "0.71"}),
-        ("4", "Outside light by the door", {"device_rating": "6", **_T_E_15, "zs": "50.3",
-                                          "zsc": "1.02"}),
-    ]),
+    (
+        "DB-1",
+        "Workshop entrance, north wall",
+        "Origin (meter cupboard)",
+        {},
+        [
+            (
+                "1",
+                "Workshop sockets (ring)",
+                {
+                    "role": "final",
+                    "device_kind": "mcb",
+                    "device_curve": "B",
+                    "device_rating": "32",
+                    "line_material": "copper",
+                    "line_insulation": "thermoplastic-70",
+                    "cpc_material": "copper",
+                    **_T_E_25,
+                    "zs": "0.71",
+                    "zsc": "0.55",
+                    "r1r2": "0.42",
+                    "test_temp_c": "18 °C",
+                },
+            ),
+            ("2", "Office sockets (radial)", {"device_rating": "20", "zs": "710 mΩ", "r1r2": "0.40"}),
+            ("3", "Workshop lighting", {"device_rating": "6", **_T_E_15, "zs": "1.12"}),
+            ("4", "Office lighting", {"zs": "0.98"}),
+            ("5", "Wheel benches", {"device_curve": "C", "device_rating": "16", **_T_E_25, "zs": "0.82"}),
+            ("6", "Pug mill motor", {"device_curve": "D", "device_rating": "16", "zs": "0.93"}),
+            ("7", "Extract fan", {"device_curve": "C", "device_rating": "10", **_T_E_15, "zs": "1.31"}),
+            ("8", "Water heater", {"device_curve": "B", "device_rating": "16", **_T_E_25, "zs": "0.79"}),
+            (
+                "9",
+                "Glaze spray booth",
+                {"device_curve": "C", "device_rating": "32", "line_csa": "6", "cpc_csa": "2.5", "zs": "0.91"},
+            ),
+            (
+                "10",
+                "Sub-main to kiln room board DB-2",
+                {
+                    "role": "distribution",
+                    "device_kind": "curve",
+                    "device_curve": "",
+                    "device_rating": "100",
+                    "line_csa": "25",
+                    "line_insulation": "thermosetting-90",
+                    "cpc_csa": "16",
+                    "zs": "0.31",
+                    "zsc": "0.27",
+                    "r1r2": "",
+                },
+            ),
+            (
+                "11",
+                "Feed to glaze store board DB-3",
+                {
+                    "device_kind": "mcb",
+                    "device_curve": "C",
+                    "device_rating": "40",
+                    "line_csa": "10",
+                    "line_insulation": "thermoplastic-70",
+                    "cpc_csa": "10",
+                    "zs": "0.39",
+                    "zsc": "0.33",
+                },
+            ),
+            (
+                "12",
+                "Spare way, kept for a second kiln controller",
+                {"role": "final", "device_curve": "B", "device_rating": "16", **_T_E_25, "zs": "", "zsc": ""},
+            ),
+        ],
+    ),
+    (
+        "DB-2",
+        "Kiln room, east wall",
+        "DB-1 way 10",
+        {},
+        [
+            (
+                "1",
+                "Kiln 1",
+                {
+                    "role": "final",
+                    "device_kind": "fuse-gg",
+                    "device_curve": "",
+                    "device_rating": "32",
+                    "library_device_id": "",
+                    "line_csa": "6",
+                    "line_insulation": "thermosetting-90",
+                    "cpc_csa": "2.5",
+                    "zs": "0.55",
+                    "zsc": "0.41",
+                    "r1r2": "0.27",
+                },
+            ),
+            ("2", "Kiln 2", {"zs": "1.21", "zsc": "0.88", "r1r2": "0.93"}),
+            (
+                "3",
+                "Kiln room sockets",
+                {"device_rating": "20", **_T_E_25, "line_insulation": "thermoplastic-70", "zs": "0.74"},
+            ),
+            (
+                "4",
+                "Kiln controller",
+                {"device_rating": "10", "line_csa": "1.5", "cpc_csa": "1.5", "zs": "1.9"},
+            ),
+            ("5", "Dryer cabinet", {"device_rating": "16", **_T_E_25, "zs": "1.3"}),
+            ("6", "Kiln room lighting", {"device_rating": "6", **_T_E_15, "zs": "1.6"}),
+        ],
+    ),
+    (
+        "DB-3",
+        "Glaze store, inside the door",
+        "DB-1 way 11",
+        {"system": "TT", "ze": "48 Ω"},
+        [
+            (
+                "1",
+                "Glaze store sockets",
+                {
+                    "role": "final",
+                    "device_kind": "mcb",
+                    "device_curve": "B",
+                    "device_rating": "16",
+                    "line_material": "copper",
+                    "line_insulation": "thermoplastic-70",
+                    "cpc_material": "copper",
+                    **_T_E_25,
+                    **_RCD_30,
+                    "zs": "49.2",
+                    "zsc": "0.64",
+                    "test_temp_c": "9 °C",
+                },
+            ),
+            ("2", "Glaze store lighting", {"device_rating": "6", **_T_E_15, "zs": "49.6", "zsc": "0.93"}),
+            ("3", "Panel heater", {"device_rating": "10", **_T_E_25, "zs": "49.9", "zsc": "0.71"}),
+            (
+                "4",
+                "Outside light by the door",
+                {"device_rating": "6", **_T_E_15, "zs": "50.3", "zsc": "1.02"},
+            ),
+        ],
+    ),
 ]
 
-PEOPLE = (("Rosa Quennell", "qualified"), ("Tomasz Brill", "apprentice"),
-          ("Ines Okafor", "supervisor"))
+PEOPLE = (("Rosa Quennell", "qualified"), ("Tomasz Brill", "apprentice"), ("Ines Okafor", "supervisor"))
 
 
 def create_demo_job(store: Store) -> int:
@@ -111,8 +200,7 @@ def create_demo_job(store: Store) -> int:
             circuit_id = store.add_circuit(board_id, number, description, by=recorder)
             for name, raw in fields.items():
                 if name == "device_kind" and raw == "curve":
-                    store.set_circuit_field(circuit_id, "library_device_id", str(curve_id),
-                                            by=recorder)
+                    store.set_circuit_field(circuit_id, "library_device_id", str(curve_id), by=recorder)
                 store.set_circuit_field(circuit_id, name, raw, by=recorder)
     return job_id
 

@@ -117,9 +117,7 @@ class DocumentStore(ReviewStore):
             self._audit(conn, job_id, None, "job", job_id, "imported", None, note)
         return job_id
 
-    def _import_circuit(
-        self, board_id: int, fields: dict[str, Any], library_ids: dict[int, int]
-    ) -> None:
+    def _import_circuit(self, board_id: int, fields: dict[str, Any], library_ids: dict[int, int]) -> None:
         """Add one imported circuit, field by field, mapping library ids to this store's."""
         circuit_id = self.add_circuit(board_id, _raw(fields, "number"), _raw(fields, "description"))
         for name in CIRCUIT_FIELDS[2:]:
@@ -130,9 +128,7 @@ class DocumentStore(ReviewStore):
 
     def _import_library(self, devices: list[dict[str, Any]]) -> dict[int, int]:
         """Add document library devices not already here; map their ids to this store's ids."""
-        here = {
-            (d["name"], tuple(map(tuple, d["points"]))): d["id"] for d in self.library_devices()
-        }
+        here = {(d["name"], tuple(map(tuple, d["points"]))): d["id"] for d in self.library_devices()}
         mapping: dict[int, int] = {}
         for device in devices:
             key = (device["name"], tuple(tuple(float(v) for v in p) for p in device["points"]))

@@ -39,9 +39,7 @@ class UnknownFieldError(StoreError, ValueError):
 class ConflictError(StoreError, RuntimeError):
     """Someone else saved this row since it was read: reload before saving again."""
 
-    def __init__(
-        self, kind: str, item_id: int, expected_version: int, current_version: int
-    ) -> None:
+    def __init__(self, kind: str, item_id: int, expected_version: int, current_version: int) -> None:
         super().__init__(kind, item_id, expected_version, current_version)
         self.kind = kind
         self.item_id = item_id

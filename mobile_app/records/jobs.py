@@ -34,8 +34,7 @@ _ASSESSED = {
 def fields_of(row: dict[str, Any], names: tuple[str, ...]) -> dict[str, dict[str, Any]]:
     """The {"raw", "value", "error"} triple of each named field of a row."""
     return {
-        n: {"raw": row[f"{n}_raw"], "value": row[f"{n}_value"], "error": row[f"{n}_error"]}
-        for n in names
+        n: {"raw": row[f"{n}_raw"], "value": row[f"{n}_value"], "error": row[f"{n}_error"]} for n in names
     }
 
 
@@ -83,9 +82,7 @@ class JobStore(StoreCore):
                 return Parsed(parsed.raw, None, f"no device with id {parsed.value} in the library")
         return parsed
 
-    def _outcome(
-        self, job: dict[str, Any], board: dict[str, Any], circuit: dict[str, Any]
-    ) -> Outcome:
+    def _outcome(self, job: dict[str, Any], board: dict[str, Any], circuit: dict[str, Any]) -> Outcome:
         """Assess one circuit from its rows."""
         library_id = circuit.get("library_device_id_value")
         library = self._library_device(int(library_id)) if library_id is not None else None
@@ -111,16 +108,12 @@ class JobStore(StoreCore):
     def _reassess_job(self, conn: sqlite3.Connection, job_id: int) -> None:
         """Reassess every circuit of a job (after a supply change)."""
         job = self._row("job", job_id)
-        for board in self.db.query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
+        for board in self._query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
             self._reassess_board(conn, job, board)
 
-    def _reassess_board(
-        self, conn: sqlite3.Connection, job: dict[str, Any], board: dict[str, Any]
-    ) -> None:
+    def _reassess_board(self, conn: sqlite3.Connection, job: dict[str, Any], board: dict[str, Any]) -> None:
         """Reassess every circuit of a board."""
-        for circuit in list(
-            self.db.query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))
-        ):
+        for circuit in list(self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))):
             self._store_outcome(conn, circuit["id"], self._outcome(job, board, circuit))
 
     # jobs
@@ -140,14 +133,11 @@ class JobStore(StoreCore):
         stamp = now_iso()
         with self._write() as conn:
             cursor = conn.execute(
-                "INSERT INTO jobs (status, created_at, updated_at, recorded_by) VALUES"
-                " ('draft', ?, ?, ?)",
+                "INSERT INTO jobs (status, created_at, updated_at, recorded_by) VALUES ('draft', ?, ?, ?)",
                 (stamp, stamp, by),
             )
             job_id = int(cursor.lastrowid or 0)
-            conn.execute(
-                f"UPDATE jobs SET {_set_clause(JOB_FIELDS)} WHERE id = ?", (*values, job_id)
-            )
+            conn.execute(f"UPDATE jobs SET {_set_clause(JOB_FIELDS)} WHERE id = ?", (*values, job_id))
             self._audit(conn, job_id, by, "job", job_id, None, None, "created")
         return job_id
 
@@ -158,7 +148,7 @@ class JobStore(StoreCore):
         """
         pattern = "%" + search.replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_") + "%"
         return list(
-            self.db.query(
+            self._query(
                 "SELECT j.id, j.client_ref_raw AS client_ref, j.site_address_raw AS site_address,"
                 " j.date_raw AS date, j.status, j.revision, j.version, j.parent_job_id,"
                 " j.updated_at,"
@@ -198,8 +188,7 @@ class JobStore(StoreCore):
             if job[f"{name}_raw"] != parsed.raw:
                 version += 1
                 conn.execute(
-                    f"UPDATE jobs SET {_set_clause((name,))}, version = ?, updated_at = ?"
-                    " WHERE id = ?",
+                    f"UPDATE jobs SET {_set_clause((name,))}, version = ?, updated_at = ? WHERE id = ?",
                     (parsed.raw, parsed.value, parsed.error, version, now_iso(), job_id),
                 )
                 self._audit(conn, job_id, by, "job", job_id, name, job[f"{name}_raw"], parsed.raw)
@@ -234,9 +223,7 @@ class JobStore(StoreCore):
             position = conn.execute(
                 "SELECT COALESCE(MAX(position), 0) + 1 FROM boards WHERE job_id = ?", (job_id,)
             ).fetchone()[0]
-            cursor = conn.execute(
-                "INSERT INTO boards (job_id, position) VALUES (?, ?)", (job_id, position)
-            )
+            cursor = conn.execute("INSERT INTO boards (job_id, position) VALUES (?, ?)", (job_id, position))
             board_id = int(cursor.lastrowid or 0)
             conn.execute(
                 f"UPDATE boards SET {_set_clause(BOARD_FIELDS)} WHERE id = ?",
@@ -260,9 +247,7 @@ class JobStore(StoreCore):
                 "supplied_from": row["supplied_from_raw"],
                 "fields": fields_of(row, BOARD_FIELDS),
             }
-            for row in self.db.query(
-                "SELECT * FROM boards WHERE job_id = ? ORDER BY position", (job_id,)
-            )
+            for row in self._query("SELECT * FROM boards WHERE job_id = ? ORDER BY position", (job_id,))
         ]
 
     def set_board_field(
@@ -286,9 +271,7 @@ class JobStore(StoreCore):
                     f"UPDATE boards SET {_set_clause((name,))}, version = ? WHERE id = ?",
                     (parsed.raw, parsed.value, parsed.error, version, board_id),
                 )
-                self._audit(
-                    conn, job["id"], by, "board", board_id, name, board[f"{name}_raw"], parsed.raw
-                )
+                self._audit(conn, job["id"], by, "board", board_id, name, board[f"{name}_raw"], parsed.raw)
                 self._touch_job(conn, job["id"])
                 if name in ("system", "ze"):
                     self._reassess_board(conn, job, self._row("board", board_id))
@@ -301,9 +284,7 @@ class JobStore(StoreCore):
         }
 
     # circuits
-    def add_circuit(
-        self, board_id: int, number: str, description: str = "", by: int | None = None
-    ) -> int:
+    def add_circuit(self, board_id: int, number: str, description: str = "", by: int | None = None) -> int:
         """Add a circuit; device and cables are copied from the board's previous circuit."""
         with self._write() as conn:
             board = self._row("board", board_id)
@@ -314,8 +295,7 @@ class JobStore(StoreCore):
             )
             position = 1 if previous is None else previous["position"] + 1
             cursor = conn.execute(
-                "INSERT INTO circuits (board_id, position, updated_at, updated_by)"
-                " VALUES (?, ?, ?, ?)",
+                "INSERT INTO circuits (board_id, position, updated_at, updated_by) VALUES (?, ?, ?, ?)",
                 (board_id, position, now_iso(), by),
             )
             circuit_id = int(cursor.lastrowid or 0)
@@ -333,9 +313,7 @@ class JobStore(StoreCore):
                 names = ("number", "description", *COPIED_TO_NEXT_CIRCUIT)
             else:
                 names = ("number", "description")
-            conn.execute(
-                f"UPDATE circuits SET {_set_clause(names)} WHERE id = ?", (*values, circuit_id)
-            )
+            conn.execute(f"UPDATE circuits SET {_set_clause(names)} WHERE id = ?", (*values, circuit_id))
             circuit = self._row("circuit", circuit_id)
             self._store_outcome(conn, circuit_id, self._outcome(job, board, circuit))
             self._audit(conn, job["id"], by, "circuit", circuit_id, None, None, number)
@@ -346,7 +324,7 @@ class JobStore(StoreCore):
         """A board's circuits in order: id, number, description, verdict, version."""
         self._row("board", board_id)
         return list(
-            self.db.query(
+            self._query(
                 "SELECT id, board_id, position, number_raw AS number,"
                 " description_raw AS description,"
                 " verdict, version FROM circuits WHERE board_id = ? ORDER BY position",
@@ -442,6 +420,4 @@ class JobStore(StoreCore):
         job = self._row("job", board["job_id"])
         library_id = circuit["library_device_id_value"]
         library = self._library_device(int(library_id)) if library_id is not None else None
-        return build_calc_input(
-            job, board, circuit, library, self.get_setting("final_circuit_max_a")
-        )
+        return build_calc_input(job, board, circuit, library, self.get_setting("final_circuit_max_a"))

@@ -46,16 +46,12 @@ class ReviewStore(JobStore):
             )
             self._audit(conn, job_id, by, "review", job_id, "status", expected, status)
             if columns.get("review_comment"):
-                self._audit(
-                    conn, job_id, by, "review", job_id, "comment", None, columns["review_comment"]
-                )
+                self._audit(conn, job_id, by, "review", job_id, "comment", None, columns["review_comment"])
 
     def submit_for_review(self, job_id: int, by: int) -> None:
         """Send a draft job for review."""
         self._person(by)
-        self._set_status(
-            job_id, "draft", "submitted", by, {"submitted_by": by, "submitted_at": now_iso()}
-        )
+        self._set_status(job_id, "draft", "submitted", by, {"submitted_by": by, "submitted_at": now_iso()})
 
     def return_to_draft(self, job_id: int, reviewer_id: int, comment: str) -> None:
         """Send a submitted job back to draft with the reviewer's comment (a supervisor's)."""
@@ -63,9 +59,7 @@ class ReviewStore(JobStore):
             raise ReviewError(job_id, "only a supervisor can return a job with comments")
         if not comment.strip():
             raise ReviewError(job_id, "a comment is needed to return a job to draft")
-        self._set_status(
-            job_id, "submitted", "draft", reviewer_id, {"review_comment": comment.strip()}
-        )
+        self._set_status(job_id, "submitted", "draft", reviewer_id, {"review_comment": comment.strip()})
 
     def approve(self, job_id: int, supervisor_id: int, pin: str) -> None:
         """Approve a submitted job with a supervisor's PIN; it becomes read-only.
@@ -138,15 +132,13 @@ class ReviewStore(JobStore):
                 recorded_by=by,
             )
             new_id = self._insert(conn, "jobs", copied)
-            for board in list(self.db.query("SELECT * FROM boards WHERE job_id = ?", (job_id,))):
+            for board in self._query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
                 board_id = self._insert(
                     conn,
                     "boards",
                     dict({k: v for k, v in board.items() if k != "id"}, job_id=new_id, version=1),
                 )
-                for circuit in list(
-                    self.db.query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))
-                ):
+                for circuit in list(self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))):
                     self._insert(
                         conn,
                         "circuits",
@@ -156,9 +148,7 @@ class ReviewStore(JobStore):
                             version=1,
                         ),
                     )
-            self._audit(
-                conn, new_id, by, "review", new_id, "revision", f"job {job_id}", reason.strip()
-            )
+            self._audit(conn, new_id, by, "review", new_id, "revision", f"job {job_id}", reason.strip())
         return new_id
 
     @staticmethod
@@ -167,16 +157,14 @@ class ReviewStore(JobStore):
         names = ", ".join(row)
         marks = ", ".join("?" for _ in row)
         return int(
-            conn.execute(
-                f"INSERT INTO {table} ({names}) VALUES ({marks})", tuple(row.values())
-            ).lastrowid
+            conn.execute(f"INSERT INTO {table} ({names}) VALUES ({marks})", tuple(row.values())).lastrowid
             or 0
         )
 
     def audit(self, job_id: int) -> list[dict[str, Any]]:
         """A job's audit trail, oldest first: id, when, who, what, entity, field, old, new."""
         self._row("job", job_id)
-        rows = self.db.query(
+        rows = self._query(
             'SELECT a.id, a.at AS "when", a.person_id, p.name AS who, a.entity, a.entity_id,'
             " a.field, a.old, a.new, COALESCE(c.number_raw, b.designation_raw) AS label"
             " FROM audit a LEFT JOIN people p ON p.id = a.person_id"
@@ -188,9 +176,7 @@ class ReviewStore(JobStore):
         return [
             dict(
                 row,
-                what=" ".join(
-                    str(part) for part in (row["entity"], row["label"], row["field"]) if part
-                ),
+                what=" ".join(str(part) for part in (row["entity"], row["label"], row["field"]) if part),
             )
             for row in rows
         ]
