@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from functools import lru_cache
+from functools import cached_property, lru_cache
 from typing import Protocol
 
 from calc import tables
@@ -68,6 +68,11 @@ def loglog_current(points: tuple[tuple[float, float], ...], time_s: float) -> fl
     raise ValueError("time outside the points")
 
 
+_BELOW_CONVENTIONAL = OperatingTime(
+    None, NOT_OPERATING, "below 1.45 In the breaker is not required to trip (IEC 60898-1 Table 7)"
+)
+
+
 @dataclass(frozen=True)
 class Mcb:
     """Miniature circuit-breaker or RCBO, curve B, C or D, as guaranteed by IEC 60898-1 Table 7."""
@@ -78,42 +83,55 @@ class Mcb:
     c_test_time_s: float
     conventional_time_s: float
 
-    @property
+    @cached_property
     def label(self) -> str:
         return f"{self.curve_letter}{self.rating_a:g}"
 
     def _table(self) -> dict:
         return tables.load("mcb")
 
+    @cached_property
+    def _bands(self) -> tuple[tuple[float, OperatingTime], ...]:
+        """(lowest multiple of In, operating time) per band, fastest band first (IEC 60898-1 Table 7)."""
+        t = self._table()
+        return (
+            (
+                self.instantaneous_multiple,
+                OperatingTime(
+                    t["instantaneous_time_s"],
+                    INSTANTANEOUS,
+                    f"at or above {self.instantaneous_multiple:g} In curve {self.curve_letter} trips in "
+                    "under 0.1 s (IEC 60898-1 Table 7); 0.1 s is an upper bound",
+                ),
+            ),
+            (
+                t["c_test_multiple"],
+                OperatingTime(
+                    self.c_test_time_s,
+                    UPPER_BOUND,
+                    f"below {self.instantaneous_multiple:g} In the standard only guarantees tripping within "
+                    f"{self.c_test_time_s:g} s (from 2.55 In, IEC 60898-1 Table 7); the maker's curve may be "
+                    "faster: enter it as a curve device to use it",
+                ),
+            ),
+            (
+                t["conventional_tripping_multiple"],
+                OperatingTime(
+                    self.conventional_time_s,
+                    UPPER_BOUND,
+                    f"overload region: tripping guaranteed only within {self.conventional_time_s:g} s "
+                    "(1.45 In, IEC 60898-1 Table 7)",
+                ),
+            ),
+        )
+
     def time_at(self, current_a: float) -> OperatingTime:
         """Upper bound of the tripping time at `current_a` (IEC 60898-1 Table 7, 8.6.2)."""
-        t = self._table()
         multiple = current_a / self.rating_a
-        if multiple >= self.instantaneous_multiple:
-            return OperatingTime(
-                t["instantaneous_time_s"],
-                INSTANTANEOUS,
-                f"at or above {self.instantaneous_multiple:g} In curve {self.curve_letter} trips in "
-                f"under 0.1 s (IEC 60898-1 Table 7); 0.1 s is an upper bound",
-            )
-        if multiple >= t["c_test_multiple"]:
-            return OperatingTime(
-                self.c_test_time_s,
-                UPPER_BOUND,
-                f"below {self.instantaneous_multiple:g} In the standard only guarantees tripping within "
-                f"{self.c_test_time_s:g} s (from 2.55 In, IEC 60898-1 Table 7); the maker's curve may be "
-                f"faster: enter it as a curve device to use it",
-            )
-        if multiple >= t["conventional_tripping_multiple"]:
-            return OperatingTime(
-                self.conventional_time_s,
-                UPPER_BOUND,
-                f"overload region: tripping guaranteed only within {self.conventional_time_s:g} s "
-                f"(1.45 In, IEC 60898-1 Table 7)",
-            )
-        return OperatingTime(
-            None, NOT_OPERATING, "below 1.45 In the breaker is not required to trip (IEC 60898-1 Table 7)"
-        )
+        for lowest_multiple, operating in self._bands:
+            if multiple >= lowest_multiple:
+                return operating
+        return _BELOW_CONVENTIONAL
 
     def current_for_time(self, time_s: float) -> float | None:
         """Smallest current at which tripping within `time_s` is guaranteed, or None if none is."""
