@@ -286,3 +286,20 @@ def test_demo_command_prints_the_job_id_last(tmp_path: Path) -> None:
     job_id = int(result.stdout.strip().splitlines()[-1])
     with Store.open(tmp_path) as store:
         assert store.get_job(job_id)["fields"]["client_ref"]["raw"] == "TY-2026-118"
+
+
+def test_the_demo_made_twice_reuses_its_people_and_curve(store: Store) -> None:
+    first, second = create_demo_job(store), create_demo_job(store)
+    assert first != second and len(store.list_jobs()) == 2
+    assert len(store.people()) == 3 and len(store.library_devices()) == 1
+
+
+def test_a_batch_commits_together_or_not_at_all(store: Store) -> None:
+    with pytest.raises(NotFoundError), store.batch():
+        store.create_job({"client_ref": "half"})
+        store.add_board(999, "nowhere")
+    assert store.list_jobs() == []
+    with store.batch():
+        job_id = store.create_job({"client_ref": "whole"})
+        store.add_board(job_id, "DB1")
+    assert [j["client_ref"] for j in store.list_jobs()] == ["whole"]

@@ -29,6 +29,7 @@ Public surface (see `/work/notes/store-api.md`; additions are marked *added*):
               open_revision(job_id, reason, by) -> id
               audit(job_id) -> list[dict]
     settings: get_setting(key, default=None) ; set_setting(key, value)
+    batch:    with store.batch(): ...  *added*: several changes committed as one
     documents: job_document(job_id) -> dict ; import_job_document(doc) -> id
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,

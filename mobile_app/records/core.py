@@ -133,6 +133,12 @@ class StoreCore:
                 conn.execute("ROLLBACK")
             raise
 
+    @contextlib.contextmanager
+    def batch(self) -> Iterator[None]:
+        """Several changes that commit together or not at all (each call inside is a savepoint)."""
+        with self._write():
+            yield
+
     def _query(self, sql: str, params: tuple[Any, ...] | dict[str, Any] = ()) -> list[dict[str, Any]]:
         """Rows of a read query as dicts (plain sqlite3: no savepoint around each read)."""
         cursor = self.db.conn.execute(sql, params)

@@ -185,12 +185,26 @@ PEOPLE = (("Rosa Quennell", "qualified"), ("Tomasz Brill", "apprentice"), ("Ines
 
 
 def create_demo_job(store: Store) -> int:
-    """Add the demo people, library curve and job to `store`; return the job id."""
-    ids = {}
-    for name, role in PEOPLE:
-        ids[name] = store.add_person(name, role, DEMO_PIN if role == "supervisor" else None)
-    recorder = ids["Rosa Quennell"]
-    curve_id = store.add_library_device(DEMO_CURVE_NAME, DEMO_CURVE_POINTS, rating_a=100)
+    """Add the demo job to `store` in one transaction; return its id.
+
+    The demo people and library curve are added once and reused when the demo is made again.
+    """
+    with store.batch():
+        known = {(p["name"], p["role"]): p["id"] for p in store.people()}
+        ids = {
+            name: known.get((name, role))
+            or store.add_person(name, role, DEMO_PIN if role == "supervisor" else None)
+            for name, role in PEOPLE
+        }
+        curves = {d["name"]: d["id"] for d in store.library_devices()}
+        curve_id = curves.get(DEMO_CURVE_NAME) or store.add_library_device(
+            DEMO_CURVE_NAME, DEMO_CURVE_POINTS, rating_a=100
+        )
+        return _add_job(store, ids["Rosa Quennell"], curve_id)
+
+
+def _add_job(store: Store, recorder: int, curve_id: int) -> int:
+    """The demo job's boards and circuits, typed in field by field as a person would."""
     job_id = store.create_job(JOB, by=recorder)
     for designation, location, supplied_from, board_fields, circuits in BOARDS:
         board_id = store.add_board(job_id, designation, location, supplied_from, by=recorder)

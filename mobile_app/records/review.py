@@ -6,9 +6,9 @@ from __future__ import annotations
 from typing import Any
 
 from mobile_app.records import pins
+from mobile_app.records.circuits import CircuitStore
 from mobile_app.records.core import now_iso
 from mobile_app.records.errors import LockedOutError, PinError, ReviewError
-from mobile_app.records.jobs import JobStore
 
 _COPY_SKIP_JOB = {
     "id",
@@ -27,7 +27,7 @@ _COPY_SKIP_JOB = {
 }
 
 
-class ReviewStore(JobStore):
+class ReviewStore(CircuitStore):
     """Review, approval with a supervisor's PIN, revisions and the audit trail."""
 
     def _set_status(

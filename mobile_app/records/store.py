@@ -1,7 +1,7 @@
 """The job store: `Store.open(data_dir)` and everything the app, exports and sync call on it.
 
 The class is assembled from layers, each in its own module: `core` (file, transactions, audit,
-people, settings, device library), `jobs` (jobs, boards, circuits, reassessment), `review` (review
+people, settings, device library), `jobs` (jobs, boards, reassessment), `circuits`, `review` (review
 flow, PINs, revisions, audit trail) and `documents` (job documents out and in).
 """
 
