@@ -97,6 +97,14 @@ def test_dejavu_is_embedded(approved_pdf: tuple[dict, PdfReader, str]) -> None:
         assert "/FontFile2" in descendant["/FontDescriptor"]  # the TrueType program is in the file
 
 
+def test_the_font_files_ship_with_their_licence() -> None:
+    fonts = Path(__file__).resolve().parents[1] / "mobile_app" / "fonts"
+    assert (fonts / "DejaVuSans.ttf").stat().st_size > 100_000
+    assert (fonts / "DejaVuSans-Bold.ttf").stat().st_size > 100_000
+    licence = (fonts / "LICENSE-DejaVu.txt").read_text(encoding="utf-8")
+    assert "Bitstream" in licence and "Permission is hereby granted" in licence
+
+
 def test_a_draft_says_it_is_not_approved() -> None:
     doc = {"schema": "boardside-job", "schema_version": 1, "exported_at": "2026-12-02T07:00:00+00:00",
            "job": {"id": 3, "revision": 1, "status": "draft", "client_ref": "X-1", "fields": {}},

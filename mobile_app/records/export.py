@@ -48,6 +48,8 @@ def cli_export(job_id: int, data_dir: Path | None, out_dir: Path) -> int:
     except (StoreError, OSError) as error:
         print(f"export: {error}", file=sys.stderr)
         return 2
+    if store.recovered is not None:
+        print(f"export: {store.recovered.message}", file=sys.stderr)
     try:
         bundle = export_bundle(store, job_id, out_dir)
     except StoreError as error:

@@ -204,8 +204,9 @@ def _step_lines(pdf: FPDF, step: dict[str, Any]) -> None:
     """One step of the working: title, result and verdict; formula and numbers; note."""
     verdict = step.get("verdict")
     title = _one_line(step.get("title") or step.get("id"))
-    if step.get("value") is not None:
-        title += f": {format_value(step['value'], step.get('unit') or '')}"
+    value = step.get("value")
+    if value is not None and not (isinstance(value, str) and value.lower() == verdict):
+        title += f": {format_value(value, step.get('unit') or '')}"
     if verdict and verdict != "info":
         title += f" — {verdict_label(verdict)}"
     use_font(pdf, "B", 8.5)

@@ -53,11 +53,14 @@ class JobPdf(FPDF):
 
     def footer(self) -> None:
         """The cautions, then the job and the page number, at the foot of every page."""
-        self.set_y(-21)
         self.set_text_color(*GREY)
-        self.set_font(FONT, "", 6.5)
+        use_font(self, "", 6.5)
+        top_mm = self.h - 21
         for line in self.footer_lines:
-            self.cell(0, 3, line, align="C", new_x="LMARGIN", new_y="NEXT")
+            left_mm = self.l_margin + (self.epw - text_width_mm(self, line)) / 2
+            self.text(left_mm, _baseline_mm(self, top_mm, 3), line)
+            top_mm += 3
+        self.set_y(top_mm)
         self.set_font(FONT, "", 8)
         self.cell(0, 5, f"{self.footer_title} · page {self.page_no()} of {{nb}}", align="C")
         self.set_text_color(*BLACK)
