@@ -124,6 +124,7 @@ def type_into(page, label: str, text: str) -> None:
     """Replace a field's text by typing (reliable with Flutter's text input)."""
     field = page.get_by_label(label, exact=True)
     field.click()
+    page.wait_for_timeout(150)
     page.keyboard.press("Control+A")
     page.keyboard.type(text)
 
