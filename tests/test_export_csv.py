@@ -8,6 +8,8 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from mobile_app.records import Store
 from mobile_app.records.demo import create_demo_job
@@ -39,6 +41,26 @@ INJECTION_CASES = [
 @pytest.mark.parametrize(("text", "expected"), INJECTION_CASES)
 def test_neutralise_cell(text: str, expected: str) -> None:
     assert neutralise_cell(text) == expected
+
+
+@settings(max_examples=150, deadline=None)
+@given(st.text(max_size=30))
+def test_neutralised_text_never_starts_a_formula(text: str) -> None:
+    cell = neutralise_cell(text)
+    assert cell in (text, "'" + text)
+    if cell[:1] in ("=", "+", "-", "@", "\t", "\r"):
+        float(cell)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.text(max_size=20), min_size=1, max_size=5))
+def test_any_description_reads_back_from_the_file(descriptions: list[str]) -> None:
+    circuits = [{"number": str(n), "description": text, "fields": {}}
+                for n, text in enumerate(descriptions)]
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 1},
+           "boards": [{"designation": "DB", "circuits": circuits}]}
+    read = [row["Description"] for row in _rows(job_csv_bytes(doc))]
+    assert read == [neutralise_cell(text) for text in descriptions]
 
 
 @pytest.mark.parametrize(

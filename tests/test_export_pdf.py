@@ -124,6 +124,14 @@ def test_long_unbroken_text_is_wrapped_not_lost() -> None:
     assert long_word in text
 
 
+def test_characters_the_font_lacks_show_as_replacement_marks() -> None:
+    circuit = {"number": "1", "description": "Heater \U0001f525 \u6f22 \x07 end", "fields": {}}
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 5, "fields": {}},
+           "boards": [{"designation": "DB-C", "circuits": [circuit]}]}
+    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text())
+    assert "Heater \ufffd \ufffd \ufffd end" in flat
+
+
 @pytest.mark.parametrize("width_mm", [20.0, 50.0, 180.0])
 def test_wrap_text_keeps_every_word_and_fits(width_mm: float) -> None:
     pdf = JobPdf("title", "note")

@@ -146,8 +146,9 @@ def _job_header(pdf: FPDF, doc: dict[str, Any]) -> None:
     use_font(pdf, "", 9)
     pdf.set_text_color(*GREY)
     paragraph(pdf, 5, _one_line(
-        f"Job {job.get('id')} · revision {job.get('revision')} · status {job.get('status')} · "
-        f"exported {doc.get('exported_at')} · calc {doc.get('calc_version')}"))
+        f"Job {job.get('id')} · revision {job.get('revision') or '—'} · "
+        f"status {job.get('status') or '—'} · exported {doc.get('exported_at') or '—'} · "
+        f"calc {doc.get('calc_version') or '—'}"))
     pdf.set_text_color(*BLACK)
     _heading(pdf, "Job and supply")
     _key_value_rows(pdf, [(label, _field_line(fields, name, unit))

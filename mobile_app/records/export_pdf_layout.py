@@ -104,11 +104,19 @@ def use_font(pdf: FPDF, style: str, size_pt: float) -> None:
         pdf.set_font(FONT, style, size_pt)
 
 
+def printable(pdf: FPDF, text: str) -> str:
+    """`text` with every character the current font cannot draw (emoji, control characters, scripts
+    DejaVu Sans lacks) shown as U+FFFD, so that nothing disappears from the record unseen."""
+    cmap = pdf.current_font.cmap
+    return "".join(char if char in "\n " or (char.isprintable() and ord(char) in cmap) else "\ufffd"
+                   for char in text)
+
+
 def _wrap_words(pdf: FPDF, text: str, width_mm: float) -> list[str]:
     """The uncached work of `wrap_text`."""
     lines: list[str] = []
     space_mm = text_width_mm(pdf, " ")
-    for paragraph_text in str(text).split("\n"):
+    for paragraph_text in printable(pdf, str(text)).split("\n"):
         current: list[str] = []
         current_mm = 0.0
         for word in paragraph_text.split():
