@@ -2,14 +2,16 @@
 
 from __future__ import annotations
 
+import contextlib
 import os
+import subprocess
 import threading
 from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
 
-from mobile_app.records import ConflictError, SaveError, Store
+from mobile_app.records import ConflictError, OpenError, SaveError, Store
 
 
 @pytest.fixture
@@ -58,16 +60,47 @@ def test_read_only_store_refuses_the_save_and_writes_nothing(store: Store) -> No
     assert snapshot(store) == before
 
 
-@pytest.mark.skipif(os.geteuid() == 0, reason="root ignores directory permissions")
-def test_a_read_only_folder_gives_a_clear_error_at_open(tmp_path: Path) -> None:
+@contextlib.contextmanager
+def read_only_folder(folder: Path) -> Iterator[None]:
+    """Make `folder` refuse new files: chmod 0o500 for a normal user; as root (who ignores modes)
+    the immutable attribute (chattr +i, ext2/3/4 and a few others), or skip when that is refused."""
+    if os.geteuid() != 0:
+        folder.chmod(0o500)
+        undo = ["chmod", "700", str(folder)]
+    else:
+        done = subprocess.run(["chattr", "+i", str(folder)], capture_output=True, check=False)
+        if done.returncode != 0:
+            pytest.skip(f"root, and chattr +i refused here: {done.stderr.decode().strip()}")
+        undo = ["chattr", "-i", str(folder)]
+    try:
+        yield
+    finally:
+        subprocess.run(undo, check=True)
+
+
+def test_a_read_only_empty_folder_gives_a_clear_error_at_open(tmp_path: Path) -> None:
     folder = tmp_path / "locked"
     folder.mkdir()
-    folder.chmod(0o500)
-    try:
-        with pytest.raises(SaveError, match="cannot open the store in"):
-            Store.open(folder)
-    finally:
-        folder.chmod(0o700)
+    with read_only_folder(folder), pytest.raises(OpenError) as caught:
+        Store.open(folder)
+    assert str(caught.value) == (
+        f"cannot open the store in {folder}: the store's folder cannot be written"
+        " (read-only or no permission)"
+    )
+    assert list(folder.iterdir()) == []
+
+
+def test_a_store_in_a_read_only_folder_is_refused_not_moved_aside(tmp_path: Path) -> None:
+    with Store.open(tmp_path) as store:
+        store.create_job({"client_ref": "keep me"})
+    before = sorted(p.name for p in tmp_path.iterdir())
+    content = (tmp_path / "boardside.sqlite").read_bytes()
+    with read_only_folder(tmp_path), pytest.raises(OpenError):
+        Store.open(tmp_path)
+    assert sorted(p.name for p in tmp_path.iterdir()) == before
+    assert (tmp_path / "boardside.sqlite").read_bytes() == content
+    with Store.open(tmp_path) as store:
+        assert [j["client_ref"] for j in store.list_jobs()] == ["keep me"]
 
 
 def test_a_second_writer_with_a_stale_version_is_told(store: Store) -> None:

@@ -33,7 +33,8 @@ Public surface (see `/work/notes/store-api.md`; additions are marked *added*):
     documents: job_document(job_id) -> dict ; import_job_document(doc) -> id
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
-ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, MigrationError, StoreTooNewError.
+ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (*added*: the folder
+cannot be opened), MigrationError, StoreTooNewError.
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
 """
 
@@ -42,6 +43,7 @@ from mobile_app.records.errors import (
     LockedOutError,
     MigrationError,
     NotFoundError,
+    OpenError,
     PinError,
     ReadOnlyError,
     ReviewError,
@@ -63,6 +65,7 @@ __all__ = [
     "MigrationError",
     "MovedAside",
     "NotFoundError",
+    "OpenError",
     "PinError",
     "ReadOnlyError",
     "ReviewError",

@@ -18,7 +18,7 @@ import sqlite_utils
 
 import calc
 from mobile_app.records import pins
-from mobile_app.records.errors import InvalidValueError, NotFoundError, SaveError
+from mobile_app.records.errors import InvalidValueError, NotFoundError, OpenError, SaveError
 from mobile_app.records.schema import MovedAside, connect, migrate, move_aside, problem_with
 
 STORE_FILE = "boardside.sqlite"
@@ -35,18 +35,21 @@ def now_iso() -> str:
     return datetime.datetime.now(datetime.UTC).isoformat(timespec="milliseconds")
 
 
+_REASONS = {
+    "SQLITE_FULL": "the device storage is full; free some space and try again",
+    "SQLITE_READONLY": "the store's folder is read-only",
+    "SQLITE_CANTOPEN": "the store's folder cannot be written (read-only or no permission)",
+    "SQLITE_BUSY": "the store is busy in another window; try again",
+    "SQLITE_LOCKED": "the store is busy in another window; try again",
+    "SQLITE_IOERR": "the storage could not be written (I/O error)",
+}
+
+
 def save_reason(error: sqlite3.Error) -> str:
-    """A plain sentence for why SQLite refused a write."""
-    text = str(error).lower()
-    if "full" in text:
-        return "the device storage is full; free some space and try again"
-    if "readonly" in text or "read-only" in text:
-        return "the store's folder is read-only"
-    if "locked" in text or "busy" in text:
-        return "the store is busy in another window; try again"
-    if "i/o" in text:
-        return "the storage could not be written (I/O error)"
-    return str(error)
+    """A plain sentence for why SQLite refused to open or write (by its primary result code)."""
+    name = getattr(error, "sqlite_errorname", "") or ""
+    primary = "_".join(name.split("_")[:2])
+    return _REASONS.get(primary, str(error))
 
 
 class StoreCore:
@@ -81,7 +84,7 @@ class StoreCore:
             conn = connect(path)
         except (OSError, sqlite3.Error) as error:
             reason = save_reason(error) if isinstance(error, sqlite3.Error) else str(error)
-            raise SaveError(f"cannot open the store in {folder}: {reason}") from error
+            raise OpenError(str(folder), reason) from error
         db = sqlite_utils.Database(conn)
         try:
             backup_path = migrate(db, path)

@@ -115,6 +115,18 @@ class SaveError(StoreError, OSError):
         return f"not saved: {self.reason}"
 
 
+class OpenError(StoreError, OSError):
+    """The store's folder or file cannot be opened (missing rights, read-only folder)."""
+
+    def __init__(self, folder: str, reason: str) -> None:
+        super().__init__(folder, reason)
+        self.folder = folder
+        self.reason = reason
+
+    def __str__(self) -> str:
+        return f"cannot open the store in {self.folder}: {self.reason}"
+
+
 class MigrationError(StoreError, RuntimeError):
     """The store's schema could not be brought up to date; the file was left as it was."""
 

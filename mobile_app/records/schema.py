@@ -22,6 +22,7 @@ from sqlite_utils import Migrations
 from mobile_app.records.errors import MigrationError, StoreTooNewError
 
 SQLITE_HEADER = b"SQLite format 3\x00"
+DAMAGE_ERRORS = ("SQLITE_CORRUPT", "SQLITE_NOTADB")
 
 
 @dataclass(frozen=True)
@@ -183,7 +184,11 @@ def connect(path: Path) -> sqlite3.Connection:
 
 
 def problem_with(path: Path) -> str | None:
-    """Why the file at `path` cannot be used as a store, or None if it opens and checks out."""
+    """Why the file at `path` is damaged (not SQLite, corrupt), or None if it checks out.
+
+    Other failures (no rights, read-only folder) are raised as they are: they are not damage,
+    and the file must not be moved for them.
+    """
     if not path.exists() or path.stat().st_size == 0:
         return None
     with path.open("rb") as handle:
@@ -196,7 +201,9 @@ def problem_with(path: Path) -> str | None:
         finally:
             conn.close()
     except sqlite3.DatabaseError as error:
-        return f"unreadable: {error}"
+        if getattr(error, "sqlite_errorname", "") in DAMAGE_ERRORS:
+            return f"unreadable: {error}"
+        raise
     if rows != [("ok",)]:
         return "failed its integrity check: " + "; ".join(str(r[0]) for r in rows[:3])
     return None
