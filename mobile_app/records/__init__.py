@@ -1,12 +1,14 @@
 """Job records on the device: the local store (sqlite-utils), never importing Flet.
 
-Public surface (see `/work/notes/store-api.md`; additions are marked *added*):
+Public surface (the store API agreed with the app, export and sync; additions marked *added*):
 
     from mobile_app.records import Store
     store = Store.open(data_dir)        # None -> platformdirs user data dir; WAL, FKs,
                                         # integrity check, migrations (backup first);
                                         # a bad file is moved aside
     store.recovered                     # *added*: MovedAside(original, moved_to, reason) or None
+    salvage_jobs(store.recovered.moved_to) *added*: Salvage(documents, problems), the job
+                                        documents still readable from the file moved aside
     store.backup_path                   # *added*: copy taken before the last migration, or None
     store.path, store.db, store.close()
 
@@ -53,6 +55,7 @@ from mobile_app.records.errors import (
     UnknownFieldError,
 )
 from mobile_app.records.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
+from mobile_app.records.salvage import Salvage, salvage_jobs
 from mobile_app.records.schema import MovedAside
 from mobile_app.records.store import Store
 
@@ -69,9 +72,11 @@ __all__ = [
     "PinError",
     "ReadOnlyError",
     "ReviewError",
+    "Salvage",
     "SaveError",
     "Store",
     "StoreError",
     "StoreTooNewError",
     "UnknownFieldError",
+    "salvage_jobs",
 ]

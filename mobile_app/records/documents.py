@@ -3,6 +3,8 @@
 from __future__ import annotations
 
 import datetime
+import sqlite3
+from collections.abc import Callable
 from typing import Any
 
 import calc
@@ -20,14 +22,32 @@ class DocumentStore(ReviewStore):
     def job_document(self, job_id: int) -> dict[str, Any]:
         """The whole job (boards, circuits with fields as typed and assessments, library devices
         used, audit trail) as a JSON-able dict with "schema": "boardside-job"."""
+        return self._document(job_id, None)
+
+    def _document(self, job_id: int, problems: list[str] | None) -> dict[str, Any]:
+        """The job document; with a `problems` list, parts SQLite cannot read are left out and
+        noted there instead of raising (salvaging a damaged file)."""
+
+        def part(what: str, read: Callable[[], Any], instead: Any) -> Any:
+            if problems is None:
+                return read()
+            try:
+                return read()
+            except sqlite3.DatabaseError as error:
+                problems.append(f"job {job_id}, {what}: {error}")
+                return instead
+
         job = self.get_job(job_id)
         fields = job["fields"]
         boards = []
         used_library: set[int] = set()
-        for board in self.boards(job_id):
+        for board in part("boards", lambda: self.boards(job_id), []):
             circuits = []
-            for row in self.circuits(board["id"]):
-                circuit = self.get_circuit(row["id"])
+            rows = part(f"board {board['designation']} circuits", lambda b=board: self.circuits(b["id"]), [])
+            for row in rows:
+                circuit = part(f"circuit {row['number']}", lambda r=row: self.get_circuit(r["id"]), None)
+                if circuit is None:
+                    continue
                 library_id = circuit["fields"]["library_device_id"]["value"]
                 if library_id is not None:
                     used_library.add(int(library_id))
@@ -55,6 +75,8 @@ class DocumentStore(ReviewStore):
                     "circuits": circuits,
                 }
             )
+        names = part("people", lambda: {p["id"]: p["name"] for p in self.people()}, {})
+        library = part("device library", self.library_devices, [])
         return {
             "schema": DOCUMENT_SCHEMA,
             "schema_version": DOCUMENT_SCHEMA_VERSION,
@@ -71,23 +93,16 @@ class DocumentStore(ReviewStore):
                     for name in ("client_ref", "site_address", "description", "date", "system")
                 },
                 "fields": fields,
-                "recorded_by": self._name(job["recorded_by"]),
-                "submitted_by": self._name(job["submitted_by"]),
-                "approved_by": self._name(job["approved_by"]),
+                "recorded_by": names.get(job["recorded_by"]),
+                "submitted_by": names.get(job["submitted_by"]),
+                "approved_by": names.get(job["approved_by"]),
                 "approved_at": job["approved_at"],
                 "review_comment": job["review_comment"],
             },
             "boards": boards,
-            "library_devices": [d for d in self.library_devices() if d["id"] in used_library],
-            "audit": self.audit(job_id),
+            "library_devices": [d for d in library if d["id"] in used_library],
+            "audit": part("audit trail", lambda: self.audit(job_id), []),
         }
-
-    def _name(self, person_id: int | None) -> str | None:
-        """A person's name, or None."""
-        if person_id is None:
-            return None
-        row = self._one("SELECT name FROM people WHERE id = ?", (person_id,))
-        return None if row is None else row["name"]
 
     def import_job_document(self, doc: dict[str, Any]) -> int:
         """Create a new draft job from a job document, in one transaction.
