@@ -124,6 +124,18 @@ def test_long_unbroken_text_is_wrapped_not_lost() -> None:
     assert long_word in text
 
 
+def test_a_zs_worked_out_from_ze_and_r1r2_is_marked() -> None:
+    circuit = {"number": "4", "description": "Hall lights", "verdict": "pass",
+               "fields": {"zs": {"raw": "", "value": None, "error": None}},
+               "assessment": {"zs_ohm": 0.8, "zs_source": "Ze + (R1+R2)", "steps": []}}
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 6, "fields": {}},
+           "boards": [{"designation": "DB-D", "circuits": [circuit]}]}
+    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text())
+    assert "4 Hall lights — 0.8 †" in flat
+    assert "† Zs not measured: the value the assessment worked out from its readings " \
+           "(Ze + (R1+R2))." in flat
+
+
 def test_characters_the_font_lacks_show_as_replacement_marks() -> None:
     circuit = {"number": "1", "description": "Heater \U0001f525 \u6f22 \x07 end", "fields": {}}
     doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 5, "fields": {}},

@@ -90,6 +90,13 @@ def _reading_cell(fields: dict[str, Any], name: str) -> str:
     return f"{raw} ?" if raw else "—"
 
 
+def _zs_cell(fields: dict[str, Any], result: dict[str, Any]) -> str:
+    """Zs for the circuit table: as measured, else the Zs the assessment worked out, marked "†"."""
+    if (fields.get("zs") or {}).get("value") is None and result.get("zs_ohm") is not None:
+        return f"{format_value(result['zs_ohm'])} †"
+    return _reading_cell(fields, "zs")
+
+
 def device_text(fields: dict[str, Any], library: dict[int, str]) -> str:
     """The protective device in a few words, e.g. "MCB C32", "gG 63 A", "curve: ACME 250 A"."""
     kind = field_text(fields, "device_kind")
@@ -130,7 +137,7 @@ def _key_value_rows(pdf: FPDF, rows: list[tuple[str, str]]) -> None:
 
 
 def _cautions_block(pdf: FPDF) -> None:
-    """The cautions, boxed under a bold title."""
+    """The cautions, boxed under their title."""
     pdf.ln(2)
     table_row(pdf, (pdf.epw,), ("Cautions\n" + "\n".join(f"• {line}" for line in CAUTIONS),),
               (PLAIN,), 4.5, 9)
@@ -189,7 +196,7 @@ def _board_table(pdf: FPDF, board: dict[str, Any], library: dict[int, str]) -> N
             _one_line(circuit.get("number")),
             _one_line(circuit.get("description")) or "—",
             device_text(fields, library),
-            _reading_cell(fields, "zs"),
+            _zs_cell(fields, result),
             format_value(result.get("zs_max_ohm")),
             format_value(result.get("earth_fault_current_a")),
             f"{format_value(_first(result, 'disconnection_time_s', 'device_time_s'))} / "
@@ -198,6 +205,11 @@ def _board_table(pdf: FPDF, board: dict[str, Any], library: dict[int, str]) -> N
         )
         styles = [PLAIN] * 7 + [_verdict_style(circuit.get("verdict"))]
         table_row(pdf, _TABLE_WIDTHS_MM, texts, styles, repeat=_TABLE_HEADINGS)
+    use_font(pdf, "", 8)
+    derived = [c for c in circuits if "†" in _zs_cell(c.get("fields") or {}, c.get("assessment") or {})]
+    if derived:
+        paragraph(pdf, 4, "† Zs not measured: the value the assessment worked out from its readings "
+                          f"({_one_line((derived[0].get('assessment') or {}).get('zs_source'))}).")
     use_font(pdf, "", 9)
 
 
