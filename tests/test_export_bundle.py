@@ -13,11 +13,13 @@ from pathlib import Path
 
 import pytest
 
+import mobile_app.records.bundle as bundle_module
 from mobile_app.records import NotFoundError, Store
 from mobile_app.records.bundle import MANIFEST_NAME, bundle_base_name, slug
 from mobile_app.records.demo import create_demo_job
 from mobile_app.records.export import (
     BundleCheckError,
+    BundleExistsError,
     export_bundle,
     load_job_json,
     read_bundle,
@@ -96,6 +98,20 @@ def test_a_second_export_never_overwrites_the_first(
     assert sorted(p.name for p in tmp_path.iterdir()) == [first.name, second.name, third.name]
     for path in first.files + (first.manifest,):
         assert not os.stat(path).st_mode & (stat.S_IWUSR | stat.S_IWGRP | stat.S_IWOTH)
+
+
+def test_when_every_name_is_taken_the_export_is_refused_clearly(
+    demo_store: tuple[Path, Store, int], tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    _data, store, job_id = demo_store
+    monkeypatch.setattr(bundle_module, "MAX_SAME_NAME", 2)
+    first = export_bundle(store, job_id, tmp_path)
+    export_bundle(store, job_id, tmp_path)
+    with pytest.raises(BundleExistsError) as caught:
+        export_bundle(store, job_id, tmp_path)
+    assert str(caught.value) == (f"bundle {first.name} and its numbered variants already exist: "
+                                 "none was overwritten")
+    assert sorted(p.name for p in tmp_path.iterdir()) == [first.name, f"{first.name}-2"]
 
 
 def test_a_folder_in_the_way_is_left_alone(

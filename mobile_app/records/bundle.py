@@ -94,6 +94,15 @@ def _write_file(path: Path, data: bytes) -> None:
     path.chmod(0o444)
 
 
+def _fsync_folder(path: Path) -> None:
+    """Flush a folder's entries (new files, a rename) to the disk."""
+    descriptor = os.open(path, os.O_RDONLY)
+    try:
+        os.fsync(descriptor)
+    finally:
+        os.close(descriptor)
+
+
 def _manifest(doc: dict[str, Any], name: str, board_id: int | None,
               contents: dict[str, bytes]) -> bytes:
     """The manifest: what the bundle is and the size and SHA-256 of each file."""
@@ -135,6 +144,7 @@ def _write_under(out_dir: Path, name: str, doc: dict[str, Any], board_id: int | 
         for file_name, data in named.items():
             _write_file(work / file_name, data)
         _write_file(work / MANIFEST_NAME, _manifest(doc, name, board_id, named))
+        _fsync_folder(work)
         if target.exists():
             shutil.rmtree(work)
             return None
@@ -148,6 +158,7 @@ def _write_under(out_dir: Path, name: str, doc: dict[str, Any], board_id: int | 
     except BaseException:
         shutil.rmtree(work, ignore_errors=True)
         raise
+    _fsync_folder(out_dir)
     return target
 
 
