@@ -303,3 +303,13 @@ def test_a_batch_commits_together_or_not_at_all(store: Store) -> None:
         job_id = store.create_job({"client_ref": "whole"})
         store.add_board(job_id, "DB1")
     assert [j["client_ref"] for j in store.list_jobs()] == ["whole"]
+
+
+def test_reassess_job_applies_a_changed_setting_to_a_draft_job(store: Store) -> None:
+    circuit_id = make_circuit(store)
+    job_id = store.get_circuit(circuit_id)["job_id"]
+    assert store.get_circuit(circuit_id)["assessment"]["inputs"]["settings"] == {"final_circuit_max_a": 32.0}
+    store.set_setting("final_circuit_max_a", 63)
+    assert store.reassess_job(job_id) == 1
+    assessed = store.get_circuit(circuit_id)["assessment"]["inputs"]
+    assert assessed["settings"] == {"final_circuit_max_a": 63.0}

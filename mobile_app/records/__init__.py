@@ -14,6 +14,7 @@ Public surface (the store API agreed with the app, export and sync; additions ma
 
     people:   add_person(name, role, pin=None) -> id ; set_pin(person_id, pin) *added* ; people()
     jobs:     create_job(fields, by=None) -> id ; list_jobs(search="") ; get_job(id)
+              reassess_job(job_id) -> count *added* (after a settings change or a calc update)
               set_job_field(job_id, name, raw, by=None, expected_version=None) -> dict
     boards:   add_board(job_id, designation, location="", supplied_from="", by=None) -> id
               boards(job_id)

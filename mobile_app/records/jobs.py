@@ -112,6 +112,19 @@ class JobStore(StoreCore):
             self._store_outcome(conn, circuit["id"], self._outcome(job, board, circuit))
 
     # jobs
+    def reassess_job(self, job_id: int) -> int:
+        """Reassess every circuit of a draft job, e.g. after a settings change or a new calc
+        version; returns how many circuits. Submitted and approved jobs keep their assessments."""
+        with self._write() as conn:
+            self._draft_job(job_id)
+            self._reassess_job(conn, job_id)
+        return int(
+            self.db.conn.execute(
+                "SELECT COUNT(*) FROM circuits c JOIN boards b ON b.id = c.board_id WHERE b.job_id = ?",
+                (job_id,),
+            ).fetchone()[0]
+        )
+
     def create_job(self, fields: dict[str, str] | None = None, by: int | None = None) -> int:
         """Create a draft job from typed fields; blank system, U0, Cmin take the defaults."""
         typed = dict(fields or {})
