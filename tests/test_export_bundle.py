@@ -12,11 +12,12 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from pypdf import PdfReader
 
 import mobile_app.records.bundle as bundle_module
 from mobile_app.records import NotFoundError, Store
 from mobile_app.records.bundle import MANIFEST_NAME, bundle_base_name, slug
-from mobile_app.records.demo import create_demo_job
+from mobile_app.records.demo import DEMO_PIN, create_demo_job
 from mobile_app.records.export import (
     BundleCheckError,
     BundleExistsError,
@@ -24,6 +25,7 @@ from mobile_app.records.export import (
     load_job_json,
     read_bundle,
 )
+from mobile_app.records.sync import save_target
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -142,6 +144,38 @@ def test_read_bundle_detects_a_changed_or_unfinished_bundle(
     bundle.manifest.unlink()
     with pytest.raises(BundleCheckError, match="no manifest.json: the export is unfinished"):
         read_bundle(bundle.path)
+
+
+def test_no_secret_reaches_a_bundle(tmp_path: Path) -> None:
+    store = Store.open(tmp_path / "store")
+    try:
+        job_id = create_demo_job(store)
+        people = {person["name"]: person["id"] for person in store.people()}
+        store.submit_for_review(job_id, people["Rosa Quennell"])
+        store.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        password = "Office-Secret-7f3Q"
+        save_target(store, "https://office.example/dav/boardside/", "field-tablet", password)
+        bundle = export_bundle(store, job_id, tmp_path / "out")
+    finally:
+        store.close()
+    for path in bundle.files + (bundle.manifest,):
+        data = path.read_bytes()
+        assert password.encode() not in data and b"field-tablet" not in data
+        assert b"office.example" not in data
+    pdf_text = "".join(page.extract_text() for page in PdfReader(bundle.files[2]).pages)
+    assert password not in pdf_text and "field-tablet" not in pdf_text
+    assert "Ines Okafor" in pdf_text  # the text was readable: the check above means something
+    doc = load_job_json(bundle.files[0].read_bytes())
+    keys: set[str] = set()
+    stack: list[object] = [doc]
+    while stack:
+        item = stack.pop()
+        if isinstance(item, dict):
+            keys |= set(item)
+            stack.extend(item.values())
+        elif isinstance(item, list):
+            stack.extend(item)
+    assert not [key for key in keys if "pin" in key.lower() or "password" in key.lower()]
 
 
 def test_one_board_export(demo_store: tuple[Path, Store, int], tmp_path: Path) -> None:
