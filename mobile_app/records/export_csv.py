@@ -22,12 +22,13 @@ _NUMBER = re.compile(r"[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?")
 Row = dict[str, Any]
 Circuit = dict[str, Any]
 
-# (header with unit, circuit field whose parsed value fills it)
+# (header with unit, circuit field whose parsed value fills it; a library device by its name)
 _INPUT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("Role", "role"),
     ("Device", "device_kind"),
     ("Curve", "device_curve"),
     ("In (A)", "device_rating"),
+    ("Library device", "library_device_id"),
     ("Let-through I²t (A²s)", "let_through_i2t"),
     ("RCD IΔn (A)", "rcd_idn"),
     ("RCD type", "rcd_type"),
@@ -144,6 +145,9 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
         return lambda context, _circuit: context[key]
 
     def input_field(name: str) -> Callable[[Row, Circuit], Any]:
+        if name == "library_device_id":
+            return lambda context, circuit: context["library"].get(
+                _field_value(circuit.get("fields") or {}, name))
         return lambda _context, circuit: _field_value(circuit.get("fields") or {}, name)
 
     def result(key: str) -> Callable[[Row, Circuit], Any]:
@@ -158,10 +162,7 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
         ("Circuit", lambda _context, circuit: circuit.get("number")),
         ("Description", lambda _context, circuit: circuit.get("description")),
     ]
-    columns += [(header, input_field(name)) for header, name in _INPUT_COLUMNS[:4]]
-    columns.append(("Library device", lambda context, circuit: context["library"].get(
-        _field_value(circuit.get("fields") or {}, "library_device_id"))))
-    columns += [(header, input_field(name)) for header, name in _INPUT_COLUMNS[4:]]
+    columns += [(header, input_field(name)) for header, name in _INPUT_COLUMNS]
     columns += [(header, result(key)) for header, key in _RESULT_COLUMNS]
     columns += [
         ("Verdict", lambda _context, circuit: circuit.get("verdict")),
