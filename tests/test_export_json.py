@@ -134,6 +134,8 @@ def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_pat
          "schema_version '1'"),
         (b'{"schema": "boardside-job", "schema_version": 1, "boards": []}', "'job' object"),
         (b"\xff\xfe", "not valid JSON"),
+        (b'{"schema": "boardside-job", "schema_version": 1, "job": {"x": NaN}, "boards": []}',
+         "NaN is not a JSON number"),
     ],
 )
 def test_load_refuses_what_it_cannot_read(data: bytes, problem: str) -> None:

@@ -199,10 +199,15 @@ def job_json_bytes(doc: dict[str, Any]) -> bytes:
 def load_job_json(data: bytes | str) -> dict[str, Any]:
     """Read a JSON export back into a job document, checking its schema; DocumentError if unusable."""
     try:
-        doc = json.loads(data)
+        doc = json.loads(data, parse_constant=_refuse_constant)
     except (UnicodeDecodeError, json.JSONDecodeError) as error:
         raise DocumentError(f"not valid JSON: {error}") from error
     return check_document(doc)
+
+
+def _refuse_constant(name: str) -> float:
+    """NaN and Infinity are not JSON: a document holding them did not come from this export."""
+    raise DocumentError(f"not valid JSON: {name} is not a JSON number")
 
 
 def import_job_json(store: Any, data: bytes | str) -> int:
