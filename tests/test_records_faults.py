@@ -146,3 +146,24 @@ def test_a_writer_waits_for_the_other_rather_than_failing(store: Store) -> None:
         assert other.get_circuit(1)["fields"]["zs"]["raw"] == "0.55"
     finally:
         other.close()
+
+
+def test_threads_sharing_one_store_do_not_interleave_transactions(store: Store) -> None:
+    errors: list[BaseException] = []
+
+    def save_many(worker: int) -> None:
+        try:
+            for n in range(25):
+                store.set_circuit_field(1, "description", f"thread {worker} save {n}")
+        except BaseException as error:  # collected and asserted below
+            errors.append(error)
+
+    threads = [threading.Thread(target=save_many, args=(worker,)) for worker in range(4)]
+    for thread in threads:
+        thread.start()
+    for thread in threads:
+        thread.join()
+    assert errors == []
+    saved = [a["new"] for a in store.audit(1) if a["field"] == "description"]
+    assert len(saved) == 4 * 25
+    assert store.db.conn.execute("PRAGMA integrity_check").fetchone() == ("ok",)

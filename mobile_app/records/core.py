@@ -8,6 +8,7 @@ import datetime
 import json
 import math
 import sqlite3
+import threading
 import time
 from collections.abc import Callable, Iterator
 from pathlib import Path
@@ -67,6 +68,7 @@ class StoreCore:
         self.recovered = recovered
         self.backup_path = backup_path
         self.clock: Callable[[], float] = time.time
+        self._lock = threading.RLock()
 
     @classmethod
     def open(cls, data_dir: Path | None = None) -> Self:
@@ -108,33 +110,28 @@ class StoreCore:
         """One write transaction (BEGIN IMMEDIATE … COMMIT); SQLite refusals become SaveError.
 
         Inside another write it is a savepoint, so a larger change (an import) commits as one.
+        A lock keeps threads sharing this store (event handlers) from interleaving transactions.
         """
-        conn = self.db.conn
-        if conn.in_transaction:
-            conn.execute("SAVEPOINT nested_write")
+        with self._lock:
+            conn = self.db.conn
+            if conn.in_transaction:
+                yield from _savepoint(conn)
+                return
+            try:
+                conn.execute("BEGIN IMMEDIATE")
+            except sqlite3.OperationalError as error:
+                raise SaveError(save_reason(error)) from error
             try:
                 yield conn
+                conn.execute("COMMIT")
+            except sqlite3.Error as error:
+                if conn.in_transaction:
+                    conn.execute("ROLLBACK")
+                raise SaveError(save_reason(error)) from error
             except BaseException:
-                conn.execute("ROLLBACK TO nested_write")
-                conn.execute("RELEASE nested_write")
+                if conn.in_transaction:
+                    conn.execute("ROLLBACK")
                 raise
-            conn.execute("RELEASE nested_write")
-            return
-        try:
-            conn.execute("BEGIN IMMEDIATE")
-        except sqlite3.OperationalError as error:
-            raise SaveError(save_reason(error)) from error
-        try:
-            yield conn
-            conn.execute("COMMIT")
-        except sqlite3.Error as error:
-            if conn.in_transaction:
-                conn.execute("ROLLBACK")
-            raise SaveError(save_reason(error)) from error
-        except BaseException:
-            if conn.in_transaction:
-                conn.execute("ROLLBACK")
-            raise
 
     @contextlib.contextmanager
     def batch(self) -> Iterator[None]:
@@ -144,9 +141,10 @@ class StoreCore:
 
     def _query(self, sql: str, params: tuple[Any, ...] | dict[str, Any] = ()) -> list[dict[str, Any]]:
         """Rows of a read query as dicts (plain sqlite3: no savepoint around each read)."""
-        cursor = self.db.conn.execute(sql, params)
-        names = [column[0] for column in cursor.description]
-        return [dict(zip(names, row, strict=True)) for row in cursor.fetchall()]
+        with self._lock:
+            cursor = self.db.conn.execute(sql, params)
+            names = [column[0] for column in cursor.description]
+            return [dict(zip(names, row, strict=True)) for row in cursor.fetchall()]
 
     def _one(self, sql: str, params: tuple[Any, ...] = ()) -> dict[str, Any] | None:
         """The first row of a query as a dict, or None."""
@@ -271,6 +269,19 @@ class StoreCore:
         """One library device with its points decoded, or None."""
         row = self._one("SELECT id, name, rating_a, points FROM library_devices WHERE id = ?", (device_id,))
         return None if row is None else dict(row, points=json.loads(row["points"]))
+
+
+def _savepoint(conn: sqlite3.Connection) -> Iterator[sqlite3.Connection]:
+    """A nested write: a savepoint released on success, rolled back to on failure."""
+    conn.execute("SAVEPOINT nested_write")
+    try:
+        yield conn
+    except BaseException:
+        if conn.in_transaction:
+            conn.execute("ROLLBACK TO nested_write")
+            conn.execute("RELEASE nested_write")
+        raise
+    conn.execute("RELEASE nested_write")
 
 
 def check_curve_points(points: Any) -> list[list[float]]:
