@@ -28,6 +28,7 @@ class Shell:
         self.store = store
         self._walks: dict[int, Walk] = {}
         self._values: dict[str, Any] = {}
+        self._renders = 0
 
     def go(self, route: str) -> None:
         """Show another screen (pushes a browser history entry, so reload and back work)."""
@@ -35,7 +36,7 @@ class Shell:
 
     def toast(self, message: str) -> None:
         """A short message at the bottom of the screen."""
-        self.page.show_dialog(ft.SnackBar(ft.Text(message), key="toast"))
+        self.page.show_dialog(ft.SnackBar(ft.Text(message), duration=2500))
 
     def walk(self, circuit_id: int, step: str) -> Walk:
         """The walk state of a circuit, kept for the session so unsaved text survives step changes."""
@@ -62,8 +63,14 @@ class Shell:
         self.page.theme_mode = theme_mode(SettingsState(self.store).get("theme"))
 
     def render(self) -> None:
-        """Build the view for the current route."""
+        """Build the view for the current route.
+
+        Each build gets a fresh View key, so Flet adds the new tree instead of diffing it against the
+        old one by control keys (a keyed diff would freeze the new controls and refuse later updates).
+        """
         view = route_view(self, self.page.route or "/")
+        self._renders += 1
+        view.key = f"view-{self._renders}"
         self.page.views.clear()
         self.page.views.append(view)
         self.page.update()

@@ -93,3 +93,10 @@ def test_quantity_format() -> None:
     assert format_quantity(0.62, "Ω") == "0.62 Ω"
     assert format_quantity(1500, "A") == "1 500 A"
     assert format_quantity(None, "s") == "—"
+
+
+def test_far_beyond_a_limit_reads_as_a_multiple() -> None:
+    from mobile_app.state.results import margins_of
+
+    (margin,) = margins_of({"device_time_s": 60.0, "max_disconnection_time_s": 0.4})
+    assert margin.text == "150.0 × the limit" and not margin.ok

@@ -8,13 +8,14 @@ import flet_charts as fch
 from mobile_app.state.chart import ChartModel
 
 _STYLE: dict[str, tuple[str, list[int] | None, float]] = {
-    "device": ("#0E5A6B", None, 3),
-    "fault": ("#B3141B", [6, 4], 2),
-    "short": ("#7A4F00", [2, 3], 2),
-    "limit": ("#4A4F57", [8, 4], 2),
-    "line": ("#1565C0", None, 2),
-    "cpc": ("#6A1B9A", [10, 3], 2),
+    "device": (ft.Colors.PRIMARY, None, 3),
+    "fault": (ft.Colors.ERROR, [6, 4], 2),
+    "short": ("#E07B00", [2, 3], 2),
+    "limit": (ft.Colors.ON_SURFACE, [8, 4], 2),
+    "line": ("#3D7FD9", None, 2),
+    "cpc": ("#A05BC0", [10, 3], 2),
 }
+"""Colour, dash and width per series role; theme colours or mid tones that read in both themes."""
 
 
 def tc_chart(model: ChartModel, height: int = 300) -> ft.Column:

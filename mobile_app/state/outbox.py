@@ -20,15 +20,21 @@ class OutboxRow:
     sent: bool
 
 
+def _when(stamp: object) -> str:
+    """`2026-12-02T07:22:48.049+00:00` as `2026-12-02 07:22 UTC`."""
+    text = str(stamp or "")
+    return f"{text[:16].replace('T', ' ')} UTC" if len(text) >= 16 else text
+
+
 def _row(entry: dict[str, Any], sent: bool) -> OutboxRow:
     name = entry.get("bundle_name") or entry.get("name") or f"Export {entry.get('id')}"
     parts = [f"job {entry.get('job_id')}", f"revision {entry.get('revision')}"]
     if sent and entry.get("sent_at"):
-        parts.append(f"sent {entry['sent_at']}")
+        parts.append(f"sent {_when(entry['sent_at'])}")
     if not sent and entry.get("last_error"):
         parts.append(str(entry["last_error"]))
     if not sent and entry.get("next_try_at"):
-        parts.append(f"next try {entry['next_try_at']}")
+        parts.append(f"next try {_when(entry['next_try_at'])}")
     return OutboxRow(int(entry.get("id") or 0), str(name), " · ".join(parts), sent)
 
 

@@ -58,12 +58,15 @@ def _margin(label: str, actual: float | None, limit: float | None, unit: str, up
         return None
     share = (limit - actual) / limit if upper else (actual - limit) / limit
     ok = share >= 0
-    side = "inside" if ok else "beyond"
+    if abs(share) > 1:
+        text = f"{actual / limit:.1f} × the limit"
+    else:
+        text = f"{abs(share) * 100:.0f} % {'inside' if ok else 'beyond'} the limit"
     return Margin(
         label=label,
         actual=format_quantity(actual, unit),
         limit=format_quantity(limit, unit),
-        text=f"{abs(share) * 100:.0f} % {side} the limit",
+        text=text,
         ok=ok,
     )
 

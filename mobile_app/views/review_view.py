@@ -7,6 +7,7 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.screen import screen
+from mobile_app.state.outbox import OutboxState
 from mobile_app.state.review import Outcome, ReviewState
 
 
@@ -37,8 +38,22 @@ def build(shell: Any, job_id: str) -> ft.View:
                             on_click=lambda _e: show(review.submit(recorder.value or ""))),
         ]
     elif status == "approved":
-        body.append(ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28),
-                            ft.Text("Approved and locked.", size=16)]))
+        busy = ft.ProgressRing(visible=False, width=28, height=28, key="export-busy")
+
+        def export(_e: Any) -> None:
+            busy.visible = True
+            busy.update()
+            shell.page.run_thread(lambda: show(Outcome(True, OutboxState(shell.store).export_job(
+                int(job_id)))))
+
+        body += [
+            ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28), ft.Text("Approved and locked.", size=16)]),
+            ft.Row([
+                ft.FilledButton("Export to outbox", icon=ft.Icons.OUTBOX, height=48,
+                                key="export-job", on_click=export),
+                busy,
+            ], spacing=12),
+        ]
     else:
         supervisor = ft.TextField(key="supervisor-name", label="Supervisor name")
         pin = ft.TextField(key="supervisor-pin", label="PIN", password=True,
