@@ -102,3 +102,57 @@ def test_sigkill_at_random_moments_loses_no_acknowledged_save(tmp_path: Path) ->
                         assert circuit["fields"][name]["raw"] == raw
     assert len(acknowledged) > KILLS, "the child hardly saved anything before the kills"
     print(f"{KILLS} kills, {len(acknowledged)} acknowledged saves, all present")
+
+
+SUPPLY_KILLS = 8
+SUPPLY_CHILD = """
+import sys
+from pathlib import Path
+from mobile_app.records import Store
+store = Store.open(Path(sys.argv[1]))
+print("ready", flush=True)
+n = 0
+while True:
+    n += 1
+    raw = f"0.{100 + (int(sys.argv[2]) * 1000 + n) % 800} Ω"
+    store.set_job_field(1, "ze", raw)
+    print("ack", raw, flush=True)
+"""
+
+
+@pytest.mark.slow
+def test_sigkill_during_supply_changes_leaves_every_circuit_assessed_with_the_saved_ze(
+    tmp_path: Path,
+) -> None:
+    prepare(tmp_path)
+    with Store.open(tmp_path) as store:
+        board_id = store.boards(1)[0]["id"]
+        for number in range(5, 41):
+            store.set_circuit_field(store.add_circuit(board_id, str(number)), "r1r2", "0.2")
+    chance = random.Random(4181)
+    total_acked = 0
+    for run in range(1, SUPPLY_KILLS + 1):
+        child = subprocess.Popen(
+            [sys.executable, "-c", SUPPLY_CHILD, str(tmp_path), str(run)],
+            cwd=ROOT,
+            stdout=subprocess.PIPE,
+            text=True,
+            encoding="utf-8",
+        )
+        assert child.stdout is not None
+        assert child.stdout.readline().strip() == "ready"
+        time.sleep(chance.uniform(0.05, 0.4))
+        child.send_signal(signal.SIGKILL)
+        output, _ = child.communicate(timeout=30)
+        acked = [line[4:] for line in output.splitlines() if line.startswith("ack ")]
+        total_acked += len(acked)
+        with Store.open(tmp_path) as store:
+            assert store.db.conn.execute("PRAGMA integrity_check").fetchone() == ("ok",)
+            ze = store.get_job(1)["fields"]["ze"]
+            if acked:
+                history = [a["new"] for a in store.audit(1) if a["field"] == "ze"]
+                assert acked[-1] in history[-2:]
+            assessed = [store.get_circuit(c["id"])["assessment"] for c in store.circuits(board_id)]
+            assert len(assessed) == 40 and all(a is not None for a in assessed)
+            assert [a["inputs"]["supply"]["ze"] for a in assessed] == [pytest.approx(ze["value"])] * 40
+    assert total_acked > SUPPLY_KILLS, "the child hardly saved anything before the kills"
