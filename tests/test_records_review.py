@@ -70,8 +70,9 @@ def test_pin_hash_is_salted_scrypt_and_checked() -> None:
     first, second = hash_pin(PIN), hash_pin(PIN)
     assert first != second and first.startswith("scrypt$16384$8$1$")
     assert pin_matches(PIN, first) and not pin_matches("482914", first)
-    with pytest.raises(PinError, match="a PIN must be at least 4 digits"):
-        hash_pin("12a4")
+    for bad in ("12a4", "123", "١٢٣٤", "12²4"):
+        with pytest.raises(PinError, match="a PIN must be at least 4 digits"):
+            hash_pin(bad)
 
 
 def test_draft_submitted_approved(store: Store) -> None:
@@ -92,6 +93,8 @@ def test_draft_submitted_approved(store: Store) -> None:
         store.set_job_field(job_id, "ze", "0.5")
     with pytest.raises(ReadOnlyError):
         store.add_board(job_id, "DB2")
+    with pytest.raises(ReadOnlyError):
+        store.reassess_job(job_id)
 
 
 def test_a_submitted_job_is_frozen_until_returned_with_a_comment(store: Store) -> None:

@@ -42,6 +42,9 @@ ODD = [
     "x" * 10_000,
     "ｆｕｌｌｗｉｄｔｈ",
     "\u202e0.62",
+    "²",
+    "١٢",
+    "12²",
 ]
 fields = st.sampled_from(CIRCUIT_FIELDS)
 texts = st.one_of(st.sampled_from(ODD), st.text(max_size=60))
@@ -139,3 +142,13 @@ def test_a_document_broken_half_way_imports_nothing(tmp_path: Path) -> None:
         with pytest.raises(DocumentError, match="KeyError: 'fields'"):
             store.import_job_document(doc)
         assert (store.list_jobs(), store.library_devices()) == before
+
+
+@pytest.mark.parametrize("raw", ["²", "١", "3²", "0x1", "-1", "1.0"])
+def test_a_library_reference_that_is_not_plain_digits_is_an_error(shared: Store, raw: str) -> None:
+    saved = shared.set_circuit_field(1, "library_device_id", raw)
+    assert (saved["raw"], saved["value"], saved["error"]) == (
+        raw,
+        None,
+        "must be the id of a device in the library",
+    )

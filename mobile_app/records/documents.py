@@ -137,7 +137,7 @@ class DocumentStore(ReviewStore):
         circuit_id = self.add_circuit(board_id, _raw(fields, "number"), _raw(fields, "description"))
         for name in CIRCUIT_FIELDS[2:]:
             raw = _raw(fields, name)
-            if name == "library_device_id" and raw.strip().isdigit():
+            if name == "library_device_id" and raw.strip().isascii() and raw.strip().isdigit():
                 raw = str(library_ids.get(int(raw), raw))
             self.set_circuit_field(circuit_id, name, raw)
 

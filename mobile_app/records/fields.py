@@ -145,7 +145,7 @@ def parse_field(kind: str, name: str, raw: str) -> Parsed:
     if name == "date":
         return _parse_date(raw)
     if name == "library_device_id":
-        if not text.isdigit():
+        if not (text.isascii() and text.isdigit()):
             return Parsed(raw, None, "must be the id of a device in the library")
         return Parsed(raw, int(text), None)
     return Parsed(raw, text, None)

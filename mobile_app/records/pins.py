@@ -21,7 +21,7 @@ _N, _R, _P, _KEY_BYTES = 2**14, 8, 1, 32
 
 def check_pin_format(pin: str) -> None:
     """Refuse a PIN that is not at least MIN_PIN_LENGTH digits."""
-    if not (isinstance(pin, str) and pin.isdigit() and len(pin) >= MIN_PIN_LENGTH):
+    if not (isinstance(pin, str) and pin.isascii() and pin.isdigit() and len(pin) >= MIN_PIN_LENGTH):
         raise PinError(f"a PIN must be at least {MIN_PIN_LENGTH} digits")
 
 
