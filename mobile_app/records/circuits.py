@@ -58,13 +58,11 @@ class CircuitStore(JobStore):
     def circuits(self, board_id: int) -> list[dict[str, Any]]:
         """A board's circuits in order: id, number, description, verdict, version."""
         self._row("board", board_id)
-        return list(
-            self._query(
-                "SELECT id, board_id, position, number_raw AS number,"
-                " description_raw AS description,"
-                " verdict, version FROM circuits WHERE board_id = ? ORDER BY position",
-                (board_id,),
-            )
+        return self._query(
+            "SELECT id, board_id, position, number_raw AS number,"
+            " description_raw AS description,"
+            " verdict, version FROM circuits WHERE board_id = ? ORDER BY position",
+            (board_id,),
         )
 
     def get_circuit(self, circuit_id: int) -> dict[str, Any]:

@@ -208,10 +208,8 @@ class StoreCore:
 
     def people(self) -> list[dict[str, Any]]:
         """Everyone known to the store: id, name, role and whether a PIN is set (never the hash)."""
-        return list(
-            self._query(
-                "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people ORDER BY name, id"
-            )
+        return self._query(
+            "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people ORDER BY name, id"
         )
 
     def _person(self, person_id: int) -> dict[str, Any]:

@@ -1,4 +1,5 @@
-"""Jobs, boards and circuits: per-field saves with raw text kept, row versions and reassessment."""
+"""Jobs and boards: per-field saves with the raw text kept, row versions, and reassessment of the
+circuits when a supply field changes."""
 
 from __future__ import annotations
 
@@ -44,7 +45,7 @@ def _as_text(raw: object) -> str:
 
 
 class JobStore(StoreCore):
-    """Jobs, boards and circuits on top of the store's foundation."""
+    """Jobs and boards on top of the store's foundation, with the helpers circuits share."""
 
     # shared helpers
     def _row(self, kind: str, item_id: int) -> dict[str, Any]:
@@ -108,7 +109,7 @@ class JobStore(StoreCore):
 
     def _reassess_board(self, conn: sqlite3.Connection, job: dict[str, Any], board: dict[str, Any]) -> None:
         """Reassess every circuit of a board."""
-        for circuit in list(self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))):
+        for circuit in self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],)):
             self._store_outcome(conn, circuit["id"], self._outcome(job, board, circuit))
 
     # jobs
@@ -155,22 +156,20 @@ class JobStore(StoreCore):
         `search` matches the client reference, site address or description.
         """
         pattern = "%" + search.replace("\\", "\\\\").replace("%", "\\%").replace("_", "\\_") + "%"
-        return list(
-            self._query(
-                "SELECT j.id, j.client_ref_raw AS client_ref, j.site_address_raw AS site_address,"
-                " j.date_raw AS date, j.status, j.revision, j.version, j.parent_job_id,"
-                " j.updated_at,"
-                " EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) AS superseded,"
-                " COUNT(c.id) AS circuits,"
-                " COALESCE(SUM(c.verdict = 'fail'), 0) AS failing,"
-                " COALESCE(SUM(c.verdict = 'incomplete'), 0) AS incomplete"
-                " FROM jobs j LEFT JOIN boards b ON b.job_id = j.id LEFT JOIN circuits c"
-                " ON c.board_id = b.id WHERE j.client_ref_raw LIKE :p ESCAPE '\\'"
-                " OR j.site_address_raw LIKE :p ESCAPE '\\'"
-                " OR j.description_raw LIKE :p ESCAPE '\\'"
-                " GROUP BY j.id ORDER BY j.updated_at DESC, j.id DESC",
-                {"p": pattern},
-            )
+        return self._query(
+            "SELECT j.id, j.client_ref_raw AS client_ref, j.site_address_raw AS site_address,"
+            " j.date_raw AS date, j.status, j.revision, j.version, j.parent_job_id,"
+            " j.updated_at,"
+            " EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) AS superseded,"
+            " COUNT(c.id) AS circuits,"
+            " COALESCE(SUM(c.verdict = 'fail'), 0) AS failing,"
+            " COALESCE(SUM(c.verdict = 'incomplete'), 0) AS incomplete"
+            " FROM jobs j LEFT JOIN boards b ON b.job_id = j.id LEFT JOIN circuits c"
+            " ON c.board_id = b.id WHERE j.client_ref_raw LIKE :p ESCAPE '\\'"
+            " OR j.site_address_raw LIKE :p ESCAPE '\\'"
+            " OR j.description_raw LIKE :p ESCAPE '\\'"
+            " GROUP BY j.id ORDER BY j.updated_at DESC, j.id DESC",
+            {"p": pattern},
         )
 
     def get_job(self, job_id: int) -> dict[str, Any]:

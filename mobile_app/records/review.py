@@ -138,7 +138,7 @@ class ReviewStore(CircuitStore):
                     "boards",
                     dict({k: v for k, v in board.items() if k != "id"}, job_id=new_id, version=1),
                 )
-                for circuit in list(self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],))):
+                for circuit in self._query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],)):
                     self._insert(
                         conn,
                         "circuits",
