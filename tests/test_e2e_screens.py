@@ -14,6 +14,7 @@ from test_e2e_walk import (
     CHROMIUM,
     free_port,
     open_app,
+    page_fixture,  # noqa: F401 - the phone-sized page fixture
     scroll_to,
     see,
     shot,
@@ -42,7 +43,6 @@ def demo_server(tmp_path: Path) -> Iterator[str]:
         stop_server(process)
 
 
-from test_e2e_walk import page as phone_page  # noqa: E402,F401 - the page fixture
 
 
 def test_demo_library_outbox_settings(demo_server: str, page) -> None:

@@ -94,8 +94,8 @@ def server(tmp_path: Path) -> Iterator[str]:
         stop_server(process)
 
 
-@pytest.fixture
-def page(tmp_path: Path) -> Iterator[object]:
+@pytest.fixture(name="page")
+def page_fixture() -> Iterator[object]:
     """A phone-sized Chromium page."""
     from playwright.sync_api import sync_playwright
 

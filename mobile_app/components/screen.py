@@ -29,7 +29,7 @@ def screen(
 ) -> ft.View:
     """A View: AppBar (back arrow when `back` is a route), the body in a column, tabs or a bottom bar."""
     leading = (
-        ft.IconButton(ft.Icons.ARROW_BACK, tooltip="Back", on_click=lambda _e: go(back), key="back")
+        ft.IconButton(ft.Icons.ARROW_BACK, tooltip="Up one level", on_click=lambda _e: go(back), key="up")
         if back
         else ft.Container(ft.Image(src="icons/icon-192.png", width=32, height=32), padding=12)
     )

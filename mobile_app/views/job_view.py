@@ -6,6 +6,7 @@ from typing import Any
 
 import flet as ft
 
+from mobile_app.components.cautions import cautions_box
 from mobile_app.components.choice_row import choice_row
 from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
@@ -92,6 +93,7 @@ def build(shell: Any, job_id: str) -> ft.View:
     body.extend(_input(job, field) for field in job.supply_fields())
     body.append(ft.Text("Job details", size=20, weight=ft.FontWeight.BOLD))
     body.extend(_input(job, field) for field in job.header_fields())
+    body.append(cautions_box())
     review = ft.FilledButton("Review", icon=ft.Icons.RATE_REVIEW, height=48, key="open-review",
                              on_click=lambda _e: shell.go(f"/job/{job.job_id}/review"))
     return screen(f"/job/{job_id}", job.title, body, shell.go, back="/", bottom=review)

@@ -6,17 +6,19 @@ from typing import Any
 
 import flet as ft
 
+from mobile_app.components.cautions import cautions_box
 from mobile_app.components.choice_row import choice_row
 from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
 from mobile_app.components.verdict_badge import verdict_badge
 from mobile_app.state.fields import STEP_TITLES, STEPS
+from mobile_app.state.jobs import JobScreen
 from mobile_app.state.text import verdict_mark
 from mobile_app.state.walk import FieldView, Walk
 from mobile_app.views import results_panel_view
 
 
-def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any) -> ft.Control:
+def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: bool) -> ft.Control:
     name = view.spec.name
     if view.spec.kind == "choice":
 
@@ -28,7 +30,7 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any) -> ft.Contr
                 on_saved()
 
         return choice_row(f"field-{name}", view.spec.label, view.choices, view.raw, picked,
-                          message=view.message)
+                          message=view.message, disabled=locked)
 
     def changed(text: str) -> tuple[str, str | None]:
         saved = walk.set_field(name, text)
@@ -38,7 +40,7 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any) -> ft.Contr
     return text_input(
         f"field-{name}", view.spec.label, view.raw, changed,
         numeric=view.spec.kind == "number", hint=view.spec.hint, helper=view.parsed_text,
-        error=view.message,
+        error=view.message, read_only=locked,
     )
 
 
@@ -49,6 +51,7 @@ def _step_specs(walk: Walk) -> list[Any]:
 def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
     """The walk screen for `step` of a circuit."""
     walk = shell.walk(int(circuit_id), step if step in STEPS else "device")
+    locked = JobScreen(shell.store, int(job_id)).read_only
     base = f"/job/{job_id}/circuit/{circuit_id}"
     progress = ft.Column(
         [
@@ -93,9 +96,12 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
         nxt = ft.FilledButton("Back to job", icon=ft.Icons.LIST, height=52, expand=True,
                               key="walk-done", on_click=lambda _e: shell.go(f"/job/{job_id}"))
     else:
-        body.extend(_field(walk, view, saved, shell.render) for view in walk.fields())
+        if locked:
+            body.append(ft.Text("This job is locked while in review or approved: readings are shown, "
+                                "not changed.", size=14, key="walk-locked"))
+        body.extend(_field(walk, view, saved, shell.render, locked) for view in walk.fields())
         body.append(blockers)
         if walk.step == "readings":
-            body.append(live)
+            body += [live, cautions_box()]
     bar = ft.Row([back, nxt], spacing=12)
     return screen(f"{base}/{walk.step}", walk.title, body, shell.go, back=f"/job/{job_id}", bottom=bar)
