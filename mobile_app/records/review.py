@@ -80,30 +80,32 @@ class ReviewStore(CircuitStore):
         if person["locked_until"] is not None and person["locked_until"] > now:
             raise LockedOutError(person["locked_until"] - now)
         if not pins.pin_matches(pin, person["pin_hash"]):
-            self._wrong_pin(job_id, person, now)
+            self._wrong_pin(job_id, supervisor_id, now)
         with self._write() as conn:
             conn.execute(
                 "UPDATE people SET failed_pins = 0, locked_until = NULL WHERE id = ?",
                 (supervisor_id,),
             )
-        self._set_status(
-            job_id,
-            "submitted",
-            "approved",
-            supervisor_id,
-            {"approved_by": supervisor_id, "approved_at": now_iso()},
-        )
+            self._set_status(
+                job_id,
+                "submitted",
+                "approved",
+                supervisor_id,
+                {"approved_by": supervisor_id, "approved_at": now_iso()},
+            )
 
-    def _wrong_pin(self, job_id: int, person: dict[str, Any], now: float) -> None:
+    def _wrong_pin(self, job_id: int, person_id: int, now: float) -> None:
         """Count a wrong PIN (committed), lock the person out after too many, and raise."""
-        failed = person["failed_pins"] + 1
-        locked_until = now + pins.LOCKOUT_S if failed >= pins.MAX_WRONG_PINS else None
         with self._write() as conn:
+            failed = (
+                conn.execute("SELECT failed_pins FROM people WHERE id = ?", (person_id,)).fetchone()[0] + 1
+            )
+            locked_until = now + pins.LOCKOUT_S if failed >= pins.MAX_WRONG_PINS else None
             conn.execute(
                 "UPDATE people SET failed_pins = ?, locked_until = ? WHERE id = ?",
-                (0 if locked_until else failed, locked_until, person["id"]),
+                (0 if locked_until else failed, locked_until, person_id),
             )
-            self._audit(conn, job_id, person["id"], "review", job_id, "pin", None, "wrong PIN")
+            self._audit(conn, job_id, person_id, "review", job_id, "pin", None, "wrong PIN")
         if locked_until is not None:
             raise LockedOutError(pins.LOCKOUT_S)
         raise PinError("wrong PIN", pins.MAX_WRONG_PINS - failed)
