@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 import json
+from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from mobile_app.records import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Store
@@ -51,15 +52,16 @@ texts = st.one_of(st.sampled_from(ODD), st.text(max_size=60))
 
 
 @pytest.fixture(scope="module")
-def shared(tmp_path_factory: pytest.TempPathFactory) -> Store:
+def shared(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Store]:
     """One store with a job, a board and a circuit, shared by the property tests."""
     store = Store.open(tmp_path_factory.mktemp("roundtrip"))
     job_id = store.create_job({"client_ref": "RT"})
     store.add_circuit(store.add_board(job_id, "DB1"), "1")
-    return store
+    yield store
+    store.close()
 
 
-@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=60, deadline=None)
 @given(name=fields, raw=texts)
 def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: str, raw: str) -> None:
     saved = shared.set_circuit_field(1, name, raw)
@@ -71,7 +73,7 @@ def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: s
         assert stored["error"]
 
 
-@settings(max_examples=25, deadline=None, suppress_health_check=[HealthCheck.function_scoped_fixture])
+@settings(max_examples=25, deadline=None)
 @given(
     job=st.fixed_dictionaries({n: texts for n in JOB_FIELDS}), board=st.sampled_from(BOARD_FIELDS), raw=texts
 )
