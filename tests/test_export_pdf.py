@@ -138,6 +138,18 @@ def test_a_draft_says_it_is_not_approved() -> None:
     assert "page 1 of" in flat
 
 
+def test_why_a_circuit_was_not_assessed_is_printed() -> None:
+    circuits = [{"number": "1", "description": "A", "verdict": "incomplete", "fields": {},
+                 "assessment": None, "assessment_error": "invalid entries: job.pfc"},
+                {"number": "2", "description": "B", "verdict": None, "fields": {}, "assessment": None}]
+    doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 8, "fields": {}},
+           "boards": [{"designation": "DB-E", "circuits": circuits}]}
+    flat = _squash("\n".join(p.extract_text() for p in PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages))
+    assert "Not assessed: invalid entries: job.pfc." in flat
+    assert "Not assessed: readings or circuit details are missing." in flat
+    assert "Verdict: NOT ASSESSED" in flat
+
+
 def test_long_unbroken_text_is_wrapped_not_lost() -> None:
     long_word = "A" * 300
     circuit = {"number": "1", "description": long_word, "verdict": None, "fields": {}}

@@ -254,7 +254,8 @@ def _working(pdf: FPDF, board: dict[str, Any], circuit: dict[str, Any]) -> None:
     steps = (circuit.get("assessment") or {}).get("steps") or []
     use_font(pdf, "", 8.5)
     if not steps:
-        paragraph(pdf, 4, "Not assessed: readings or circuit details are missing.")
+        reason = _one_line(circuit.get("assessment_error")) or "readings or circuit details are missing"
+        paragraph(pdf, 4, f"Not assessed: {reason}.")
     for step in steps:
         _step_lines(pdf, step)
     problems = [f"{name} “{_one_line(f.get('raw'))}”: {_one_line(f['error'])}"
