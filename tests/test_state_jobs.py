@@ -107,3 +107,19 @@ def test_demo_only_when_empty_and_found_again(store) -> None:
     assert first is not None
     assert demo_if_empty(store) is None
     assert ensure_demo(store) == first
+
+
+def test_settings_check_supply_defaults(store) -> None:
+    settings = SettingsState(store)
+    view = settings.set("default_u0", "230 banana")
+    assert view.message is not None and view.message.startswith("U0: ")
+    assert settings.set("default_u0", "240 V").message is None
+    assert settings.job_defaults()["u0"] == "240 V"
+
+
+def test_library_rows_list_saved_curves(store) -> None:
+    from mobile_app.state.library import library_rows
+
+    store.add_library_device("MCCB 250", [(500.0, 20.0), (3000.0, 0.02)], rating_a=250.0)
+    (row,) = library_rows(store)
+    assert (row.name, row.detail) == ("MCCB 250", "2 points · In 250 A")

@@ -127,3 +127,13 @@ def test_second_circuit_copies_the_first_ones_device(store) -> None:
     assert walk.raw("device_rating") == "32"
     assert walk.raw("zs") == ""
     assert walk.title.startswith("Circuit 2 ")
+
+
+def test_progress_and_neighbours(store) -> None:
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id, step="conductors")
+    assert walk.progress_text == "Step 2 of 4 · Conductors"
+    assert walk.progress == 0.5
+    assert (walk.previous_step, walk.next_step) == ("device", "readings")
+    walk.step = "results"
+    assert walk.next_step is None and not walk.can_next()

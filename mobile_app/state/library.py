@@ -8,6 +8,7 @@ from typing import Any
 import calc
 from mobile_app.records import StoreError
 from mobile_app.state.chart import ChartModel, chart_for
+from mobile_app.state.text import format_quantity
 
 MIN_POINTS = 2
 
@@ -43,6 +44,10 @@ class CurveDraft:
             except calc.InputError as exc:
                 error = f"{column.capitalize()}: {exc.problem}"
         setattr(row, f"{column}_error", error)
+
+    def numbered_rows(self) -> list[tuple[int, str, PointRow]]:
+        """(index, number as shown, row) for each point."""
+        return [(index, str(index + 1), row) for index, row in enumerate(self.rows)]
 
     def add_row(self) -> None:
         """One more empty point."""
@@ -103,6 +108,27 @@ class CurveDraft:
             return None
         self.message = f"Saved {self.name.strip()} to the library"
         return device_id
+
+
+@dataclass(frozen=True)
+class LibraryRow:
+    """One saved curve as listed: its name and `6 points · In 100 A`."""
+
+    id: int
+    name: str
+    detail: str
+
+
+def library_rows(store: Any) -> list[LibraryRow]:
+    """The device library as listed on its screen."""
+    return [
+        LibraryRow(
+            id=int(d["id"]),
+            name=str(d["name"]),
+            detail=f"{len(d.get('points') or [])} points · In {format_quantity(d.get('rating_a'), 'A')}",
+        )
+        for d in store.library_devices()
+    ]
 
 
 def _curve_message(exc: calc.InputError) -> str:

@@ -10,6 +10,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
+import calc
 from mobile_app.records import StoreError
 
 DEFAULTS: dict[str, str] = {
@@ -78,6 +79,12 @@ class SettingsState:
             raise SettingsError("final-circuit scope must be 32 or 63 A")
         if key == "theme" and value.strip() not in THEMES:
             raise SettingsError("theme must be system, light or dark")
+        if key in ("default_u0", "default_cmin"):
+            path = "supply.u0" if key == "default_u0" else "supply.cmin"
+            try:
+                calc.parse_value(path, value)
+            except calc.InputError as exc:
+                raise SettingsError(f"{'U0' if key == 'default_u0' else 'Cmin'}: {exc.problem}") from None
         url = value.strip()
         if key == "sync_url" and url and not url.startswith(("https://", "http://")):
             raise SettingsError("the office folder address must start with https://")

@@ -74,6 +74,28 @@ class Walk:
         """1-based position of the current step."""
         return STEPS.index(self.step) + 1
 
+    @property
+    def progress(self) -> float:
+        """Share of the walk reached, 0–1, for the progress bar."""
+        return self.step_number / len(STEPS)
+
+    @property
+    def progress_text(self) -> str:
+        """`Step 3 of 4 · Readings`."""
+        return f"Step {self.step_number} of {len(STEPS)} · {STEP_TITLES[self.step]}"
+
+    @property
+    def previous_step(self) -> str | None:
+        """The step before this one, or None on the first."""
+        index = STEPS.index(self.step)
+        return STEPS[index - 1] if index > 0 else None
+
+    @property
+    def next_step(self) -> str | None:
+        """The step after this one, or None on the last."""
+        index = STEPS.index(self.step)
+        return STEPS[index + 1] if index + 1 < len(STEPS) else None
+
     def raw(self, name: str) -> str:
         """The text of a field as last typed (kept even when the save failed)."""
         if name in self._typed:

@@ -8,8 +8,7 @@ import flet as ft
 
 from mobile_app.components.screen import screen
 from mobile_app.components.tc_chart import tc_chart
-from mobile_app.state.library import CurveDraft
-from mobile_app.state.text import format_quantity
+from mobile_app.state.library import CurveDraft, library_rows
 
 
 def build(shell: Any) -> ft.View:
@@ -43,11 +42,11 @@ def build(shell: Any) -> ft.View:
     def fill_rows() -> None:
         rows.controls = [
             ft.Row([
-                ft.Text(str(i + 1), size=16, width=20),
+                ft.Text(number, size=16, width=20),
                 cell(i, "current", "Current", r.current, r.current_error),
                 cell(i, "time", "Time", r.time, r.time_error),
             ], spacing=8)
-            for i, r in enumerate(draft.rows)
+            for i, number, r in draft.numbered_rows()
         ]
 
     def add_point(_e: Any) -> None:
@@ -74,13 +73,9 @@ def build(shell: Any) -> ft.View:
     fill_rows()
     refresh()
     saved = [
-        ft.ListTile(
-            leading=ft.Icon(ft.Icons.SHOW_CHART),
-            title=ft.Text(d["name"], size=16),
-            subtitle=ft.Text(f"{len(d.get('points') or [])} points · In "
-                             f"{format_quantity(d.get('rating_a'), 'A')}"),
-        )
-        for d in shell.store.library_devices()
+        ft.ListTile(leading=ft.Icon(ft.Icons.SHOW_CHART), title=ft.Text(row.name, size=16),
+                    subtitle=ft.Text(row.detail))
+        for row in library_rows(shell.store)
     ] or [ft.Text("No curves saved yet.", size=14)]
     body: list[ft.Control] = [
         ft.Text("Saved curves", size=20, weight=ft.FontWeight.BOLD),

@@ -11,7 +11,7 @@ from mobile_app.components.choice_row import choice_row
 from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
 from mobile_app.components.verdict_badge import verdict_badge
-from mobile_app.state.fields import STEP_TITLES, STEPS
+from mobile_app.state.fields import STEPS
 from mobile_app.state.jobs import JobScreen
 from mobile_app.state.text import verdict_mark
 from mobile_app.state.walk import FieldView, Walk
@@ -55,8 +55,8 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
     base = f"/job/{job_id}/circuit/{circuit_id}"
     progress = ft.Column(
         [
-            ft.Text(f"Step {walk.step_number} of {len(STEPS)} · {STEP_TITLES[walk.step]}", size=14),
-            ft.ProgressBar(value=walk.step_number / len(STEPS), height=6),
+            ft.Text(walk.progress_text, size=14),
+            ft.ProgressBar(value=walk.progress, height=6),
         ],
         spacing=4,
     )
@@ -64,7 +64,7 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
     live = ft.Row(spacing=8, key="live-verdict")
     back = ft.OutlinedButton("Back", icon=ft.Icons.ARROW_BACK, height=52, expand=True, key="walk-back",
                              disabled=not walk.can_back(),
-                             on_click=lambda _e: shell.go(f"{base}/{STEPS[STEPS.index(walk.step) - 1]}"))
+                             on_click=lambda _e: shell.go(f"{base}/{walk.previous_step}"))
     nxt = ft.FilledButton("Next", icon=ft.Icons.ARROW_FORWARD, height=52, expand=True, key="walk-next")
 
     def refresh_controls() -> None:
@@ -84,7 +84,7 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
 
     def go_next(_e: Any) -> None:
         if walk.can_next():
-            shell.go(f"{base}/{STEPS[STEPS.index(walk.step) + 1]}")
+            shell.go(f"{base}/{walk.next_step}")
         else:
             saved()
 
