@@ -37,12 +37,21 @@ Public surface (the store API agreed with the app, export and sync; additions ma
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
 ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (*added*: the folder
-cannot be opened), MigrationError, StoreTooNewError.
+cannot be opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or
+curve), DocumentError (an import that is not a boardside-job document).
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
+
+Settings read by the store: "default_system", "default_u0" (text, "230 V"), "default_cmin"
+("0.95") fill a new job's blank supply fields; "final_circuit_max_a" goes to calc as
+settings.final_circuit_max_a. Returned rows carry a little more than agreed: people() has has_pin;
+list_jobs() has version, parent_job_id, superseded (a newer revision exists) and updated_at;
+audit() rows are id, when, who, person_id, entity, entity_id, field, what, old, new.
 """
 
 from mobile_app.records.errors import (
     ConflictError,
+    DocumentError,
+    InvalidValueError,
     LockedOutError,
     MigrationError,
     NotFoundError,
@@ -65,6 +74,8 @@ __all__ = [
     "CIRCUIT_FIELDS",
     "JOB_FIELDS",
     "ConflictError",
+    "DocumentError",
+    "InvalidValueError",
     "LockedOutError",
     "MigrationError",
     "MovedAside",
