@@ -203,3 +203,22 @@ def test_moving_aside_twice_in_a_second_keeps_both_files(tmp_path: Path) -> None
         Store.open(tmp_path).close()
     kept = sorted(p.read_bytes() for p in tmp_path.glob("boardside-unusable-*.sqlite"))
     assert kept == [b"first", b"second"]
+
+
+def test_a_truncated_store_is_moved_aside(tmp_path: Path) -> None:
+    with Store.open(tmp_path) as store:
+        create_demo_job(store)
+    path = tmp_path / STORE_FILE
+    half = path.read_bytes()[: path.stat().st_size // 2]
+    path.write_bytes(half)
+    with Store.open(tmp_path) as store:
+        assert store.recovered is not None
+        assert store.recovered.reason == "unreadable: database disk image is malformed"
+        assert store.recovered.moved_to.read_bytes() == half
+
+
+def test_an_empty_file_is_simply_a_new_store(tmp_path: Path) -> None:
+    (tmp_path / STORE_FILE).write_bytes(b"")
+    with Store.open(tmp_path) as store:
+        assert store.recovered is None
+        assert store.db.conn.execute("PRAGMA user_version").fetchone() == (SCHEMA_VERSION,)
