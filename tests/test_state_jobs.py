@@ -123,3 +123,22 @@ def test_library_rows_list_saved_curves(store) -> None:
     store.add_library_device("MCCB 250", [(500.0, 20.0), (3000.0, 0.02)], rating_a=250.0)
     (row,) = library_rows(store)
     assert (row.name, row.detail) == ("MCCB 250", "2 points · In 250 A")
+
+
+def test_returned_comment_and_new_revision(store) -> None:
+    job_id = JobsList(store).new_job("Revision test")
+    review = ReviewState(store, job_id)
+    review.add_supervisor("Ann", "135790")
+    review.submit("Sam")
+    review.return_to_draft("Ann", "Add R1+R2 on circuit 2")
+    assert review.comment == "Add R1+R2 on circuit 2"
+    review.submit("Sam")
+    review.approve("Ann", "000000")
+    review.approve("Ann", "135790")
+    assert any("PIN refused · Ann" in line for line in review.history())
+    outcome, new_id = review.open_revision("  ", "Sam")
+    assert not outcome.ok and new_id is None
+    outcome, new_id = review.open_revision("Circuit 4 replaced", "Sam")
+    assert outcome.ok and new_id is not None
+    assert ReviewState(store, new_id).status == "draft"
+    assert ReviewState(store, job_id).status == "approved"

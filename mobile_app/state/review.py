@@ -34,6 +34,22 @@ class ReviewState:
         """The status as shown."""
         return status_word(self.status)
 
+    @property
+    def comment(self) -> str | None:
+        """The reviewer's comment when the job was returned to draft, if any."""
+        job = self.store.get_job(self.job_id)
+        return job.get("review_comment") if job.get("status") == "draft" else None
+
+    def open_revision(self, reason: str, by_name: str) -> tuple[Outcome, int | None]:
+        """Open a new draft revision of an approved job; returns the outcome and the new job id."""
+        if not reason.strip():
+            return Outcome(False, "Say why the approved job needs a new revision"), None
+        try:
+            new_id = int(self.store.open_revision(self.job_id, reason.strip(), self.recorder(by_name)))
+        except StoreError as exc:
+            return Outcome(False, f"No new revision: {exc}"), None
+        return Outcome(True, "New revision opened as a draft"), new_id
+
     def supervisors(self) -> list[dict[str, Any]]:
         """People who may approve."""
         return [p for p in self.store.people() if p.get("role") == "supervisor"]
@@ -106,6 +122,8 @@ class ReviewState:
         for entry in self.store.audit(self.job_id):
             if entry.get("entity") == "review" and entry.get("field") == "status":
                 what = f"{status_word(entry.get('new'))} (was {status_word(entry.get('old'))})"
+            elif entry.get("entity") == "review" and entry.get("field") == "pin":
+                what = "PIN refused"
             elif entry.get("entity") == "review":
                 what = f"{entry.get('field') or 'review'}: {entry.get('new')}"
             elif entry.get("entity") == "job" and entry.get("new") == "created":

@@ -31,6 +31,10 @@ def build(shell: Any, job_id: str) -> ft.View:
     ]
     if status == "draft":
         recorder = ft.TextField(key="recorder-name", label="Recorded by (your name)")
+        if review.comment:
+            body.append(ft.Container(
+                ft.Text(f"Returned with comment: {review.comment}", size=15, key="review-comment"),
+                padding=12, border=ft.Border.all(2, ft.Colors.ERROR), border_radius=8))
         body += [
             ft.Text("When every circuit is walked, submit the job for a supervisor's review.", size=15),
             recorder,
@@ -46,6 +50,17 @@ def build(shell: Any, job_id: str) -> ft.View:
             shell.page.run_thread(lambda: show(Outcome(True, OutboxState(shell.store).export_job(
                 int(job_id)))))
 
+        reason = ft.TextField(key="revision-reason", label="Reason for a new revision")
+        by_name = ft.TextField(key="revision-by", label="Your name")
+
+        def revise(_e: Any) -> None:
+            outcome, new_id = review.open_revision(reason.value or "", by_name.value or "")
+            if new_id is None:
+                show(outcome)
+            else:
+                shell.toast(outcome.message)
+                shell.go(f"/job/{new_id}")
+
         body += [
             ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28), ft.Text("Approved and locked.", size=16)]),
             ft.Row([
@@ -53,6 +68,12 @@ def build(shell: Any, job_id: str) -> ft.View:
                                 key="export-job", on_click=export),
                 busy,
             ], spacing=12),
+            ft.Text("To change an approved job, open a new revision; this one stays as approved.",
+                    size=14),
+            reason,
+            by_name,
+            ft.OutlinedButton("Open new revision", icon=ft.Icons.EDIT_NOTE, height=48,
+                              key="open-revision", on_click=revise),
         ]
     else:
         supervisor = ft.TextField(key="supervisor-name", label="Supervisor name")

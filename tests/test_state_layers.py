@@ -1,0 +1,40 @@
+"""The app's own layer rules, read from the source: state is plain Python, screens stay thin."""
+
+from __future__ import annotations
+
+import ast
+from pathlib import Path
+
+APP = Path(__file__).resolve().parents[1] / "mobile_app"
+
+
+def top_imports(path: Path) -> set[str]:
+    """Dotted module names a file imports (absolute imports only)."""
+    names: set[str] = set()
+    for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+        if isinstance(node, ast.Import):
+            names.update(alias.name for alias in node.names)
+        elif isinstance(node, ast.ImportFrom) and node.module and node.level == 0:
+            names.add(node.module)
+    return names
+
+
+def test_state_never_imports_flet() -> None:
+    for path in (APP / "state").rglob("*.py"):
+        assert not {n.split(".")[0] for n in top_imports(path)} & {"flet", "flet_charts"}, path
+
+
+def test_screens_never_touch_storage_directly() -> None:
+    for folder in ("views", "components"):
+        for path in (APP / folder).rglob("*.py"):
+            names = top_imports(path)
+            assert not {n.split(".")[0] for n in names} & {"sqlite3", "sqlite_utils"}, path
+            assert not any(n.startswith("mobile_app.records") for n in names), path
+            assert "calc" not in {n.split(".")[0] for n in names}, path
+
+
+def test_one_build_function_per_view_module() -> None:
+    for path in (APP / "views").glob("*_view.py"):
+        tree = ast.parse(path.read_text(encoding="utf-8"))
+        public = [n.name for n in tree.body if isinstance(n, ast.FunctionDef) and not n.name.startswith("_")]
+        assert public in (["build"], ["controls"]), (path, public)
