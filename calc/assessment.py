@@ -174,7 +174,7 @@ def assess_input(inp: CircuitInput) -> Assessment:
     steps += m_steps
     k_l, k_p, k_steps = k_values(inp)
     steps += k_steps
-    line, line_steps = line_withstand(inp, device, k_l, isc_a, if_a)
+    line, line_steps = line_withstand(inp, device, k_l, isc_a, if_a, rcd_time)
     steps += line_steps
     cpc, cpc_steps = protective_conductor(inp, k_l, k_p, if_a, disc_time, op)
     steps += cpc_steps

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-from calc.devices import BEYOND_CURVE, Device, OperatingTime
+from calc.devices import BEYOND_CURVE, UPPER_BOUND, Device, OperatingTime
 from calc.errors import InputError
 from calc.formulas import (
     adiabatic_energy_limit_a2s,
@@ -78,9 +78,18 @@ class LineWithstand:
 
 
 def line_withstand(
-    inp: CircuitInput, device: Device, k: KValue, isc_a: float | None, if_a: float | None
+    inp: CircuitInput,
+    device: Device,
+    k: KValue,
+    isc_a: float | None,
+    if_a: float | None,
+    rcd_time_s: float | None = None,
 ) -> tuple[LineWithstand, list[StepThunk]]:
-    """Line conductor withstand, t = (kS/I)² against the device time (IEC 60364-4-43 434.5.2)."""
+    """Line conductor withstand, t = (kS/I)² against the device time (IEC 60364-4-43 434.5.2).
+
+    Checked at Isc when Zsc was measured; otherwise at the earth fault current If, which an RCD also
+    clears, so there the faster of the device and the RCD counts.
+    """
     current = isc_a if isc_a is not None else if_a
     symbol = "Isc" if isc_a is not None else "If"
     s = inp.line.csa_mm2
@@ -100,6 +109,8 @@ def line_withstand(
             )
         ]
     op = device.time_at(current)
+    if isc_a is None and rcd_time_s is not None and (op.time_s is None or rcd_time_s < op.time_s):
+        op = OperatingTime(rcd_time_s, UPPER_BOUND, "the earth fault is cleared by the RCD first")
     op_time = op.time_s
     note_current = "" if isc_a is not None else "Zsc not measured: checked at the earth fault current; "
     withstand = adiabatic_withstand_time_s(k.k, s, current)

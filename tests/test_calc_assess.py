@@ -232,3 +232,15 @@ def test_error_message_text():
             }
         )
     assert str(info.value) == "measured.zs: must be greater than zero"
+
+
+def test_tt_without_zsc_line_check_counts_the_rcd(circuit):
+    # An earth fault on a TT circuit is cleared by the RCD (IEC 60364-4-41 411.5.3): with no Zsc the
+    # line conductor is checked at If against the RCD's break time (IEC 61008-1 Table 1, from memory).
+    circuit["supply"]["system"] = "TT"
+    circuit["circuit"]["rcd"] = {"idn": 0.03, "type": "general"}
+    circuit["measured"] = {"zs": 120}
+    result = assess(circuit)
+    assert result.short_circuit_current_a is None
+    assert result.line_withstand_ok is True
+    assert result.verdict == "pass"
