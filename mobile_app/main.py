@@ -13,7 +13,7 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.palette import dark_theme, light_theme, theme_mode
-from mobile_app.records import Store
+from mobile_app.records import NotFoundError, Store
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
 
@@ -68,7 +68,11 @@ class Shell:
         Each build gets a fresh View key, so Flet adds the new tree instead of diffing it against the
         old one by control keys (a keyed diff would freeze the new controls and refuse later updates).
         """
-        view = route_view(self, self.page.route or "/")
+        try:
+            view = route_view(self, self.page.route or "/")
+        except NotFoundError as exc:
+            self.toast(f"Not found: {exc}")
+            view = route_view(self, "/")
         self._renders += 1
         view.key = f"view-{self._renders}"
         self.page.views.clear()
@@ -117,6 +121,7 @@ def make_main(data_dir: Path | None) -> Callable[[ft.Page], None]:
         page.title = "Boardside"
         page.theme = light_theme()
         page.dark_theme = dark_theme()
+        page.theme_animation_style = ft.AnimationStyle.no_animation()
         shell = Shell(page, Store.open(data_dir))
         shell.apply_theme()
         page.on_route_change = lambda _e: shell.render()

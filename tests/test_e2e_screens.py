@@ -103,3 +103,11 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     open_app(page, url)
     see(page, "At least one check fails")
     shot(page, "27-results-dark")
+
+    page.set_viewport_size({"width": 1024, "height": 768})
+    open_app(page, url)
+    see(page, "At least one check fails")
+    shot(page, "28-results-tablet")
+    open_app(page, demo_server + "/job/999")
+    see(page, "no job with id 999")
+    shot(page, "29-not-found")

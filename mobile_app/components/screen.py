@@ -27,7 +27,8 @@ def screen(
     actions: list[ft.Control] | None = None,
     bottom: ft.Control | None = None,
 ) -> ft.View:
-    """A View: AppBar (back arrow when `back` is a route), the body in a column, tabs or a bottom bar."""
+    """A View: AppBar (up arrow when `back` is a route), the body in a column (narrower on wide
+    screens), tabs or a bottom bar."""
     leading = (
         ft.IconButton(ft.Icons.ARROW_BACK, tooltip="Up one level", on_click=lambda _e: go(back), key="up")
         if back
@@ -56,7 +57,17 @@ def screen(
         controls=[
             ft.SafeArea(
                 ft.Container(
-                    ft.Column(body, spacing=14, horizontal_alignment=ft.CrossAxisAlignment.STRETCH),
+                    ft.ResponsiveRow(
+                        [
+                            ft.Column(
+                                body,
+                                spacing=14,
+                                horizontal_alignment=ft.CrossAxisAlignment.STRETCH,
+                                col={"xs": 12, "md": 10, "lg": 8, "xl": 6},
+                            )
+                        ],
+                        alignment=ft.MainAxisAlignment.CENTER,
+                    ),
                     padding=ft.Padding.symmetric(horizontal=16, vertical=12),
                 ),
             )
