@@ -137,3 +137,26 @@ def test_progress_and_neighbours(store) -> None:
     assert (walk.previous_step, walk.next_step) == ("device", "readings")
     walk.step = "results"
     assert walk.next_step is None and not walk.can_next()
+
+
+def test_device_from_the_library(store) -> None:
+    curve_id = store.add_library_device("MCCB 100", [(130.0, 3000.0), (600.0, 0.04), (2000.0, 0.02)],
+                                        rating_a=100.0)
+    _job, circuit_id = new_circuit(store)
+    walk = Walk(store, circuit_id)
+    walk.set_field("device_kind", "curve")
+    library = walk.field("library_device_id")
+    assert [(c.value, c.label) for c in library.choices] == [(str(curve_id), "MCCB 100")]
+    assert "Library device is needed" in walk.missing()
+    walk.set_field("library_device_id", str(curve_id))
+    walk.set_field("device_rating", "100")
+    assert walk.can_next()
+    walk.step = "conductors"
+    walk.set_field("line_csa", "25")
+    walk.set_field("cpc_csa", "16")
+    walk.step = "readings"
+    walk.set_field("zs", "0.2")
+    panel = walk.results()
+    assert panel.verdict in {"pass", "fail"}
+    assert panel.chart is not None
+    assert any(s.role == "device" for s in panel.chart.series)
