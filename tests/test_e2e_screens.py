@@ -15,7 +15,7 @@ from test_e2e_walk import (
     free_port,
     open_app,
     page_fixture,  # noqa: F401 - the phone-sized page fixture
-    scroll_to,
+    scroll,
     see,
     shot,
     start_server,
@@ -67,7 +67,6 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     open_app(page, demo_server + "/library")
     see(page, "Saved curves")
     type_into(page, "Name (maker, type, rating)", "Test breaker 250 A")
-    scroll_to(page, "Add point")
     fields = page.get_by_label("Current", exact=True)
     times = page.get_by_label("Time", exact=True)
     for index, (current, time) in enumerate((("500", "20 s"), ("1 kA", "40 s"), ("3 kA", "20 ms"))):
@@ -84,7 +83,7 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     page.keyboard.press("Control+A")
     page.keyboard.type("2 s")
     see(page, "Curve accepted")
-    scroll_to(page, "Save curve")
+    scroll(page, 500)
     shot(page, "24-library-preview")
     tap(page, "Save curve")
     see(page, "Test breaker 250 A")

@@ -146,17 +146,9 @@ def scroll(page, pixels: int) -> None:
     page.wait_for_timeout(300)
 
 
-def scroll_to(page, text: str, step_px: int = 350, tries: int = 20) -> None:
-    """Scroll down until a text is on screen (Flutter only exposes what is visible)."""
-    target = page.get_by_text(text, exact=False).first
-    for _ in range(tries):
-        if target.is_visible():
-            return
-        scroll(page, step_px)
-    target.wait_for(timeout=2000)
-
-
 def test_walk_reload_and_approve(server: str, page) -> None:
+    from playwright.sync_api import expect
+
     open_app(page, server + "/")
     see(page, "No jobs yet")
     shot(page, "01-jobs-empty")
@@ -198,12 +190,13 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     see(page, "PASS")
     see(page, "All checks pass")
     shot(page, "08-results-top")
-    scroll_to(page, "Current (A)")
+    see(page, "If = 230 × 0.95 / 0.62")
+    scroll(page, 450)
     shot(page, "09-results-chart")
-    scroll_to(page, "If = 230 × 0.95 / 0.62")
+    scroll(page, 600)
     shot(page, "10-results-working")
-    scroll_to(page, "Cautions")
-    scroll(page, 400)
+    see(page, "Cautions")
+    scroll(page, 6000)
     shot(page, "11-results-cautions")
 
     page.reload()
@@ -215,7 +208,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     see(page, "= 0.62 Ω")
     zs_field = page.get_by_label("Zs", exact=True)
     zs_field.click()
-    assert zs_field.input_value() == "620 mΩ"
+    expect(zs_field).to_have_value("620 mΩ", timeout=5000)
     shot(page, "12-after-reload-readings")
     open_app(page, server + "/")
     see(page, "E2E-001 Mill Lane")

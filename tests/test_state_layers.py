@@ -38,3 +38,21 @@ def test_one_build_function_per_view_module() -> None:
         tree = ast.parse(path.read_text(encoding="utf-8"))
         public = [n.name for n in tree.body if isinstance(n, ast.FunctionDef) and not n.name.startswith("_")]
         assert public in (["build"], ["controls"]), (path, public)
+
+
+def test_main_runs_nothing_at_import_and_serves_only_from_serve() -> None:
+    import inspect
+
+    from mobile_app import main
+
+    assert list(inspect.signature(main.serve).parameters) == ["port", "data_dir", "demo"]
+    tree = ast.parse((APP / "main.py").read_text(encoding="utf-8"))
+    callers = [
+        fn.name
+        for fn in ast.walk(tree)
+        if isinstance(fn, ast.FunctionDef)
+        for call in ast.walk(fn)
+        if isinstance(call, ast.Call) and ast.unparse(call.func) == "ft.run"
+    ]
+    assert callers == ["serve"]
+    assert (main.ASSETS_DIR / "manifest.json").is_file()
