@@ -12,7 +12,7 @@ from typing import Any
 
 import flet as ft
 
-from mobile_app.components.palette import dark_theme, light_theme, theme_mode
+from mobile_app.components.palette import app_theme, theme_mode
 from mobile_app.records import NotFoundError, Store
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
@@ -119,8 +119,8 @@ def make_main(data_dir: Path | None) -> Callable[[ft.Page], None]:
 
     def main(page: ft.Page) -> None:
         page.title = "Boardside"
-        page.theme = light_theme()
-        page.dark_theme = dark_theme()
+        page.theme = app_theme()
+        page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
         shell = Shell(page, Store.open(data_dir))
         shell.apply_theme()

@@ -163,6 +163,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
 
     tap(page, "Add circuit")
     see(page, "Step 1 of 4")
+    type_into(page, "Description", "Kitchen sockets")
     tap(page, "B")
     type_into(page, "Rating In", "32 A")
     see(page, "= 32.0 A")
@@ -215,7 +216,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     shot(page, "13-jobs-list")
     page.get_by_text("E2E-001 Mill Lane").first.click()
     see(page, "Status: Draft")
-    page.get_by_role("button", name=re.compile("Circuit 1.*PASS")).wait_for(timeout=10000)
+    page.get_by_role("button", name=re.compile("Kitchen sockets.*PASS")).wait_for(timeout=10000)
     shot(page, "14-job-with-verdict")
 
     tap(page, "Review")

@@ -5,7 +5,6 @@ from __future__ import annotations
 import flet as ft
 
 BRAND = "#0E5A6B"
-ACCENT = "#F2B705"
 
 TONES: dict[str, tuple[str, str]] = {
     "good": ("#1B5E20", "#FFFFFF"),
@@ -22,13 +21,8 @@ def tone(name: str) -> tuple[str, str]:
     return TONES.get(name, TONES["unknown"])
 
 
-def light_theme() -> ft.Theme:
-    """Light theme seeded from the brand colour."""
-    return ft.Theme(color_scheme_seed=BRAND, use_material3=True)
-
-
-def dark_theme() -> ft.Theme:
-    """Dark theme seeded from the brand colour."""
+def app_theme() -> ft.Theme:
+    """The theme (light and dark alike) seeded from the brand colour."""
     return ft.Theme(color_scheme_seed=BRAND, use_material3=True)
 
 

@@ -1,7 +1,7 @@
 """What each step of the walk asks for: the circuit's fields, their labels, units and choices.
 
-Field names are the store's flat circuit field names (`mobile_app.records.CIRCUIT_FIELDS`); `path` is the
-dotted calc path the store parses them by, used to turn a parse error into a message naming the field.
+Field names are the store's flat circuit field names (`mobile_app.records.CIRCUIT_FIELDS`); the store
+parses each by its calc path, and the walk turns a parse error into a message naming the field.
 """
 
 from __future__ import annotations
@@ -64,6 +64,7 @@ SYSTEMS = (Choice("TN-S", "TN-S"), Choice("TN-C-S", "TN-C-S"), Choice("TT", "TT"
 
 _SPECS: dict[str, tuple[FieldSpec, ...]] = {
     "device": (
+        FieldSpec("description", "Description", "text", hint="e.g. Kitchen sockets"),
         FieldSpec("role", "Circuit role", "choice", choices=ROLES, required=True, default="final"),
         FieldSpec("device_kind", "Device type", "choice", choices=DEVICE_KINDS, required=True,
                   default="mcb"),
@@ -100,28 +101,6 @@ _SPECS: dict[str, tuple[FieldSpec, ...]] = {
                   hint="e.g. 20"),
     ),
     "results": (),
-}
-
-FIELD_PATHS: dict[str, str] = {
-    "role": "circuit.role",
-    "device_kind": "circuit.device.kind",
-    "device_curve": "circuit.device.curve",
-    "device_rating": "circuit.device.rating",
-    "library_device_id": "circuit.device.points",
-    "let_through_i2t": "circuit.let_through_i2t",
-    "rcd_idn": "circuit.rcd.idn",
-    "rcd_type": "circuit.rcd.type",
-    "line_csa": "circuit.line.csa",
-    "line_material": "circuit.line.material",
-    "line_insulation": "circuit.line.insulation",
-    "cpc_csa": "circuit.cpc.csa",
-    "cpc_material": "circuit.cpc.material",
-    "cpc_arrangement": "circuit.cpc.arrangement",
-    "zs": "measured.zs",
-    "zsc": "measured.zsc",
-    "r1r2": "measured.r1r2",
-    "ze": "measured.ze",
-    "test_temp_c": "measured.test_temp_c",
 }
 
 
