@@ -12,8 +12,8 @@ import pytest
 
 import mobile_app.records.export_json as export_json
 from mobile_app.records import Store
-from mobile_app.records.demo import create_demo_job
-from mobile_app.records.errors import DocumentError
+from mobile_app.records.demo import DEMO_PIN, create_demo_job
+from mobile_app.records.errors import DocumentError, ReadOnlyError
 from mobile_app.records.export import CAUTIONS, import_job_json, job_json_bytes, load_job_json
 
 FORMAT_MD = Path(export_json.__file__).with_name("EXPORT-FORMAT.md")
@@ -66,7 +66,7 @@ def _keys(doc: dict[str, Any]) -> set[str]:
         keys |= set(assessment) & CONTRACT_ASSESSMENT_KEYS
         for step in assessment["steps"]:
             keys |= set(step)
-    for item in doc["library_devices"] + doc["audit"]:
+    for item in doc["library_devices"] + doc["people"] + doc["audit"]:
         keys |= set(item)
     return keys
 
@@ -105,15 +105,23 @@ def test_readings_are_kept_as_typed_beside_their_values(store_job: tuple[Store, 
 
 
 def _comparable(doc: dict[str, Any]) -> list[Any]:
-    """What an import must keep: job and board fields, each circuit's fields, verdict and assessment."""
+    """What an import must keep (ids aside): the job's fields, review state, revision, who recorded,
+    submitted and approved it and when; board and circuit fields, verdicts and assessments with
+    their calc version; library curves, people and the audit trail as exported."""
+    review = ("status", "revision", "revision_reason", "recorded_by", "recorded_at", "submitted_by",
+              "submitted_at", "approved_by", "approved_at", "review_comment")
     return [
         doc["job"]["fields"],
+        {key: doc["job"][key] for key in review},
         [
             (board["fields"], [(c["number"], c["description"], c["fields"], c["verdict"],
                                 c["assessment"], c["calc_version"]) for c in board["circuits"]])
             for board in doc["boards"]
         ],
         [(d["name"], d["rating_a"], d["points"]) for d in doc["library_devices"]],
+        sorted((p["name"], p["role"]) for p in doc["people"]),
+        [{k: v for k, v in entry.items() if k not in ("id", "entity_id", "person_id")}
+         for entry in doc["audit"] if entry["field"] != "imported"],
     ]
 
 
@@ -128,7 +136,24 @@ def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_pat
     finally:
         other.close()
     assert _comparable(again) == _comparable(original)
+    assert again["job"]["status"] == "draft" and again["audit"][-1]["field"] == "imported"
     assert json.loads(job_json_bytes(again))["boards"][-1]["circuits"][0]["fields"]["zs"]["raw"] == "abc"
+
+
+def test_an_approved_job_comes_back_approved(tmp_path: Path) -> None:
+    with Store.open(tmp_path / "site") as site:
+        job_id = create_demo_job(site)
+        people = {p["name"]: p["id"] for p in site.people()}
+        site.submit_for_review(job_id, people["Rosa Quennell"])
+        site.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        original = site.job_document(job_id)
+    with Store.open(tmp_path / "office") as office:
+        new_id = import_job_json(office, job_json_bytes(original))
+        again = office.job_document(new_id)
+        with pytest.raises(ReadOnlyError):
+            office.set_job_field(new_id, "description", "changed at the office")
+    assert _comparable(again) == _comparable(original)
+    assert (again["job"]["status"], again["job"]["approved_by"]) == ("approved", "Ines Okafor")
 
 
 @pytest.mark.parametrize(

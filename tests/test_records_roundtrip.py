@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import re
 from collections.abc import Iterator
 from pathlib import Path
 
@@ -10,9 +11,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+import calc
 from mobile_app.records import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Store
-from mobile_app.records.demo import create_demo_job
-from mobile_app.records.errors import DocumentError
+from mobile_app.records.demo import DEMO_PIN, create_demo_job
+from mobile_app.records.errors import DocumentError, ReadOnlyError, ReviewError
 
 ODD = [
     "",
@@ -105,6 +107,7 @@ def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> Non
         again = second.job_document(new_id)
     assert again["job"]["fields"] == doc["job"]["fields"]
     assert again["job"]["status"] == "draft"
+    assert restored(again) == restored(doc)
 
     def shape(document: dict) -> list:
         return [
@@ -120,6 +123,114 @@ def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> Non
             if entry["raw"]:
                 entry.update(raw=str(library_id), value=library_id)
     assert shape(again) == shape(doc)
+
+
+def restored(doc: dict) -> dict:
+    """What an import must bring back besides the fields, ids aside: the job's review state,
+    revision, authorship and times, each circuit's assessment, and the audit trail as exported."""
+    job = doc["job"]
+    keys = ("status", "revision", "revision_reason", "recorded_by", "recorded_at", "submitted_by",
+            "submitted_at", "approved_by", "approved_at", "review_comment")
+    who = {person["id"]: (person["name"], person["role"]) for person in doc["people"]}
+    return {
+        "job": {key: job[key] for key in keys},
+        "circuits": [
+            (c["verdict"], c["assessment"], c["calc_version"], c["assessment_error"], c["updated_at"],
+             who.get(c["updated_by"]))
+            for b in doc["boards"] for c in b["circuits"]
+        ],
+        "people": sorted(who.values()),
+        "audit": [
+            {k: v for k, v in entry.items() if k not in ("id", "entity_id", "person_id")}
+            for entry in doc["audit"]
+            if entry["field"] != "imported"
+        ],
+    }
+
+
+def reviewed_revisions(store: Store) -> tuple[int, int]:
+    """The demo job returned once with a comment, approved, then revised and submitted again."""
+    job_id = create_demo_job(store)
+    people = {p["name"]: p["id"] for p in store.people()}
+    rosa, ines = people["Rosa Quennell"], people["Ines Okafor"]
+    store.submit_for_review(job_id, rosa)
+    store.return_to_draft(job_id, ines, "Circuit 3: measure Zs again – «0.7?» is not a reading")
+    store.set_circuit_field(3, "zs", "0.41 Ω", by=rosa)
+    store.submit_for_review(job_id, rosa)
+    store.approve(job_id, ines, DEMO_PIN)
+    revision_id = store.open_revision(job_id, "Board DB2 replaced", by=rosa)
+    store.set_job_field(revision_id, "description", "After the DB2 swap", by=rosa)
+    store.submit_for_review(revision_id, rosa)
+    return job_id, revision_id
+
+
+def test_an_import_restores_review_revision_people_and_audit(tmp_path: Path) -> None:
+    with Store.open(tmp_path / "site") as site:
+        first_id, second_id = reviewed_revisions(site)
+        first, second = site.job_document(first_id), site.job_document(second_id)
+    first, second = json.loads(json.dumps(first)), json.loads(json.dumps(second))
+    assert first["job"]["status"] == "approved" and second["job"]["status"] == "submitted"
+    with Store.open(tmp_path / "office") as office:
+        ines_here = office.add_person("Ines Okafor", "supervisor", "9753")
+        office.add_person("Rosa Quennell", "supervisor")  # same name, another role: not her
+        new_first = office.import_job_document(first)
+        new_second = office.import_job_document(second)
+        again_first, again_second = office.job_document(new_first), office.job_document(new_second)
+        assert restored(again_first) == restored(first)
+        assert restored(again_second) == restored(second)
+        assert again_first["audit"][-1]["field"] == "imported"
+        approved = office.get_job(new_first)
+        assert approved["approved_by"] == ines_here
+        assert approved["version"] == 1 and approved["revision"] == 1
+        assert office.get_job(new_second)["parent_job_id"] == new_first
+        assert office.get_job(new_second)["revision"] == 2
+        circuit_id = office.circuits(office.boards(new_first)[0]["id"])[0]["id"]
+        with pytest.raises(ReadOnlyError):
+            office.set_circuit_field(circuit_id, "zs", "0.5")
+        with pytest.raises(ReviewError, match="already open"):
+            office.open_revision(new_first, "again", None)
+        people = {(p["name"], p["role"]): p["has_pin"] for p in office.people()}
+    assert people == {
+        ("Ines Okafor", "supervisor"): 1,
+        ("Rosa Quennell", "supervisor"): 0,
+        ("Rosa Quennell", "qualified"): 0,
+    }
+    assert "Tomasz Brill" not in {p["name"] for p in first["people"]}  # never part of this job
+
+
+def test_a_revision_whose_parent_is_not_here_keeps_its_reason_only(tmp_path: Path) -> None:
+    with Store.open(tmp_path / "site") as site:
+        _, second_id = reviewed_revisions(site)
+        doc = site.job_document(second_id)
+    with Store.open(tmp_path / "office") as office:
+        job = office.get_job(office.import_job_document(doc))
+    assert (job["parent_job_id"], job["revision"], job["revision_reason"]) == (
+        None, 2, "Board DB2 replaced")
+
+
+def test_exported_assessments_stay_unless_a_draft_was_assessed_by_another_calc(tmp_path: Path) -> None:
+    with Store.open(tmp_path / "site") as site:
+        approved_id, draft_id = reviewed_revisions(site)
+        site.return_to_draft(draft_id, [p["id"] for p in site.people() if p["role"] == "supervisor"][0],
+                             "check the description")
+        docs = [site.job_document(approved_id), site.job_document(draft_id)]
+    for doc in docs:
+        circuit = doc["boards"][0]["circuits"][0]
+        circuit["calc_version"] = circuit["assessment"]["calc_version"] = "0.0.1-older"
+        circuit["verdict"] = "fail"
+    with Store.open(tmp_path / "office") as office:
+        kept, redone = (office.job_document(office.import_job_document(doc)) for doc in docs)
+
+    def circuits(doc: dict) -> list[dict]:
+        return [dict(c, id=None, updated_by=None) for c in doc["boards"][0]["circuits"]]
+
+    assert circuits(kept) == circuits(docs[0])
+    assert circuits(redone)[1:] == circuits(docs[1])[1:]
+    circuit = redone["boards"][0]["circuits"][0]
+    assert (circuit["verdict"], circuit["calc_version"]) == ("pass", calc.__version__)
+    last = redone["audit"][-1]
+    assert (last["entity"], last["field"], last["old"], last["new"]) == (
+        "circuit", "assessment", "fail (calc 0.0.1-older)", f"pass (calc {calc.__version__})")
 
 
 @pytest.mark.parametrize(
@@ -144,6 +255,40 @@ def test_a_document_broken_half_way_imports_nothing(tmp_path: Path) -> None:
         with pytest.raises(DocumentError, match="KeyError: 'fields'"):
             store.import_job_document(doc)
         assert (store.list_jobs(), store.library_devices()) == before
+
+
+def test_an_older_document_without_people_matches_by_name(tmp_path: Path) -> None:
+    with Store.open(tmp_path / "site") as site:
+        doc = site.job_document(reviewed_revisions(site)[0])
+    del doc["people"]
+    with Store.open(tmp_path / "office") as office:
+        rosa = office.add_person("Rosa Quennell", "apprentice")
+        job = office.get_job(office.import_job_document(doc))
+        people = {(p["name"], p["role"]) for p in office.people()}
+    assert job["recorded_by"] == job["submitted_by"] == rosa
+    assert people == {("Rosa Quennell", "apprentice"), ("Ines Okafor", "supervisor")}
+
+
+@pytest.mark.parametrize(
+    ("change", "problem"),
+    [
+        (lambda d: d["job"].update(approved_by=None), "an approved job needs approved_by"),
+        (lambda d: d["job"].update(status="signed"), "job.status 'signed' is not one of"),
+        (lambda d: d["job"].update(revision=0), "job.revision 0"),
+        (lambda d: d["people"][0].update(role="boss"), "people.role 'boss'"),
+        (lambda d: d["audit"][-1].update(when=None), "None is not a non-blank text"),
+        (lambda d: d["boards"][1]["circuits"][0].update(assessment=[1]), "must be an object or null"),
+        (lambda d: d["boards"][1]["circuits"][0].update(verdict="ok"), "circuit.verdict 'ok'"),
+    ],
+)
+def test_a_document_with_a_bad_review_part_imports_nothing(tmp_path: Path, change, problem: str) -> None:
+    with Store.open(tmp_path / "site") as site:
+        doc = site.job_document(reviewed_revisions(site)[0])
+    change(doc)
+    with Store.open(tmp_path / "office") as office:
+        with pytest.raises(DocumentError, match=re.escape(problem)):
+            office.import_job_document(doc)
+        assert (office.list_jobs(), office.people(), office.library_devices()) == ([], [], [])
 
 
 @pytest.mark.parametrize("raw", ["²", "١", "3²", "0x1", "-1", "1.0"])

@@ -31,8 +31,20 @@ file's bytes and `bytes` its size. `board_id` is the board's id in a one-board e
 ## The JSON file
 UTF-8, one line (not indented), numbers as JSON numbers (never NaN or Infinity), `null` where nothing is
 known. `schema` is `"boardside-job"` and `schema_version` is 1. A reader refuses a document whose
-`schema` differs or whose `schema_version` is greater than the one it knows. Importing a JSON export
-creates a new draft job from the fields as typed and assesses its circuits again.
+`schema` differs or whose `schema_version` is greater than the one it knows.
+
+Importing a JSON export loads the job back as it was, in one transaction (a document that cannot be
+read imports nothing), under new ids: its status (an approved job stays approved and read-only), its
+revision and `revision_reason`, who recorded, submitted and approved it and when, the review comment,
+every field as typed, each circuit's assessment as exported with its `calc_version`, and the audit
+trail, followed by one entry saying it was imported. People are matched to people in the store by name
+and role, or added without a PIN (a document without `people` gives no roles: a name matches anyone of
+that name, a newcomer is added as an apprentice, an approver as a supervisor). A draft circuit
+assessed by another version of the calculation core is assessed again, and an audit entry records a
+changed result; submitted and approved jobs keep their assessments. `parent_job_id` is linked only when
+the store holds the previous revision (approved, same client reference, not yet revised); otherwise it
+is `null` and `revision_reason` is kept. Library devices are reused when one of the same name and
+points is already there.
 
 ### Top level
 - `schema`: always `"boardside-job"`.
@@ -43,6 +55,7 @@ creates a new draft job from the fields as typed and assesses its circuits again
 - `job`: the job (below).
 - `boards`: the job's boards, each with its circuits (only one board in a one-board export).
 - `library_devices`: manufacturer time–current curves used by the job's circuits.
+- `people`: the people the job, its circuits and its audit trail refer to.
 - `audit`: every recorded change to the job, oldest first.
 
 ### A field: `{"raw", "value", "error"}`
@@ -62,8 +75,9 @@ Every reading and setting is kept exactly as typed beside what it means:
 - `fields`: each job field as a field: `client_ref`, `site_address`, `description`, `date`,
   `system` (`TN-S`, `TN-C-S` or `TT`), `u0` (V), `cmin` (voltage factor, no unit), `ze` (Ω, at the
   origin), `pfc` (A, prospective fault current at the origin).
-- `recorded_by`: the name of who created the job.
-- `submitted_by`: the name of who submitted it for review (`null` if not submitted).
+- `recorded_by`, `recorded_at`: the name of who created the job, and when.
+- `submitted_by`, `submitted_at`: the name of who submitted it for review and when (`null` if not
+  submitted).
 - `approved_by`, `approved_at`: the supervisor who approved it and when (`null` until approved).
 - `review_comment`: the reviewer's comment when the job was returned to draft, else `null`.
 
@@ -88,7 +102,7 @@ Every reading and setting is kept exactly as typed beside what it means:
 - `calc_version`: version of the calculation core that made this assessment.
 - `assessment_error`: why the core could not assess the circuit (verdict `incomplete`), else `null`.
 - `updated_at`, `updated_by`: when the circuit last changed, and the id of the person who changed it
-  (their name is in the `audit` entries with that `person_id`).
+  (their name and role are in `people`).
 
 ### `assessment`
 The calculation core's output as it made it; a value's name carries its unit:
@@ -119,6 +133,10 @@ Keys the core adds in a later version are kept as they are.
 
 ### `library_devices[]`
 `id`, `name`, `rating_a` (A), `points`: a list of `[current_a, time_s]`, time falling as current rises.
+
+### `people[]`
+`id` (the person's number in the store the job came from), `name`, `role` (`apprentice`, `qualified`
+or `supervisor`). Never a PIN.
 
 ### `audit[]`
 `id`, `when` (ISO-8601), `person_id` and `who` (the person's id and name), `entity` (`job`, `board` or
@@ -211,5 +229,5 @@ def _refuse_constant(name: str) -> float:
 
 
 def import_job_json(store: Any, data: bytes | str) -> int:
-    """Load a JSON export into `store` as a new job and return its id."""
+    """Load a JSON export into `store` as it was exported (`Store.import_job_document`); the new job's id."""
     return int(store.import_job_document(load_job_json(data)))
