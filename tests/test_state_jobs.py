@@ -142,3 +142,18 @@ def test_returned_comment_and_new_revision(store) -> None:
     assert outcome.ok and new_id is not None
     assert ReviewState(store, new_id).status == "draft"
     assert ReviewState(store, job_id).status == "approved"
+
+
+def test_status_filter(store) -> None:
+    jobs = JobsList(store)
+    first = jobs.new_job("First")
+    jobs.new_job("Second")
+    review = ReviewState(store, first)
+    review.submit("Sam")
+    jobs.status = "submitted"
+    assert [r.title for r in jobs.rows()] == ["First"]
+    assert jobs.rows()[0].status_word == "In review"
+    jobs.status = "draft"
+    assert [r.title for r in jobs.rows()] == ["Second"]
+    jobs.status = "all"
+    assert len(jobs.rows()) == 2

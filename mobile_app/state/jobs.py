@@ -7,7 +7,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.records import StoreError
-from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, FieldSpec, all_specs
+from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, Choice, FieldSpec, all_specs
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.text import VerdictMark, format_quantity, status_word, verdict_mark
 
@@ -36,16 +36,25 @@ class JobRow:
         return " · ".join(parts)
 
 
+STATUS_FILTERS: tuple[Choice, ...] = (
+    Choice("all", "All"),
+    Choice("draft", "Draft"),
+    Choice("submitted", "In review"),
+    Choice("approved", "Approved"),
+)
+
+
 class JobsList:
     """The jobs list: search text and the rows that match it."""
 
     def __init__(self, store: Any) -> None:
         self.store = store
         self.search = ""
+        self.status = "all"
 
     def rows(self) -> list[JobRow]:
-        """Jobs matching the search, as the store orders them."""
-        return [
+        """Jobs matching the search and the status filter, as the store orders them."""
+        rows = [
             JobRow(
                 id=int(job["id"]),
                 title=job.get("client_ref") or f"Job {job['id']}",
@@ -58,6 +67,9 @@ class JobsList:
             )
             for job in self.store.list_jobs(self.search.strip())
         ]
+        if self.status == "all":
+            return rows
+        return [row for row in rows if row.status == self.status]
 
     def new_job(self, client_ref: str, site_address: str = "", by: int | None = None) -> int:
         """Create a draft job with the supply defaults from settings and one board; returns its id."""

@@ -6,8 +6,9 @@ from typing import Any
 
 import flet as ft
 
+from mobile_app.components.choice_row import choice_row
 from mobile_app.components.screen import screen
-from mobile_app.state.jobs import JobRow, JobsList, ensure_demo
+from mobile_app.state.jobs import STATUS_FILTERS, JobRow, JobsList, ensure_demo
 
 
 def _job_card(row: JobRow, go: Any) -> ft.Card:
@@ -64,6 +65,11 @@ def build(shell: Any) -> ft.View:
         fill()
         listing.update()
 
+    def filtered(value: str) -> None:
+        jobs.status = value
+        fill()
+        listing.update()
+
     def open_demo(_e: Any) -> None:
         shell.go(f"/job/{ensure_demo(shell.store)}")
 
@@ -85,6 +91,7 @@ def build(shell: Any) -> ft.View:
             wrap=True,
             spacing=10,
         ),
+        choice_row("job-status", "Status", STATUS_FILTERS, jobs.status, filtered),
         listing,
     ]
     return screen("/", "Boardside", body, shell.go, tab=0)
