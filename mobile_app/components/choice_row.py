@@ -55,4 +55,5 @@ def _style(button: ft.Button, selected: bool) -> None:
         bgcolor=ft.Colors.PRIMARY if selected else ft.Colors.SURFACE_CONTAINER_HIGHEST,
         color=ft.Colors.ON_PRIMARY if selected else ft.Colors.ON_SURFACE,
         shape=ft.RoundedRectangleBorder(radius=10),
+        padding=ft.Padding.symmetric(horizontal=14),
     )
