@@ -218,6 +218,10 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     see(page, "Status: Draft")
     page.get_by_role("button", name=re.compile("Kitchen sockets.*PASS")).wait_for(timeout=10000)
     shot(page, "14-job-with-verdict")
+    type_into(page, "U0", "100 V")
+    page.get_by_role("button", name=re.compile("Kitchen sockets.*FAIL")).wait_for(timeout=10000)
+    type_into(page, "U0", "230 V")
+    page.get_by_role("button", name=re.compile("Kitchen sockets.*PASS")).wait_for(timeout=10000)
 
     tap(page, "Review")
     see(page, "Status: Draft")

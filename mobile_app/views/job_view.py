@@ -14,16 +14,23 @@ from mobile_app.components.verdict_badge import verdict_badge
 from mobile_app.state.jobs import BoardView, JobField, JobScreen
 
 
-def _input(job: JobScreen, field: JobField) -> ft.Control:
+def _input(job: JobScreen, field: JobField, after_save: Any) -> ft.Control:
+    """One job field; `after_save` runs after each save (supply changes reassess the circuits)."""
     name = field.spec.name
     if field.spec.kind == "choice":
+
+        def picked(value: str) -> None:
+            job.set_field(name, value)
+            after_save()
+
         return choice_row(
-            f"job-{name}", field.spec.label, field.spec.choices, field.raw,
-            lambda value: job.set_field(name, value), disabled=job.read_only, message=field.message,
+            f"job-{name}", field.spec.label, field.spec.choices, field.raw, picked,
+            disabled=job.read_only, message=field.message,
         )
 
     def changed(text: str) -> tuple[str, str | None]:
         saved = job.set_field(name, text)
+        after_save()
         return saved.parsed_text, saved.message
 
     return text_input(
@@ -84,15 +91,24 @@ def build(shell: Any, job_id: str) -> ft.View:
     ]
     if job.read_only:
         body.append(ft.Text("This job is locked while in review or approved.", size=14))
-    body.append(ft.Text("Boards and circuits", size=20, weight=ft.FontWeight.BOLD))
-    body.extend(_board(shell, job, board) for board in job.boards())
+    boards = ft.Column(spacing=8, key="boards")
+
+    def fill_boards() -> None:
+        boards.controls = [_board(shell, job, board) for board in job.boards()]
+
+    def refresh_boards() -> None:
+        fill_boards()
+        boards.update()
+
+    fill_boards()
+    body += [ft.Text("Boards and circuits", size=20, weight=ft.FontWeight.BOLD), boards]
     if not job.read_only:
         body.append(ft.OutlinedButton("Add board", icon=ft.Icons.ADD, height=48, key="add-board",
                                       on_click=add_board))
     body.append(ft.Text("Supply", size=20, weight=ft.FontWeight.BOLD))
-    body.extend(_input(job, field) for field in job.supply_fields())
+    body.extend(_input(job, field, refresh_boards) for field in job.supply_fields())
     body.append(ft.Text("Job details", size=20, weight=ft.FontWeight.BOLD))
-    body.extend(_input(job, field) for field in job.header_fields())
+    body.extend(_input(job, field, lambda: None) for field in job.header_fields())
     body.append(cautions_box())
     review = ft.FilledButton("Review", icon=ft.Icons.RATE_REVIEW, height=48, key="open-review",
                              on_click=lambda _e: shell.go(f"/job/{job.job_id}/review"))
