@@ -10,6 +10,7 @@ import math
 import sqlite3
 import threading
 import time
+import weakref
 from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import Any, Self
@@ -53,6 +54,47 @@ def save_reason(error: sqlite3.Error) -> str:
     return _REASONS.get(primary, str(error))
 
 
+_LOCKS: weakref.WeakKeyDictionary[sqlite_utils.Database, threading.RLock] = weakref.WeakKeyDictionary()
+_LOCKS_GUARD = threading.Lock()
+
+
+def db_lock(db: sqlite_utils.Database) -> threading.RLock:
+    """The one lock of a database connection: the store and the outbox take it around every use
+    of the connection, so threads sharing one store never interleave their transactions."""
+    with _LOCKS_GUARD:
+        lock = _LOCKS.get(db)
+        if lock is None:
+            lock = _LOCKS[db] = threading.RLock()
+        return lock
+
+
+@contextlib.contextmanager
+def write_transaction(db: sqlite_utils.Database) -> Iterator[sqlite3.Connection]:
+    """One write transaction (BEGIN IMMEDIATE … COMMIT) holding the connection's lock; SQLite
+    refusals become SaveError. Inside another write it is a savepoint, so a larger change (an
+    import) commits as one."""
+    with db_lock(db):
+        conn = db.conn
+        if conn.in_transaction:
+            yield from _savepoint(conn)
+            return
+        try:
+            conn.execute("BEGIN IMMEDIATE")
+        except sqlite3.OperationalError as error:
+            raise SaveError(save_reason(error)) from error
+        try:
+            yield conn
+            conn.execute("COMMIT")
+        except sqlite3.Error as error:
+            if conn.in_transaction:
+                conn.execute("ROLLBACK")
+            raise SaveError(save_reason(error)) from error
+        except BaseException:
+            if conn.in_transaction:
+                conn.execute("ROLLBACK")
+            raise
+
+
 class StoreCore:
     """An open store file: connection, transactions, audit, people, settings, device library."""
 
@@ -68,7 +110,7 @@ class StoreCore:
         self.recovered = recovered
         self.backup_path = backup_path
         self.clock: Callable[[], float] = time.time
-        self._lock = threading.RLock()
+        self._lock = db_lock(db)
 
     @classmethod
     def open(cls, data_dir: Path | None = None) -> Self:
@@ -105,33 +147,9 @@ class StoreCore:
     def __exit__(self, *exc_info: object) -> None:
         self.close()
 
-    @contextlib.contextmanager
-    def _write(self) -> Iterator[sqlite3.Connection]:
-        """One write transaction (BEGIN IMMEDIATE … COMMIT); SQLite refusals become SaveError.
-
-        Inside another write it is a savepoint, so a larger change (an import) commits as one.
-        A lock keeps threads sharing this store (event handlers) from interleaving transactions.
-        """
-        with self._lock:
-            conn = self.db.conn
-            if conn.in_transaction:
-                yield from _savepoint(conn)
-                return
-            try:
-                conn.execute("BEGIN IMMEDIATE")
-            except sqlite3.OperationalError as error:
-                raise SaveError(save_reason(error)) from error
-            try:
-                yield conn
-                conn.execute("COMMIT")
-            except sqlite3.Error as error:
-                if conn.in_transaction:
-                    conn.execute("ROLLBACK")
-                raise SaveError(save_reason(error)) from error
-            except BaseException:
-                if conn.in_transaction:
-                    conn.execute("ROLLBACK")
-                raise
+    def _write(self) -> contextlib.AbstractContextManager[sqlite3.Connection]:
+        """One write transaction on this store's connection (see `write_transaction`)."""
+        return write_transaction(self.db)
 
     @contextlib.contextmanager
     def batch(self) -> Iterator[None]:

@@ -6,6 +6,9 @@ where the bundle lies, its files with their sizes and SHA-256, the deterministic
 names), its state (`waiting` or `sent`), attempts, next try time, the last error in plain words
 and its kind, and when it was queued, last tried and sent. All times are ISO-8601 UTC text of one
 fixed format, so they sort as text. Nothing here touches the network or deletes a file.
+
+Every use of the database takes the lock the store takes (`core.db_lock`), and every write is one of
+the store's write transactions, so threads sharing one Store never interleave their transactions.
 """
 
 from __future__ import annotations
@@ -19,6 +22,8 @@ from pathlib import Path
 from typing import Any
 
 from sqlite_utils import Database
+
+from mobile_app.records.core import db_lock, write_transaction
 
 TABLE = "outbox"
 MANIFEST = "manifest.json"
@@ -160,16 +165,34 @@ class Outbox:
 
     def __init__(self, db: Database) -> None:
         self.db = db
+        self._lock = db_lock(db)
         self.ensure_table()
 
     def ensure_table(self) -> None:
         """Create the outbox table and its indexes if they are missing."""
-        if TABLE in self.db.table_names():
-            return
-        self.db[TABLE].create(_COLUMNS, pk="id", not_null={"bundle_dir", "remote_path", "status"},
-                              defaults={"status": "waiting", "attempts": 0})
-        self.db[TABLE].create_index(["remote_path"], unique=True)
-        self.db[TABLE].create_index(["status", "next_try_at"])
+        with self._lock:
+            if TABLE in self.db.table_names():
+                return
+            with write_transaction(self.db):
+                if TABLE in self.db.table_names():
+                    return
+                self.db[TABLE].create(_COLUMNS, pk="id",
+                                      not_null={"bundle_dir", "remote_path", "status"},
+                                      defaults={"status": "waiting", "attempts": 0})
+                self.db[TABLE].create_index(["remote_path"], unique=True)
+                self.db[TABLE].create_index(["status", "next_try_at"])
+
+    def _rows(self, where: str, params: list[Any] | None = None,
+              order_by: str | None = None) -> list[dict[str, Any]]:
+        """Outbox rows matching `where`, read under the connection's lock."""
+        with self._lock:
+            return list(self.db[TABLE].rows_where(where, params or [], order_by=order_by))
+
+    def _scalar(self, sql: str) -> Any:
+        """The first column of the first row of a query (None for no row), under the lock."""
+        with self._lock:
+            row = self.db.execute(sql).fetchone()
+        return row[0] if row else None
 
     def enqueue(self, bundle_dir: Path, job_id: int, revision: int, now: datetime | None = None) -> int:
         """Queue a bundle folder to be sent; returns its outbox id.
@@ -181,10 +204,10 @@ class Outbox:
         files = scan_bundle(bundle_dir)
         digest = bundle_sha256(files)
         remote_path = remote_folder(bundle_dir.name, digest)
-        existing = list(self.db[TABLE].rows_where("remote_path = ?", [remote_path], limit=1))
-        if existing:
-            return int(existing[0]["id"])
-        with self.db.conn:
+        with write_transaction(self.db):
+            existing = self._rows("remote_path = ?", [remote_path])
+            if existing:
+                return int(existing[0]["id"])
             return int(self.db[TABLE].insert({
                 "bundle_dir": str(bundle_dir),
                 "bundle_name": bundle_dir.name,
@@ -201,37 +224,34 @@ class Outbox:
 
     def get(self, entry_id: int) -> dict[str, Any]:
         """One outbox row as a dict; raises UnknownBundleError."""
-        rows = list(self.db[TABLE].rows_where("id = ?", [entry_id]))
+        rows = self._rows("id = ?", [entry_id])
         if not rows:
             raise UnknownBundleError(entry_id)
         return rows[0]
 
     def waiting(self) -> list[dict[str, Any]]:
         """Rows still to be sent, oldest first."""
-        return list(self.db[TABLE].rows_where("status = 'waiting'", order_by="queued_at, id"))
+        return self._rows("status = 'waiting'", order_by="queued_at, id")
 
     def sent(self) -> list[dict[str, Any]]:
         """Rows sent and verified, most recent first."""
-        return list(self.db[TABLE].rows_where("status = 'sent'", order_by="sent_at desc, id desc"))
+        return self._rows("status = 'sent'", order_by="sent_at desc, id desc")
 
     def due(self, now: datetime | None = None, force: bool = False) -> list[dict[str, Any]]:
         """Waiting rows whose next try time has come (all waiting rows when `force`)."""
         if force:
             return self.waiting()
-        return list(self.db[TABLE].rows_where(
-            "status = 'waiting' and next_try_at <= ?", [iso(now or utc_now())],
-            order_by="queued_at, id"))
+        return self._rows("status = 'waiting' and next_try_at <= ?", [iso(now or utc_now())],
+                          order_by="queued_at, id")
 
     def next_try_at(self) -> str | None:
         """The earliest next try time of the waiting rows, or None when nothing waits."""
-        row = self.db.execute(
-            f"select min(next_try_at) from {TABLE} where status = 'waiting'").fetchone()
-        return row[0] if row else None
+        return self._scalar(f"select min(next_try_at) from {TABLE} where status = 'waiting'")
 
     def mark_sent(self, entry_id: int, now: datetime | None = None) -> None:
         """Record that a bundle arrived whole and was verified."""
         moment = iso(now or utc_now())
-        with self.db.conn:
+        with write_transaction(self.db):
             self.db[TABLE].update(entry_id, {
                 "status": "sent", "sent_at": moment, "last_try_at": moment,
                 "last_error": None, "last_error_kind": None, "next_try_at": None})
@@ -239,8 +259,8 @@ class Outbox:
     def mark_failed(self, entry_id: int, message: str, kind: str, next_try_at: datetime,
                     now: datetime | None = None) -> None:
         """Record a failed attempt: one more attempt, the error in plain words, the next try time."""
-        row = self.get(entry_id)
-        with self.db.conn:
+        with write_transaction(self.db):
+            row = self.get(entry_id)
             self.db[TABLE].update(entry_id, {
                 "attempts": int(row["attempts"] or 0) + 1,
                 "last_error": message,
@@ -250,7 +270,6 @@ class Outbox:
 
     def last_error(self) -> str | None:
         """The most recent error among the waiting rows, in plain words, or None."""
-        row = self.db.execute(
+        return self._scalar(
             f"select last_error from {TABLE} where status = 'waiting' and last_error is not null "
-            "order by last_try_at desc limit 1").fetchone()
-        return row[0] if row else None
+            "order by last_try_at desc limit 1")
