@@ -45,7 +45,17 @@ def demo_server(tmp_path: Path) -> Iterator[str]:
 
 
 
-def test_demo_library_outbox_settings(demo_server: str, page) -> None:
+def submit_demo_elsewhere(data_dir: Path) -> None:
+    """Submit the demo job from another connection, as a second device or tab would."""
+    from mobile_app.records import Store
+
+    with Store.open(data_dir) as store:
+        job_id = store.list_jobs()[0]["id"]
+        recorder = next(p["id"] for p in store.people() if p["role"] == "qualified")
+        store.submit_for_review(job_id, recorder)
+
+
+def test_demo_library_outbox_settings(demo_server: str, page, tmp_path: Path) -> None:
     open_app(page, demo_server + "/")
     see(page, "TY-2026-118")
     shot(page, "20-jobs-demo")
@@ -113,3 +123,12 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     open_app(page, demo_server + "/job/999")
     see(page, "no job with id 999")
     shot(page, "29-not-found")
+
+    page.set_viewport_size({"width": 390, "height": 844})
+    readings = url.rsplit("/", 1)[0] + "/readings"
+    open_app(page, readings)
+    see(page, "Step 3 of 4")
+    submit_demo_elsewhere(tmp_path)
+    type_into(page, "Zs", "0.5")
+    see(page, "Not saved")
+    shot(page, "30-save-refused-text-kept")
