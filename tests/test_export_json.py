@@ -2,7 +2,9 @@
 
 from __future__ import annotations
 
+import importlib
 import json
+import pkgutil
 import re
 from collections.abc import Iterator
 from pathlib import Path
@@ -10,6 +12,7 @@ from typing import Any
 
 import pytest
 
+import mobile_app.records as records
 import mobile_app.records.export_json as export_json
 from mobile_app.records import Store
 from mobile_app.records.demo import DEMO_PIN, create_demo_job
@@ -184,3 +187,9 @@ def test_values_json_cannot_hold_are_refused() -> None:
            "boards": []}
     with pytest.raises(DocumentError, match="cannot be written as JSON"):
         job_json_bytes(doc)
+
+
+def test_every_records_module_raises_the_stores_one_document_error() -> None:
+    names = [m.name for m in pkgutil.iter_modules(records.__path__, "mobile_app.records.")]
+    found = {name: getattr(importlib.import_module(name), "DocumentError", None) for name in names}
+    assert {cls for cls in found.values() if cls is not None} == {records.DocumentError}

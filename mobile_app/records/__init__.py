@@ -33,12 +33,33 @@ Public surface (the store API agreed with the app, export and sync; additions ma
               audit(job_id) -> list[dict]
     settings: get_setting(key, default=None) ; set_setting(key, value)
     batch:    with store.batch(): ...  *added*: several changes committed as one
-    documents: job_document(job_id) -> dict ; import_job_document(doc) -> id
+    documents: job_document(job_id) -> dict ; import_job_document(doc) -> id (the job as it was
+              exported: status, revision, review, people, assessments, audit; one transaction)
+
+Export (`mobile_app.records.export`; formats in EXPORT-FORMAT.md):
+    export_bundle(store, job_id, out_dir, board_id=None) -> Bundle   # JSON, CSV, PDF + manifest
+    read_bundle(path) -> Bundle          # re-checks every SHA-256 (BundleCheckError)
+    import_job_json(store, data) -> id   # a JSON export back into the store (DocumentError)
+    cli_export(job_id, data_dir, out_dir) -> exit code   # `python -m mobile_app export`
+
+Outbox (`mobile_app.records.outbox`): Outbox(store.db) — enqueue(bundle_dir, job_id, revision)
+    -> id, waiting(), sent(), due(), get(id), mark_sent(id), mark_failed(...), last_error();
+    it takes the store's lock, so it may share a Store with other threads.
+
+Sync (`mobile_app.records.sync`, WebDAV):
+    SyncTarget(url, user, password) ; save_target(store, url, user, password) ;
+    load_target(store) -> SyncTarget (NotConfiguredError, InsecureTargetError)
+    sync_once(store, target, force=False) -> SyncReport ; sync_store(store, force=False) -> SyncReport
+    SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background, its own Store
+    cli_sync(data_dir) -> exit code      # `python -m mobile_app sync`
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
 ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (*added*: the folder
 cannot be opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or
-curve), DocumentError (an import that is not a boardside-job document).
+curve), DocumentError (an import that is not a boardside-job document; the export raises this
+same class). The export adds ExportError (a StoreError) with BundleExistsError and
+BundleCheckError; the outbox raises OutboxError and the sync SyncError (neither is a StoreError),
+each with subclasses of its own.
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
 
 Settings read by the store: "default_system", "default_u0" (text, "230 V"), "default_cmin"
