@@ -157,3 +157,9 @@ def test_status_filter(store) -> None:
     assert [r.title for r in jobs.rows()] == ["Second"]
     jobs.status = "all"
     assert len(jobs.rows()) == 2
+
+
+def test_review_summary_counts(store) -> None:
+    job_id = ensure_demo(store)
+    summary = ReviewState(store, job_id).summary()
+    assert summary.startswith("22 circuits · ") and "failing" in summary and "incomplete" in summary

@@ -34,6 +34,17 @@ class ReviewState:
         """The status as shown."""
         return status_word(self.status)
 
+    def summary(self) -> str:
+        """What a reviewer looks at first: `22 circuits · 3 failing · 1 incomplete`."""
+        for job in self.store.list_jobs():
+            if int(job["id"]) == self.job_id:
+                circuits, failing, incomplete = (int(job.get(k) or 0) for k in
+                                                 ("circuits", "failing", "incomplete"))
+                parts = [f"{circuits} circuit" + ("" if circuits == 1 else "s"),
+                         f"{failing} failing", f"{incomplete} incomplete"]
+                return " · ".join(parts)
+        return ""
+
     @property
     def comment(self) -> str | None:
         """The reviewer's comment when the job was returned to draft, if any."""

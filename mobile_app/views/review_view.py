@@ -28,6 +28,7 @@ def build(shell: Any, job_id: str) -> ft.View:
 
     body: list[ft.Control] = [
         ft.Text(f"Status: {review.status_word}", size=20, weight=ft.FontWeight.BOLD, key="review-status"),
+        ft.Text(review.summary(), size=16, key="review-summary"),
     ]
     if status == "draft":
         recorder = ft.TextField(key="recorder-name", label="Recorded by (your name)")
