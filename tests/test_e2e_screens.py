@@ -1,6 +1,7 @@
 """The other screens in a real Chromium at 390×844: the demo job, a failing circuit, the device
 library (a curve whose times rise is refused, then accepted with a preview), outbox, settings and the
-dark theme. Screenshots go to test-artifacts/.
+dark theme, and a reading refused (text kept) after another tab submits the job. Screenshots go to
+test-artifacts/.
 """
 
 from __future__ import annotations
@@ -45,17 +46,7 @@ def demo_server(tmp_path: Path) -> Iterator[str]:
 
 
 
-def submit_demo_elsewhere(data_dir: Path) -> None:
-    """Submit the demo job from another connection, as a second device or tab would."""
-    from mobile_app.records import Store
-
-    with Store.open(data_dir) as store:
-        job_id = store.list_jobs()[0]["id"]
-        recorder = next(p["id"] for p in store.people() if p["role"] == "qualified")
-        store.submit_for_review(job_id, recorder)
-
-
-def test_demo_library_outbox_settings(demo_server: str, page, tmp_path: Path) -> None:
+def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     open_app(page, demo_server + "/")
     see(page, "TY-2026-118")
     shot(page, "20-jobs-demo")
@@ -128,7 +119,14 @@ def test_demo_library_outbox_settings(demo_server: str, page, tmp_path: Path) ->
     readings = url.rsplit("/", 1)[0] + "/readings"
     open_app(page, readings)
     see(page, "Step 3 of 4")
-    submit_demo_elsewhere(tmp_path)
+    other = page.context.new_page()
+    open_app(other, url.split("/circuit/", 1)[0] + "/review")
+    see(other, "Status: Draft")
+    type_into(other, "Recorded by (your name)", "Rosa Quennell")
+    tap(other, "Submit for review")
+    see(other, "Status: In review")
+    other.close()
+    page.bring_to_front()
     type_into(page, "Zs", "0.5")
     see(page, "Not saved")
     shot(page, "30-save-refused-text-kept")

@@ -135,8 +135,14 @@ def tap(page, role_name: str) -> None:
 
 
 def see(page, text: str, timeout_ms: int = 10000) -> None:
-    """Wait until a text is on screen."""
-    page.get_by_text(text, exact=False).first.wait_for(timeout=timeout_ms)
+    """Wait until a text is on screen; on a timeout keep a screenshot of what was there instead."""
+    from playwright.sync_api import TimeoutError as PlaywrightTimeout
+
+    try:
+        page.get_by_text(text, exact=False).first.wait_for(timeout=timeout_ms)
+    except PlaywrightTimeout:
+        shot(page, "failed-" + re.sub(r"[^A-Za-z0-9]+", "-", text)[:40])
+        raise
 
 
 def scroll(page, pixels: int) -> None:
