@@ -29,3 +29,27 @@ def test_export_queues_and_lists(tmp_path: Path) -> None:
 def test_send_now_without_office_folder_says_so(tmp_path: Path) -> None:
     with Store.open(tmp_path) as store:
         assert OutboxState(store).send_now().startswith("Not sent: ")
+
+
+def test_send_now_to_a_real_webdav_folder(tmp_path: Path) -> None:
+    from sync_server import DavServer
+
+    from mobile_app.state import SettingsState
+
+    server = DavServer(tmp_path / "server", tmp_path / "requests.log").start()
+    try:
+        with Store.open(tmp_path / "data") as store:
+            job_id = JobsList(store).new_job("Sync test")
+            review = ReviewState(store, job_id)
+            review.add_supervisor("Ann", "135790")
+            review.submit("Sam")
+            review.approve("Ann", "135790")
+            outbox = OutboxState(store)
+            outbox.export_job(job_id)
+            assert SettingsState(store).save_office(server.url, server.user, server.password) == (
+                "Office folder saved")
+            assert outbox.send_now() == "1 sent, 0 waiting"
+            rows = outbox.rows()
+            assert rows[0].sent and "sent " in rows[0].detail and rows[0].detail.endswith(" UTC")
+    finally:
+        server.stop()
