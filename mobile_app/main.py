@@ -6,6 +6,7 @@ Nothing runs at import time; `serve` (called by `python -m mobile_app`) starts t
 from __future__ import annotations
 
 import re
+import sys
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any
@@ -13,7 +14,7 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.palette import app_theme, theme_mode
-from mobile_app.records import NotFoundError, Store
+from mobile_app.records import NotFoundError, Store, StoreError
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
 
@@ -114,18 +115,21 @@ def route_view(shell: Shell, route: str) -> ft.View:
     return _routes()[0][1](shell)
 
 
-def make_main(data_dir: Path | None) -> Callable[[ft.Page], None]:
-    """The Flet entry point for one session, bound to the store folder."""
+def make_main(store: Any) -> Callable[[ft.Page], None]:
+    """The Flet entry point for one session, on the server's one open store.
+
+    Sessions share one store (its lock keeps their transactions apart): opening the file again in
+    the same process would drop the first connection's POSIX locks.
+    """
 
     def main(page: ft.Page) -> None:
         page.title = "Boardside"
         page.theme = app_theme()
         page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
-        shell = Shell(page, Store.open(data_dir))
+        shell = Shell(page, store)
         shell.apply_theme()
         page.on_route_change = lambda _e: shell.render()
-        page.on_close = lambda _e: shell.store.close()
         shell.render()
 
     return main
@@ -133,18 +137,25 @@ def make_main(data_dir: Path | None) -> Callable[[ft.Page], None]:
 
 def serve(port: int, data_dir: Path | None, demo: bool) -> int:
     """Serve the app on 127.0.0.1:`port` with no CDN; with `demo`, create the demo job first."""
-    if demo:
-        from mobile_app.state.jobs import demo_if_empty
+    from mobile_app.state.jobs import demo_if_empty
 
-        with Store.open(data_dir) as store:
+    try:
+        store = Store.open(data_dir)
+    except StoreError as exc:
+        print(f"python -m mobile_app: {exc}", file=sys.stderr)
+        return 2
+    if store.recovered is not None:
+        print(store.recovered.message, file=sys.stderr)
+    with store:
+        if demo:
             demo_if_empty(store)
-    ft.run(
-        make_main(data_dir),
-        view=ft.AppView.WEB_BROWSER,
-        host="127.0.0.1",
-        port=port,
-        no_cdn=True,
-        assets_dir=str(ASSETS_DIR),
-        name="",
-    )
+        ft.run(
+            make_main(store),
+            view=ft.AppView.WEB_BROWSER,
+            host="127.0.0.1",
+            port=port,
+            no_cdn=True,
+            assets_dir=str(ASSETS_DIR),
+            name="",
+        )
     return 0

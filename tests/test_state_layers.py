@@ -56,3 +56,12 @@ def test_main_runs_nothing_at_import_and_serves_only_from_serve() -> None:
     ]
     assert callers == ["serve"]
     assert (main.ASSETS_DIR / "manifest.json").is_file()
+
+
+def test_serve_refuses_an_unusable_folder(tmp_path: Path, capsys) -> None:
+    from mobile_app.main import serve
+
+    blocker = tmp_path / "a-file"
+    blocker.write_text("not a folder")
+    assert serve(port=0, data_dir=blocker / "store", demo=False) == 2
+    assert capsys.readouterr().err.startswith("python -m mobile_app: cannot open the store")
