@@ -25,7 +25,9 @@ def controls(panel: ResultsPanel) -> list[ft.Control]:
         ft.Container(
             ft.Column(
                 [verdict_badge(panel.mark, size=28, key="overall-verdict"),
-                 ft.Text(panel.headline, size=18, weight=ft.FontWeight.BOLD)],
+                 ft.Text(panel.headline, size=18, weight=ft.FontWeight.BOLD),
+                 ft.Row([ft.Icon(ft.Icons.WARNING_AMBER, size=18),
+                         ft.Text(panel.cautions[0], size=13, expand=True)], spacing=6)],
                 spacing=8,
             ),
             padding=ft.Padding.only(bottom=4),
