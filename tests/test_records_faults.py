@@ -11,7 +11,7 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import ConflictError, OpenError, SaveError, Store
+from mobile_app.records import ConflictError, OpenError, ReadOnlyError, SaveError, Store
 
 
 @pytest.fixture
@@ -167,3 +167,30 @@ def test_threads_sharing_one_store_do_not_interleave_transactions(store: Store) 
     saved = [a["new"] for a in store.audit(1) if a["field"] == "description"]
     assert len(saved) == 4 * 25
     assert store.db.conn.execute("PRAGMA integrity_check").fetchone() == ("ok",)
+
+
+def test_opening_a_second_store_keeps_the_first_ones_locks(store: Store) -> None:
+    # POSIX: closing any descriptor of a file drops every lock this process holds on it, so opening
+    # the store file with open() beside a live connection let another process's change be lost.
+    store.get_circuit(1)
+    second = Store.open(store.path.parent)
+    second.close()
+    person = store.add_person("Ada Reviewer", "qualified")
+    submit = (
+        "import sys\n"
+        "from pathlib import Path\n"
+        "from mobile_app.records import Store\n"
+        "s = Store.open(Path(sys.argv[1]))\n"
+        "s.submit_for_review(1, int(sys.argv[2]))\n"
+        "s.close()\n"
+    )
+    root = Path(__file__).resolve().parents[1]
+    subprocess.run(
+        [os.sys.executable, "-c", submit, str(store.path.parent), str(person)],
+        check=True,
+        cwd=root,
+        timeout=60,
+    )
+    with pytest.raises(ReadOnlyError):
+        store.set_circuit_field(1, "zs", "0.9")
+    assert store.get_job(1)["status"] == "submitted"

@@ -191,9 +191,9 @@ def problem_with(path: Path) -> str | None:
     """
     if not path.exists() or path.stat().st_size == 0:
         return None
-    with path.open("rb") as handle:
-        if handle.read(16) != SQLITE_HEADER:
-            return "not an SQLite file"
+    # The file is never opened with open(): closing any other descriptor of a database file drops
+    # the POSIX locks that this process's SQLite connections hold on it, and another process could
+    # then write over them. SQLite itself tells a file that is not a database (SQLITE_NOTADB).
     try:
         conn = sqlite3.connect(str(path), isolation_level=None)
         try:
@@ -201,7 +201,10 @@ def problem_with(path: Path) -> str | None:
         finally:
             conn.close()
     except sqlite3.DatabaseError as error:
-        if getattr(error, "sqlite_errorname", "") in DAMAGE_ERRORS:
+        name = getattr(error, "sqlite_errorname", "")
+        if name == "SQLITE_NOTADB":
+            return "not an SQLite file"
+        if name in DAMAGE_ERRORS:
             return f"unreadable: {error}"
         raise
     if rows != [("ok",)]:
