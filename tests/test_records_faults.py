@@ -5,6 +5,7 @@ from __future__ import annotations
 import contextlib
 import os
 import subprocess
+import sys
 import threading
 from collections.abc import Iterator
 from pathlib import Path
