@@ -187,7 +187,7 @@ def test_opening_a_second_store_keeps_the_first_ones_locks(store: Store) -> None
     )
     root = Path(__file__).resolve().parents[1]
     subprocess.run(
-        [os.sys.executable, "-c", submit, str(store.path.parent), str(person)],
+        [sys.executable, "-c", submit, str(store.path.parent), str(person)],
         check=True,
         cwd=root,
         timeout=60,
