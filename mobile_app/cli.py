@@ -1,7 +1,7 @@
 """Command line of the field app.
 
 `python -m mobile_app [--port P] [--data DIR] [--demo]` serves the app in web mode on 127.0.0.1.
-Subcommands: `demo`, `export`, `sync`. Each subcommand's work lives in its own module; this file
+Subcommands: `demo`, `export`, `sync`, `package`. Each subcommand's work lives in its own module; this file
 only parses arguments and turns typed errors into one-line messages (exit 2).
 """
 
@@ -35,6 +35,9 @@ def build_parser() -> argparse.ArgumentParser:
     export.add_argument("--data", type=Path, default=None, dest="sub_data")
     export.add_argument("--out", type=Path, required=True)
 
+    package = sub.add_parser("package", help="lay out a folder for `flet build apk|ipa|web`")
+    package.add_argument("out", type=Path)
+
     sync = sub.add_parser("sync", help="send what waits in the outbox to the office folder")
     sync.add_argument("--data", type=Path, default=None, dest="sub_data")
     return parser
@@ -51,6 +54,10 @@ def main(argv: list[str] | None = None) -> int:
         from mobile_app.records.export import cli_export
 
         return cli_export(args.job_id, data_dir, args.out)
+    if args.command == "package":
+        from mobile_app.packaging import cli_package
+
+        return cli_package(args.out)
     if args.command == "sync":
         from mobile_app.records.sync import cli_sync
 

@@ -5,6 +5,7 @@ Nothing runs at import time; `serve` (called by `python -m mobile_app`) starts t
 
 from __future__ import annotations
 
+import os
 import re
 import sys
 from collections.abc import Callable
@@ -133,6 +134,13 @@ def make_main(store: Any) -> Callable[[ft.Page], None]:
         shell.render()
 
     return main
+
+
+def run_packaged() -> None:
+    """Entry of a `flet build` package (apk, ipa): the store in the app's own data folder."""
+    data = os.environ.get("FLET_APP_STORAGE_DATA")
+    store = Store.open(Path(data) if data else None)
+    ft.run(make_main(store), assets_dir="assets")
 
 
 def serve(port: int, data_dir: Path | None, demo: bool) -> int:

@@ -28,7 +28,7 @@ def test_manifest_is_ours() -> None:
 def test_icons_match_their_generator() -> None:
     import importlib.util
 
-    spec = importlib.util.spec_from_file_location("make_icons", ASSETS / "make_icons.py")
+    spec = importlib.util.spec_from_file_location("make_icons", Path(__file__).with_name("make_icons.py"))
     assert spec is not None and spec.loader is not None
     module = importlib.util.module_from_spec(spec)
     spec.loader.exec_module(module)

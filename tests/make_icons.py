@@ -2,7 +2,7 @@
 
 The mark: a petrol square with rounded corners, a white board outline with three breakers and
 an amber tick below them.
-Run `python assets/make_icons.py` to write the files beside this script.
+Run `python tests/make_icons.py` to write the files into assets/ (kept out of assets/, which is served).
 """
 
 from __future__ import annotations
@@ -72,7 +72,7 @@ def png_bytes(size: int, maskable: bool = False) -> bytes:
 
 def main() -> None:
     """Write every icon the web client and `flet build` look for."""
-    here = Path(__file__).resolve().parent
+    here = Path(__file__).resolve().parents[1] / "assets"
     files = {
         "icon.png": (512, False),
         "favicon.png": (32, False),
