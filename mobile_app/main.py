@@ -16,6 +16,7 @@ import flet as ft
 
 from mobile_app.components.palette import app_theme, theme_mode
 from mobile_app.records import NotFoundError, Store, StoreError
+from mobile_app.state.recovery import Recovery
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
 
@@ -25,9 +26,10 @@ ASSETS_DIR = Path(__file__).resolve().parent.parent / "assets"
 class Shell:
     """One browser session: its page, its store and the route it shows."""
 
-    def __init__(self, page: ft.Page, store: Any) -> None:
+    def __init__(self, page: ft.Page, store: Any, recovery: Recovery | None = None) -> None:
         self.page = page
         self.store = store
+        self.recovery = recovery or Recovery(None)
         self._walks: dict[int, Walk] = {}
         self._values: dict[str, Any] = {}
         self._renders = 0
@@ -119,16 +121,17 @@ def route_view(shell: Shell, route: str) -> ft.View:
 def make_main(store: Any) -> Callable[[ft.Page], None]:
     """The Flet entry point for one session, on the server's one open store.
 
-    Sessions share one store (its lock keeps their transactions apart): opening the file again in
-    the same process would drop the first connection's POSIX locks.
+    Sessions share one store (its lock keeps their transactions apart) and the notice about a
+    damaged store file, if one was moved aside at open.
     """
+    recovery = Recovery(store.recovered)
 
     def main(page: ft.Page) -> None:
         page.title = "Boardside"
         page.theme = app_theme()
         page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
-        shell = Shell(page, store)
+        shell = Shell(page, store, recovery)
         shell.apply_theme()
         page.on_route_change = lambda _e: shell.render()
         shell.render()

@@ -163,3 +163,32 @@ def test_review_summary_counts(store) -> None:
     job_id = ensure_demo(store)
     summary = ReviewState(store, job_id).summary()
     assert summary.startswith("22 circuits · ") and "failing" in summary and "incomplete" in summary
+
+
+def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) -> None:
+    import sqlite3
+
+    from mobile_app.records import Store
+    from mobile_app.records.core import STORE_FILE
+    from mobile_app.records.demo import create_demo_job
+    from mobile_app.state.recovery import Recovery
+
+    with Store.open(tmp_path) as store:
+        create_demo_job(store)
+    path = tmp_path / STORE_FILE
+    conn = sqlite3.connect(path)
+    root, page_size = conn.execute(
+        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master WHERE name = 'audit'"
+    ).fetchone()
+    conn.close()
+    data = bytearray(path.read_bytes())
+    data[(root - 1) * page_size : (root - 1) * page_size + 12] = b"\x5a" * 12
+    path.write_bytes(bytes(data))
+    with Store.open(tmp_path) as store:
+        recovery = Recovery(store.recovered)
+        assert recovery.visible and "could not be read" in recovery.message
+        assert store.list_jobs() == []
+        said = recovery.recover(store)
+        assert said.startswith("Recovered 1 job from ")
+        assert [job["client_ref"] for job in store.list_jobs()] == ["TY-2026-118"]
+        assert not recovery.visible

@@ -49,6 +49,43 @@ def _job_card(row: JobRow, go: Any) -> ft.Card:
     )
 
 
+def _recovery_banner(shell: Any) -> ft.Control:
+    """The damaged-store notice, with a way to bring back the jobs still readable in the kept file."""
+    recovery = shell.recovery
+
+    def recover(_e: Any) -> None:
+        shell.toast(recovery.recover(shell.store))
+        shell.render()
+
+    def dismiss(_e: Any) -> None:
+        recovery.dismissed = True
+        shell.render()
+
+    return ft.Container(
+        key="store-recovered",
+        padding=12,
+        border_radius=8,
+        border=ft.Border.all(2, "#B3141B"),
+        content=ft.Column(
+            [
+                ft.Row([ft.Icon(ft.Icons.WARNING_AMBER, color="#B3141B"),
+                        ft.Text("Job store moved aside", weight=ft.FontWeight.BOLD, size=16)]),
+                ft.Text(recovery.message),
+                ft.Row(
+                    [
+                        ft.FilledButton("Recover readable jobs", icon=ft.Icons.RESTORE, height=48,
+                                        key="recover-jobs", on_click=recover),
+                        ft.TextButton("Dismiss", height=48, on_click=dismiss),
+                    ],
+                    wrap=True,
+                ),
+            ],
+            spacing=8,
+            tight=True,
+        ),
+    )
+
+
 def build(shell: Any) -> ft.View:
     """The jobs list."""
     jobs = JobsList(shell.store)
@@ -74,7 +111,8 @@ def build(shell: Any) -> ft.View:
         shell.go(f"/job/{ensure_demo(shell.store)}")
 
     fill()
-    body: list[ft.Control] = [
+    body: list[ft.Control] = [_recovery_banner(shell)] if shell.recovery.visible else []
+    body += [
         ft.TextField(
             key="job-search",
             label="Search jobs",
