@@ -3,7 +3,7 @@ by proportion, by the adiabatic minimum size and by the minimum sizes for a sepa
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from calc.devices import BEYOND_CURVE, UPPER_BOUND, Device, OperatingTime
 from calc.errors import InputError
@@ -67,8 +67,7 @@ def _fast(op: OperatingTime) -> bool:
     return op.time_s is not None and op.time_s <= ADIABATIC_MIN_TIME_S + _EPS
 
 
-@dataclass(frozen=True)
-class LineWithstand:
+class LineWithstand(NamedTuple):
     """Result of the line conductor check."""
 
     current_a: float | None
@@ -199,8 +198,7 @@ def line_withstand(
     return LineWithstand(current, withstand, op_time, ok), [time_step, check_step]
 
 
-@dataclass(frozen=True)
-class CpcResult:
+class CpcResult(NamedTuple):
     """Result of the protective conductor checks."""
 
     proportional_min_mm2: float

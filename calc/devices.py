@@ -9,7 +9,7 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import cached_property, lru_cache
-from typing import Protocol
+from typing import NamedTuple, Protocol
 
 from calc import tables
 from calc.inputs import DeviceSpec
@@ -21,8 +21,7 @@ NOT_OPERATING = "not-operating"
 BEYOND_CURVE = "beyond-curve"
 
 
-@dataclass(frozen=True)
-class OperatingTime:
+class OperatingTime(NamedTuple):
     """A device's operating time at one current.
 
     `time_s` is an upper bound of the operating time, or None when the device is not known to operate

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 from collections.abc import Mapping
 from dataclasses import dataclass
-from typing import Any
+from typing import Any, NamedTuple
 
 from calc import tables
 from calc.errors import InputError
@@ -99,8 +99,7 @@ def parse_value(field: str, value: object) -> float:
     return number
 
 
-@dataclass(frozen=True)
-class Supply:
+class Supply(NamedTuple):
     """The supply at the origin: earthing system, nominal voltage to earth, voltage factor, readings."""
 
     system: str
@@ -110,8 +109,7 @@ class Supply:
     pfc_a: float | None
 
 
-@dataclass(frozen=True)
-class DeviceSpec:
+class DeviceSpec(NamedTuple):
     """The protective device as described by the user (not yet its time-current model)."""
 
     kind: str
@@ -120,16 +118,14 @@ class DeviceSpec:
     points: tuple[tuple[float, float], ...] | None
 
 
-@dataclass(frozen=True)
-class Rcd:
+class Rcd(NamedTuple):
     """A residual current device: rated residual operating current and type (general or S)."""
 
     idn_a: float
     type: str
 
 
-@dataclass(frozen=True)
-class Conductor:
+class Conductor(NamedTuple):
     """A line or protective conductor: size, material and the cable's insulation or arrangement."""
 
     csa_mm2: float
@@ -138,8 +134,7 @@ class Conductor:
     arrangement: str | None
 
 
-@dataclass(frozen=True)
-class Readings:
+class Readings(NamedTuple):
     """What was measured on the circuit; any reading may be missing."""
 
     zs_ohm: float | None
@@ -149,8 +144,7 @@ class Readings:
     test_temp_c: float | None
 
 
-@dataclass(frozen=True)
-class CircuitInput:
+class CircuitInput(NamedTuple):
     """Everything one assessment needs, checked and in base units."""
 
     supply: Supply

@@ -3,15 +3,14 @@ formula from material constants that reproduces them."""
 
 from __future__ import annotations
 
-from dataclasses import dataclass
 from functools import lru_cache
+from typing import NamedTuple
 
 from calc import tables
 from calc.formulas import k_from_constants
 
 
-@dataclass(frozen=True)
-class KValue:
+class KValue(NamedTuple):
     """A k value with the temperatures it assumes and where it comes from."""
 
     k: float

@@ -2,19 +2,20 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from functools import lru_cache
+from typing import NamedTuple
 
 from calc import tables
 
 
-@dataclass(frozen=True)
-class TimeLimit:
+class TimeLimit(NamedTuple):
     """A maximum disconnection time and the rule it comes from."""
 
     time_s: float | None
     rule: str
 
 
+@lru_cache(maxsize=256)
 def max_disconnection_time(
     system: str, u0_v: float, role: str, rating_a: float | None, final_circuit_max_a: float
 ) -> TimeLimit:

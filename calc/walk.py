@@ -3,7 +3,7 @@ and the temperature view of the measurement. Conductor checks are in `conductors
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from calc.devices import BEYOND_CURVE, Device, OperatingTime
 from calc.formulas import fault_current_a, max_loop_impedance_ohm, resistance_ratio, touch_voltage_v
@@ -46,8 +46,7 @@ def _system_step(inp: CircuitInput) -> Step:
     )
 
 
-@dataclass(frozen=True)
-class Loop:
+class Loop(NamedTuple):
     """The earth fault loop impedance used for the walk and where it came from."""
 
     zs_ohm: float | None
@@ -333,8 +332,7 @@ def ra_step(inp: CircuitInput, zs_ohm: float | None) -> tuple[bool | None, float
     )
 
 
-@dataclass(frozen=True)
-class Margin:
+class Margin(NamedTuple):
     """The measured Zs against its limit, corrected to the test temperature and by the 0.8 figure."""
 
     limit_at_test_ohm: float | None
