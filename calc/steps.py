@@ -58,11 +58,10 @@ text only when someone reads the steps (the app, the PDF, the JSON), which keeps
 
 def fmt(x: float) -> str:
     """A number for people: four significant figures, no exponent for everyday magnitudes."""
-    magnitude = abs(x)
-    if magnitude >= 1e4:
-        return f"{x:.0f}"
-    if magnitude >= 1e-3 or magnitude == 0:
+    if 1e-3 <= x < 1e4 or -1e4 < x <= -1e-3 or x == 0:
         return f"{x:.4g}"
+    if x >= 1e4 or x <= -1e4:
+        return f"{x:.0f}"
     return f"{x:.3g}"
 
 
