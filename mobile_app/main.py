@@ -160,6 +160,8 @@ def serve(port: int, data_dir: Path | None, demo: bool) -> int:
     with store:
         if demo:
             demo_if_empty(store)
+        print(f"Boardside: open http://127.0.0.1:{port} in a browser (Ctrl+C stops); "
+              f"jobs are kept in {store.path}", flush=True)
         ft.run(
             make_main(store),
             view=ft.AppView.WEB_BROWSER,
