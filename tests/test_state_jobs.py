@@ -192,3 +192,23 @@ def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) 
         assert said.startswith("Recovered 1 job from ")
         assert [job["client_ref"] for job in store.list_jobs()] == ["TY-2026-118"]
         assert not recovery.visible
+
+
+def test_changing_the_final_circuit_scope_reassesses_draft_jobs(tmp_path) -> None:
+    # A gG 40 A final circuit: beyond a 32 A scope it takes 5 s (IEC 60364-4-41 411.3.2.3, max Zs
+    # 1.3 Ω, BS 7671:2018 Table 41.4); within a 63 A scope 0.4 s (Table 41.1, max Zs 0.75 Ω, Table 41.2).
+    from mobile_app.records import Store
+    from mobile_app.state.settings import SettingsState
+
+    with Store.open(tmp_path) as store:
+        job = store.create_job({"client_ref": "S-1", "system": "TN-S"})
+        board = store.add_board(job, "DB1")
+        circuit = store.add_circuit(board, "1", "cooker")
+        for name, raw in [("role", "final"), ("device_kind", "fuse-gg"), ("device_rating", "40"),
+                          ("line_csa", "10"), ("cpc_csa", "4"), ("zs", "1.0")]:
+            store.set_circuit_field(circuit, name, raw)
+        settings = SettingsState(store)
+        settings.set("final_circuit_max_a", "32")
+        assert store.get_circuit(circuit)["verdict"] == "pass"
+        settings.set("final_circuit_max_a", "63")
+        assert store.get_circuit(circuit)["verdict"] == "fail"

@@ -69,7 +69,16 @@ class SettingsState:
             return self.view(key)
         self._typed.pop(key, None)
         self._messages.pop(key, None)
+        if key == "final_circuit_max_a":
+            self._reassess_drafts()
         return self.view(key)
+
+    def _reassess_drafts(self) -> None:
+        """The scope changes which disconnection time applies: draft jobs are assessed again; jobs
+        submitted or approved keep the assessments they were reviewed with."""
+        for job in self.store.list_jobs():
+            if job.get("status") == "draft":
+                self.store.reassess_job(int(job["id"]))
 
     @staticmethod
     def _check(key: str, value: str) -> None:
