@@ -100,3 +100,15 @@ def test_far_beyond_a_limit_reads_as_a_multiple() -> None:
 
     (margin,) = margins_of({"device_time_s": 60.0, "max_disconnection_time_s": 0.4})
     assert margin.text == "150.0 × the limit" and not margin.ok
+
+
+def test_headline_names_the_checks_that_fail() -> None:
+    from mobile_app.state.results import headline
+
+    assert headline("pass", []) == "All checks pass"
+    assert headline("fail", ["disconnection: fail", "protective conductor: fail"]) == (
+        "At least one check fails: disconnection, protective conductor"
+    )
+    assert headline("incomplete", ["line conductor: not decided"]) == (
+        "Not enough to decide yet: line conductor"
+    )

@@ -129,6 +129,14 @@ _HEADLINES = {
 }
 
 
+def headline(verdict: str, reasons: Any) -> str:
+    """The sentence under the verdict, naming the checks that fail or are not decided
+    (calc's `reasons`, e.g. "disconnection: fail")."""
+    text = _HEADLINES.get(verdict, _HEADLINES["incomplete"])
+    names = [str(reason).split(":")[0] for reason in reasons if str(reason).strip()]
+    return f"{text}: {', '.join(names)}" if names and verdict != "pass" else text
+
+
 def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> ResultsPanel:
     """The panel for a circuit as the store returned it (`get_circuit`) and its calc input."""
     assessment = circuit.get("assessment") or {}
@@ -137,7 +145,7 @@ def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> Result
     return ResultsPanel(
         verdict=verdict,
         mark=verdict_mark(verdict),
-        headline=_HEADLINES.get(verdict, _HEADLINES["incomplete"]),
+        headline=headline(verdict, assessment.get("reasons") or ()),
         cards=tuple(_card(step) for step in assessment.get("steps") or ()),
         margins=margins_of(assessment) if assessment else (),
         cautions=CAUTIONS,
