@@ -10,6 +10,7 @@ from calc.conductors import k_values, line_withstand, protective_conductor
 from calc.devices import make_device
 from calc.inputs import CircuitInput, read_input
 from calc.limits import max_disconnection_time
+from calc.margin import margin_steps
 from calc.steps import CAUTIONS, FAIL, INCOMPLETE, PASS, Step, StepThunk
 from calc.version import __version__
 from calc.walk import (
@@ -18,7 +19,6 @@ from calc.walk import (
     fault_current_step,
     limit_step,
     loop_impedance,
-    margin_steps,
     ra_step,
     rcd_step,
     system_step,
