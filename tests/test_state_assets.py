@@ -34,3 +34,14 @@ def test_icons_match_their_generator() -> None:
     spec.loader.exec_module(module)
     assert (ASSETS / "favicon.png").read_bytes() == module.png_bytes(32)
     assert png_size(ASSETS / "icon.png") == (512, 512)
+
+
+def test_index_html_is_flet_webs_own_with_our_names() -> None:
+    # assets/index.html replaces flet-web's page (same patching by the server): after a flet-web
+    # upgrade, run `python tests/make_index.py` again.
+    from make_index import flet_web_index, patched_index
+
+    ours = (ASSETS / "index.html").read_text(encoding="utf-8")
+    assert ours == patched_index(flet_web_index())
+    assert "<title>Boardside</title>" in ours
+    assert '<meta name="apple-mobile-web-app-title" content="Boardside">' in ours
