@@ -112,3 +112,27 @@ def test_headline_names_the_checks_that_fail() -> None:
     assert headline("incomplete", ["line conductor: not decided"]) == (
         "Not enough to decide yet: line conductor"
     )
+
+
+def test_margins_follow_what_decides_the_verdict() -> None:
+    # An RCD clearing in 0.04 s decides disconnection, not the breaker's 60 s; a CPC that meets the
+    # proportional rule (IEC 60364-5-54 Table 54.2) is measured against it, not the adiabatic size.
+    from mobile_app.state.results import margins_of
+
+    margins = {
+        m.label: m
+        for m in margins_of(
+            {
+                "device_time_s": 60.0,
+                "disconnection_time_s": 0.04,
+                "max_disconnection_time_s": 0.2,
+                "cpc_by_proportional_rule": True,
+                "cpc_adiabatic_ok": False,
+                "cpc_proportional_min_mm2": 2.5,
+                "cpc_min_csa_mm2": 15.8,
+                "inputs": {"circuit": {"cpc": {"csa": 2.5}}},
+            }
+        )
+    }
+    assert margins["Disconnection time"].ok
+    assert margins["CPC size against the proportional rule"].ok

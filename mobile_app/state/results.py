@@ -77,14 +77,21 @@ def margins_of(assessment: dict[str, Any]) -> tuple[Margin, ...]:
     measured = inputs.get("measured") or {}
     cpc = (inputs.get("circuit") or {}).get("cpc") or {}
     zs = _num(assessment.get("zs_ohm")) or _num(measured.get("zs"))
+    # The time that clears the fault: the device's, or an RCD's where that is faster.
+    clearing = _num(assessment.get("disconnection_time_s"))
+    if clearing is None:
+        clearing = _num(assessment.get("device_time_s"))
+    # The CPC passes by the adiabatic size or by proportion: measure against the one that is met.
+    by_rule_only = assessment.get("cpc_by_proportional_rule") and assessment.get("cpc_adiabatic_ok") is False
+    cpc_label, cpc_min = (
+        ("CPC size against the proportional rule", _num(assessment.get("cpc_proportional_min_mm2")))
+        if by_rule_only
+        else ("CPC size against the minimum", _num(assessment.get("cpc_min_csa_mm2")))
+    )
     candidates = (
         _margin("Zs against its maximum", zs, _num(assessment.get("zs_max_ohm")), "Ω", upper=True),
         _margin(
-            "Disconnection time",
-            _num(assessment.get("device_time_s")),
-            _num(assessment.get("max_disconnection_time_s")),
-            "s",
-            upper=True,
+            "Disconnection time", clearing, _num(assessment.get("max_disconnection_time_s")), "s", upper=True
         ),
         _margin(
             "Line withstand time against clearing time",
@@ -93,13 +100,7 @@ def margins_of(assessment: dict[str, Any]) -> tuple[Margin, ...]:
             "s",
             upper=False,
         ),
-        _margin(
-            "CPC size against the minimum",
-            _num(cpc.get("csa")),
-            _num(assessment.get("cpc_min_csa_mm2")),
-            "mm²",
-            upper=False,
-        ),
+        _margin(cpc_label, _num(cpc.get("csa")), cpc_min, "mm²", upper=False),
     )
     return tuple(m for m in candidates if m is not None)
 
