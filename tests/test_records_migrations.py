@@ -8,6 +8,7 @@ from pathlib import Path
 
 import pytest
 import sqlite_utils
+from damage import overwrite_root_page
 
 from mobile_app.records import MigrationError, Store, StoreTooNewError
 from mobile_app.records.core import STORE_FILE
@@ -178,20 +179,11 @@ def test_a_file_that_is_not_sqlite_is_moved_aside(tmp_path: Path) -> None:
 def test_a_damaged_store_is_moved_aside_with_its_bytes(tmp_path: Path) -> None:
     with Store.open(tmp_path) as store:
         create_demo_job(store)
-    path = tmp_path / STORE_FILE
-    conn = sqlite3.connect(path)
-    root, page_size = conn.execute(
-        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master WHERE name = 'circuits'"
-    ).fetchone()
-    conn.close()
-    data = bytearray(path.read_bytes())
-    offset = (root - 1) * page_size
-    data[offset : offset + 12] = b"\x5a" * 12
-    path.write_bytes(bytes(data))
+    data = overwrite_root_page(tmp_path / STORE_FILE, "circuits")
     with Store.open(tmp_path) as store:
         moved = store.recovered
         assert moved is not None and moved.reason.startswith("unreadable")
-        assert moved.moved_to.read_bytes() == bytes(data)
+        assert moved.moved_to.read_bytes() == data
         assert store.list_jobs() == []
     with Store.open(tmp_path) as again:
         assert again.recovered is None

@@ -3,10 +3,10 @@
 from __future__ import annotations
 
 import json
-import sqlite3
 from pathlib import Path
 
 import pytest
+from damage import overwrite_root_page
 
 from mobile_app.records import Store, salvage_jobs
 from mobile_app.records.core import STORE_FILE
@@ -19,16 +19,7 @@ def damage(folder: Path, table: str) -> Path:
     with Store.open(folder) as store:
         create_demo_job(store)
         create_demo_job(store)
-    path = folder / STORE_FILE
-    conn = sqlite3.connect(path)
-    root, page_size = conn.execute(
-        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master WHERE name = ?",
-        (table,),
-    ).fetchone()
-    conn.close()
-    data = bytearray(path.read_bytes())
-    data[(root - 1) * page_size : (root - 1) * page_size + 12] = b"\x5a" * 12
-    path.write_bytes(bytes(data))
+    overwrite_root_page(folder / STORE_FILE, table)
     with Store.open(folder) as store:
         assert store.recovered is not None
         return store.recovered.moved_to

@@ -166,7 +166,7 @@ def test_review_summary_counts(store) -> None:
 
 
 def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) -> None:
-    import sqlite3
+    from damage import overwrite_root_page
 
     from mobile_app.records import Store
     from mobile_app.records.core import STORE_FILE
@@ -175,15 +175,7 @@ def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) 
 
     with Store.open(tmp_path) as store:
         create_demo_job(store)
-    path = tmp_path / STORE_FILE
-    conn = sqlite3.connect(path)
-    root, page_size = conn.execute(
-        "SELECT rootpage, (SELECT page_size FROM pragma_page_size) FROM sqlite_master WHERE name = 'audit'"
-    ).fetchone()
-    conn.close()
-    data = bytearray(path.read_bytes())
-    data[(root - 1) * page_size : (root - 1) * page_size + 12] = b"\x5a" * 12
-    path.write_bytes(bytes(data))
+    overwrite_root_page(tmp_path / STORE_FILE, "audit")
     with Store.open(tmp_path) as store:
         recovery = Recovery(store.recovered)
         assert recovery.visible and "could not be read" in recovery.message
