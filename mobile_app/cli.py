@@ -47,11 +47,11 @@ def main(argv: list[str] | None = None) -> int:
     args = build_parser().parse_args(argv)
     data_dir = getattr(args, "sub_data", None) or args.data
     if args.command == "demo":
-        from mobile_app.records.demo import cli_demo
+        from mobile_app.store.demo import cli_demo
 
         return cli_demo(data_dir)
     if args.command == "export":
-        from mobile_app.records.export import cli_export
+        from mobile_app.export.cli import cli_export
 
         return cli_export(args.job_id, data_dir, args.out)
     if args.command == "package":
@@ -59,7 +59,7 @@ def main(argv: list[str] | None = None) -> int:
 
         return cli_package(args.out)
     if args.command == "sync":
-        from mobile_app.records.sync import cli_sync
+        from mobile_app.sync.cli import cli_sync
 
         return cli_sync(data_dir)
     from mobile_app.main import serve

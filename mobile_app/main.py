@@ -15,10 +15,10 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.palette import app_theme, theme_mode
-from mobile_app.records import NotFoundError, Store, StoreError
 from mobile_app.state.recovery import Recovery
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
+from mobile_app.store import NotFoundError, Store, StoreError
 
 ASSETS_DIR = Path(__file__).resolve().parent.parent / "assets"
 

@@ -68,7 +68,7 @@ def first_frame_s(browser, command: list[str], port: int) -> float:
 
 def store_first_circuit(data_dir: Path, job_id: int) -> int:
     """The id of the first circuit of a job's first board."""
-    from mobile_app.records import Store
+    from mobile_app.store import Store
 
     with Store.open(data_dir) as store:
         board = store.boards(job_id)[0]["id"]
@@ -94,8 +94,8 @@ def main() -> int:
         return 0
     from playwright.sync_api import sync_playwright
 
-    from mobile_app.records import Store
     from mobile_app.state import JobScreen, JobsList, Walk
+    from mobile_app.store import Store
 
     with tempfile.TemporaryDirectory() as tmp, sync_playwright() as pw:
         browser = pw.chromium.launch(executable_path=str(CHROMIUM), args=CHROMIUM_ARGS)

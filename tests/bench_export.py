@@ -27,13 +27,13 @@ sys.path.insert(0, str(ROOT))
 
 from pypdf import PdfReader  # noqa: E402
 
-from mobile_app.records import Store  # noqa: E402
-from mobile_app.records.export import (  # noqa: E402
+from mobile_app.export import (  # noqa: E402
     export_bundle,
     job_csv_bytes,
     job_json_bytes,
     job_pdf_bytes,
 )
+from mobile_app.store import Store  # noqa: E402
 
 BOARDS, CIRCUITS_PER_BOARD = 10, 50
 TARGET_S = 5.0

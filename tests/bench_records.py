@@ -28,7 +28,7 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 import calc  # noqa: E402
-from mobile_app.records import Store  # noqa: E402
+from mobile_app.store import Store  # noqa: E402
 
 SAVES = 200
 ROUNDS = 5

@@ -22,9 +22,9 @@ sys.path[:0] = [str(HERE.parent), str(HERE)]
 import httpx  # noqa: E402
 from sync_server import DavServer, make_bundle  # noqa: E402
 
-from mobile_app.records import Store  # noqa: E402
-from mobile_app.records.outbox import Outbox  # noqa: E402
-from mobile_app.records.sync import SyncTarget, sync_once  # noqa: E402
+from mobile_app.store import Store  # noqa: E402
+from mobile_app.sync import SyncTarget, sync_once  # noqa: E402
+from mobile_app.sync.outbox import Outbox  # noqa: E402
 
 
 def make_bundles(parent: Path, count: int) -> list[Path]:

@@ -81,7 +81,7 @@ def stop_server(process: subprocess.Popen[bytes]) -> None:
 @pytest.fixture
 def server(tmp_path: Path) -> Iterator[str]:
     """A running app with an empty store and one supervisor; yields its base URL."""
-    from mobile_app.records import Store
+    from mobile_app.store import Store
 
     with Store.open(tmp_path) as store:
         store.add_person(SUPERVISOR, "supervisor", PIN)

@@ -14,18 +14,18 @@ from pathlib import Path
 import pytest
 from pypdf import PdfReader
 
-import mobile_app.records.bundle as bundle_module
-from mobile_app.records import NotFoundError, Store
-from mobile_app.records.bundle import MANIFEST_NAME, bundle_base_name, slug
-from mobile_app.records.demo import DEMO_PIN, create_demo_job
-from mobile_app.records.export import (
+import mobile_app.export.bundle as bundle_module
+from mobile_app.export import (
     BundleCheckError,
     BundleExistsError,
     export_bundle,
     load_job_json,
     read_bundle,
 )
-from mobile_app.records.sync import save_target
+from mobile_app.export.bundle import MANIFEST_NAME, bundle_base_name, slug
+from mobile_app.store import NotFoundError, Store
+from mobile_app.store.demo import DEMO_PIN, create_demo_job
+from mobile_app.sync import save_target
 
 ROOT = Path(__file__).resolve().parents[1]
 

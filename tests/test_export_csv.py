@@ -11,10 +11,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from mobile_app.records import Store
-from mobile_app.records.demo import create_demo_job
-from mobile_app.records.export import job_csv_bytes, neutralise_cell
-from mobile_app.records.export_csv import csv_cell, csv_headers
+from mobile_app.export import job_csv_bytes, neutralise_cell
+from mobile_app.export.csv_doc import csv_cell, csv_headers
+from mobile_app.store import Store
+from mobile_app.store.demo import create_demo_job
 
 # Cells a spreadsheet would run as a formula (OWASP "CSV injection", common practice) and plain
 # numbers that must stay numbers: (text, expected cell).

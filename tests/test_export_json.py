@@ -12,12 +12,13 @@ from typing import Any
 
 import pytest
 
-import mobile_app.records as records
-import mobile_app.records.export_json as export_json
-from mobile_app.records import Store
-from mobile_app.records.demo import DEMO_PIN, create_demo_job
-from mobile_app.records.errors import DocumentError, ReadOnlyError
-from mobile_app.records.export import CAUTIONS, import_job_json, job_json_bytes, load_job_json
+import mobile_app.export as export_package
+import mobile_app.export.json_doc as export_json
+import mobile_app.store as store_package
+from mobile_app.export import CAUTIONS, import_job_json, job_json_bytes, load_job_json
+from mobile_app.store import Store
+from mobile_app.store.demo import DEMO_PIN, create_demo_job
+from mobile_app.store.errors import DocumentError, ReadOnlyError
 
 FORMAT_MD = Path(export_json.__file__).with_name("EXPORT-FORMAT.md")
 # The assessment keys the calculation core's contract promises (the core may add more: the format
@@ -189,7 +190,11 @@ def test_values_json_cannot_hold_are_refused() -> None:
         job_json_bytes(doc)
 
 
-def test_every_records_module_raises_the_stores_one_document_error() -> None:
-    names = [m.name for m in pkgutil.iter_modules(records.__path__, "mobile_app.records.")]
+def test_the_store_and_the_export_raise_the_stores_one_document_error() -> None:
+    names = [
+        m.name
+        for package in (store_package, export_package)
+        for m in pkgutil.iter_modules(package.__path__, package.__name__ + ".")
+    ]
     found = {name: getattr(importlib.import_module(name), "DocumentError", None) for name in names}
-    assert {cls for cls in found.values() if cls is not None} == {records.DocumentError}
+    assert {cls for cls in found.values() if cls is not None} == {store_package.DocumentError}

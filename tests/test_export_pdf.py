@@ -10,10 +10,10 @@ from pathlib import Path
 import pytest
 from pypdf import PdfReader
 
-from mobile_app.records import Store
-from mobile_app.records.demo import DEMO_PIN, create_demo_job
-from mobile_app.records.export import CAUTIONS, job_pdf_bytes
-from mobile_app.records.export_pdf_layout import FONT, JobPdf, wrap_text
+from mobile_app.export import CAUTIONS, job_pdf_bytes
+from mobile_app.export.pdf_layout import FONT, JobPdf, wrap_text
+from mobile_app.store import Store
+from mobile_app.store.demo import DEMO_PIN, create_demo_job
 
 
 @pytest.fixture(scope="module")

@@ -34,7 +34,7 @@ def test_staged_code_imports_and_assesses_on_its_own(staged: Path) -> None:
     src = staged / "src"
     script = (
         "import sys; sys.path.insert(0, sys.argv[1])\n"
-        "import calc, mobile_app.main, mobile_app.records.export\n"
+        "import calc, mobile_app.main, mobile_app.export.bundle, mobile_app.sync.runner\n"
         "assert calc.__file__.startswith(sys.argv[1]), calc.__file__\n"
         "d = {'supply': {'system': 'TT'}, 'circuit': {'device': {'kind': 'mcb', 'curve': 'B', 'rating': 6},"
         " 'line': {'csa': 1.5}, 'cpc': {'csa': 1.0}}, 'measured': {'zs': 1.0}}\n"

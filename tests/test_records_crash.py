@@ -13,8 +13,8 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import Store
-from mobile_app.records.core import STORE_FILE
+from mobile_app.store import Store
+from mobile_app.store.core import STORE_FILE
 
 ROOT = Path(__file__).resolve().parents[1]
 KILLS = 25
@@ -24,7 +24,7 @@ KILLS = 25
 CHILD = """
 import sys
 from pathlib import Path
-from mobile_app.records import Store
+from mobile_app.store import Store
 store = Store.open(Path(sys.argv[1]))
 run = int(sys.argv[2])
 ids = [int(i) for i in sys.argv[3].split(",")]
@@ -114,7 +114,7 @@ SUPPLY_KILLS = 8
 SUPPLY_CHILD = """
 import sys
 from pathlib import Path
-from mobile_app.records import Store
+from mobile_app.store import Store
 store = Store.open(Path(sys.argv[1]))
 print("ready", flush=True)
 n = 0

@@ -12,7 +12,7 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import ConflictError, OpenError, ReadOnlyError, SaveError, Store
+from mobile_app.store import ConflictError, OpenError, ReadOnlyError, SaveError, Store
 
 
 @pytest.fixture
@@ -180,7 +180,7 @@ def test_opening_a_second_store_keeps_the_first_ones_locks(store: Store) -> None
     submit = (
         "import sys\n"
         "from pathlib import Path\n"
-        "from mobile_app.records import Store\n"
+        "from mobile_app.store import Store\n"
         "s = Store.open(Path(sys.argv[1]))\n"
         "s.submit_for_review(1, int(sys.argv[2]))\n"
         "s.close()\n"

@@ -10,11 +10,11 @@ import pytest
 import sqlite_utils
 from damage import overwrite_root_page
 
-from mobile_app.records import MigrationError, Store, StoreTooNewError
-from mobile_app.records.core import STORE_FILE
-from mobile_app.records.demo import create_demo_job
-from mobile_app.records.fields import parse_field
-from mobile_app.records.schema import SCHEMA_VERSION, STEPS, build_migrations, migrate
+from mobile_app.store import MigrationError, Store, StoreTooNewError
+from mobile_app.store.core import STORE_FILE
+from mobile_app.store.demo import create_demo_job
+from mobile_app.store.fields import parse_field
+from mobile_app.store.schema import SCHEMA_VERSION, STEPS, build_migrations, migrate
 
 CIRCUIT_TYPED = {
     "number": "1",

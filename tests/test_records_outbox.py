@@ -9,9 +9,9 @@ from pathlib import Path
 import pytest
 from sync_server import make_bundle
 
-from mobile_app.records import Store
-from mobile_app.records.core import db_lock
-from mobile_app.records.outbox import Outbox
+from mobile_app.store import Store
+from mobile_app.store.core import db_lock
+from mobile_app.sync.outbox import Outbox
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 ROUNDS = 30

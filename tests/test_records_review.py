@@ -7,14 +7,14 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import (
+from mobile_app.store import (
     LockedOutError,
     PinError,
     ReadOnlyError,
     ReviewError,
     Store,
 )
-from mobile_app.records.pins import LOCKOUT_S, MAX_WRONG_PINS, hash_pin, pin_matches
+from mobile_app.store.pins import LOCKOUT_S, MAX_WRONG_PINS, hash_pin, pin_matches
 
 PIN = "482913"
 

@@ -12,9 +12,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import calc
-from mobile_app.records import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Store
-from mobile_app.records.demo import DEMO_PIN, create_demo_job
-from mobile_app.records.errors import DocumentError, ReadOnlyError, ReviewError
+from mobile_app.store import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Store
+from mobile_app.store.demo import DEMO_PIN, create_demo_job
+from mobile_app.store.errors import DocumentError, ReadOnlyError, ReviewError
 
 ODD = [
     "",

@@ -8,9 +8,9 @@ from pathlib import Path
 import pytest
 from damage import overwrite_root_page
 
-from mobile_app.records import Store, salvage_jobs
-from mobile_app.records.core import STORE_FILE
-from mobile_app.records.demo import create_demo_job
+from mobile_app.store import Store, salvage_jobs
+from mobile_app.store.core import STORE_FILE
+from mobile_app.store.demo import create_demo_job
 
 
 def damage(folder: Path, table: str) -> Path:

@@ -11,16 +11,16 @@ from pathlib import Path
 import platformdirs
 import pytest
 
-from mobile_app.records import (
+from mobile_app.store import (
     CIRCUIT_FIELDS,
     JOB_FIELDS,
     NotFoundError,
     Store,
     UnknownFieldError,
 )
-from mobile_app.records.core import default_data_dir
-from mobile_app.records.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
-from mobile_app.records.errors import InvalidValueError
+from mobile_app.store.core import default_data_dir
+from mobile_app.store.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
+from mobile_app.store.errors import InvalidValueError
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -6,9 +6,9 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import Store
 from mobile_app.state import CurveDraft, JobScreen, JobsList, ReviewState, SettingsState, Walk
 from mobile_app.state.jobs import demo_if_empty, ensure_demo
+from mobile_app.store import Store
 
 
 @pytest.fixture
@@ -168,10 +168,10 @@ def test_review_summary_counts(store) -> None:
 def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) -> None:
     from damage import overwrite_root_page
 
-    from mobile_app.records import Store
-    from mobile_app.records.core import STORE_FILE
-    from mobile_app.records.demo import create_demo_job
     from mobile_app.state.recovery import Recovery
+    from mobile_app.store import Store
+    from mobile_app.store.core import STORE_FILE
+    from mobile_app.store.demo import create_demo_job
 
     with Store.open(tmp_path) as store:
         create_demo_job(store)
@@ -189,8 +189,8 @@ def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) 
 def test_changing_the_final_circuit_scope_reassesses_draft_jobs(tmp_path) -> None:
     # A gG 40 A final circuit: beyond a 32 A scope it takes 5 s (IEC 60364-4-41 411.3.2.3, max Zs
     # 1.3 Ω, BS 7671:2018 Table 41.4); within a 63 A scope 0.4 s (Table 41.1, max Zs 0.75 Ω, Table 41.2).
-    from mobile_app.records import Store
     from mobile_app.state.settings import SettingsState
+    from mobile_app.store import Store
 
     with Store.open(tmp_path) as store:
         job = store.create_job({"client_ref": "S-1", "system": "TN-S"})

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from mobile_app.records import Store
 from mobile_app.state import JobsList, ReviewState
 from mobile_app.state.outbox import OutboxState
+from mobile_app.store import Store
 
 
 def test_export_queues_and_lists(tmp_path: Path) -> None:

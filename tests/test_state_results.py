@@ -7,10 +7,10 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import Store
 from mobile_app.state import CAUTIONS, JobScreen, JobsList, Walk
 from mobile_app.state.chart import withstand_points
 from mobile_app.state.text import format_quantity, verdict_mark
+from mobile_app.store import Store
 
 
 @pytest.fixture

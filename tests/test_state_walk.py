@@ -6,8 +6,8 @@ from pathlib import Path
 
 import pytest
 
-from mobile_app.records import Store
 from mobile_app.state import STEPS, JobScreen, JobsList, Walk
+from mobile_app.store import Store
 
 
 @pytest.fixture

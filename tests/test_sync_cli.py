@@ -11,14 +11,14 @@ import pytest
 from sync_server import DavServer, make_bundle
 
 from mobile_app.cli import main
-from mobile_app.records import Store
-from mobile_app.records.outbox import Outbox
-from mobile_app.records.sync import (
+from mobile_app.store import Store
+from mobile_app.sync import (
     InsecureTargetError,
     NotConfiguredError,
     load_target,
     save_target,
 )
+from mobile_app.sync.outbox import Outbox
 
 ROOT = Path(__file__).resolve().parents[1]
 

@@ -9,9 +9,9 @@ from datetime import UTC, datetime, timedelta
 import pytest
 from sync_server import DavServer, make_bundle, tree_hashes
 
-from mobile_app.records import Store
-from mobile_app.records.outbox import Outbox
-from mobile_app.records.sync import SyncTarget, sync_once
+from mobile_app.store import Store
+from mobile_app.sync import SyncTarget, sync_once
+from mobile_app.sync.outbox import Outbox
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 WRONG = "Wr0ng-Passw0rd%x"

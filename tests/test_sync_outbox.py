@@ -16,20 +16,22 @@ from hypothesis import strategies as st
 from sqlite_utils import Database
 from sync_server import make_bundle
 
-from mobile_app.records.outbox import BundleError, Outbox, UnknownBundleError, iso, safe_name
-from mobile_app.records.sync import (
-    BACKOFF_S,
+from mobile_app.sync import (
+    BundleError,
     InsecureTargetError,
+    Outbox,
     ProtocolError,
     SyncTarget,
-    backoff_s,
+    UnknownBundleError,
     check_url,
     load_password,
     save_password,
     scrub,
     sync_once,
 )
-from mobile_app.records.sync_target import parse_is_collection
+from mobile_app.sync.outbox import iso, safe_name
+from mobile_app.sync.runner import BACKOFF_S, backoff_s
+from mobile_app.sync.target import parse_is_collection
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 _SOCKET_EVENTS: list[str] = []

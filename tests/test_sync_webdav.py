@@ -10,9 +10,9 @@ from datetime import UTC, datetime, timedelta
 import pytest
 from sync_server import DavServer, make_bundle, self_signed_cert, tree_hashes
 
-from mobile_app.records import Store
-from mobile_app.records.outbox import Outbox
-from mobile_app.records.sync import SyncTarget, SyncTask, save_target, sync_once
+from mobile_app.store import Store
+from mobile_app.sync import SyncTarget, SyncTask, save_target, sync_once
+from mobile_app.sync.outbox import Outbox
 
 T0 = datetime(2026, 12, 2, 8, 0, tzinfo=UTC)
 
@@ -112,8 +112,8 @@ def test_200_bundles_each_arrive_once_byte_identical(tmp_path, dav):
 
 
 def test_an_exported_job_bundle_is_sent_whole(tmp_path, dav):
-    from mobile_app.records.bundle import export_bundle
-    from mobile_app.records.demo import create_demo_job
+    from mobile_app.export import export_bundle
+    from mobile_app.store.demo import create_demo_job
 
     store = Store.open(tmp_path / "data")
     save_target(store, dav.url, dav.user, dav.password)

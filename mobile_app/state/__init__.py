@@ -1,7 +1,8 @@
 """Screen state of the field app: plain Python, no Flet.
 
 Views read these objects and call their methods; every number, message and step rule lives here
-(or below, in `mobile_app.records` and `calc`), so the screens' behaviour is testable without a browser.
+(or below, in `mobile_app.sync`, `mobile_app.export`, `mobile_app.store` and `calc`), so the screens'
+behaviour is testable without a browser.
 """
 
 from mobile_app.state.chart import ChartModel, ChartSeries, chart_for

@@ -1,6 +1,6 @@
 """What each step of the walk asks for: the circuit's fields, their labels, units and choices.
 
-Field names are the store's flat circuit field names (`mobile_app.records.CIRCUIT_FIELDS`); the store
+Field names are the store's flat circuit field names (`mobile_app.store.CIRCUIT_FIELDS`); the store
 parses each by its calc path, and the walk turns a parse error into a message naming the field.
 """
 

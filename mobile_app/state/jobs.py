@@ -6,10 +6,10 @@ import datetime
 from dataclasses import dataclass
 from typing import Any
 
-from mobile_app.records import StoreError
 from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, Choice, FieldSpec, all_specs
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.text import VerdictMark, format_quantity, status_word, verdict_mark
+from mobile_app.store import StoreError
 
 
 @dataclass(frozen=True)
@@ -223,8 +223,8 @@ class JobScreen:
 
 
 def ensure_demo(store: Any) -> int:
-    """The demo job's id, creating it (`mobile_app.records.demo`) if the store does not hold it."""
-    from mobile_app.records import demo
+    """The demo job's id, creating it (`mobile_app.store.demo`) if the store does not hold it."""
+    from mobile_app.store import demo
 
     for job in store.list_jobs(demo.JOB["client_ref"]):
         if job.get("client_ref") == demo.JOB["client_ref"]:

@@ -6,9 +6,9 @@ from dataclasses import dataclass, field
 from typing import Any
 
 import calc
-from mobile_app.records import StoreError
 from mobile_app.state.chart import ChartModel, chart_for
 from mobile_app.state.text import format_quantity
+from mobile_app.store import StoreError
 
 MIN_POINTS = 2
 

@@ -6,8 +6,8 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from mobile_app.records import StoreError
-from mobile_app.records.outbox import Outbox, OutboxError
+from mobile_app.store import StoreError
+from mobile_app.sync import Outbox, OutboxError
 
 
 @dataclass(frozen=True)
@@ -59,7 +59,7 @@ class OutboxState:
 
     def send_now(self) -> str:
         """Send every waiting export now; returns what happened in plain words."""
-        from mobile_app.records.sync import SyncError, load_target, sync_once
+        from mobile_app.sync import SyncError, load_target, sync_once
 
         try:
             report = sync_once(self.store, load_target(self.store), force=True)
@@ -71,7 +71,7 @@ class OutboxState:
 
     def export_job(self, job_id: int) -> str:
         """Export a job's bundle (JSON, CSV, PDF) and queue it for the office."""
-        from mobile_app.records.export import export_bundle
+        from mobile_app.export import export_bundle
 
         out_dir = Path(self.store.path).parent / "exports"
         out_dir.mkdir(parents=True, exist_ok=True)

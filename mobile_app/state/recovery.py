@@ -6,7 +6,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from mobile_app.records import MovedAside, StoreError, salvage_jobs
+from mobile_app.store import MovedAside, StoreError, salvage_jobs
 
 
 @dataclass

@@ -5,8 +5,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from mobile_app.records import LockedOutError, PinError, StoreError
 from mobile_app.state.text import status_word
+from mobile_app.store import LockedOutError, PinError, StoreError
 
 
 @dataclass(frozen=True)

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 from typing import Any
 
 import calc
-from mobile_app.records import StoreError
+from mobile_app.store import StoreError
 
 DEFAULTS: dict[str, str] = {
     "default_system": "TN-C-S",
@@ -108,7 +108,7 @@ class SettingsState:
 
     def save_office(self, url: str, user: str, password: str) -> str:
         """Check and save the office folder (password kept beside the store, never in settings)."""
-        from mobile_app.records.sync import SyncError, save_target
+        from mobile_app.sync import SyncError, save_target
 
         try:
             save_target(self.store, url.strip(), user.strip(), password)

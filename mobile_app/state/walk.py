@@ -5,10 +5,10 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
-from mobile_app.records import StoreError
 from mobile_app.state.fields import STEP_TITLES, STEPS, Choice, FieldSpec, label_for, specs_for_step
 from mobile_app.state.results import ResultsPanel, results_panel
 from mobile_app.state.text import format_quantity
+from mobile_app.store import StoreError
 
 
 @dataclass(frozen=True)

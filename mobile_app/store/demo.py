@@ -9,8 +9,8 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from mobile_app.records.errors import StoreError
-from mobile_app.records.store import Store
+from mobile_app.store.errors import StoreError
+from mobile_app.store.store import Store
 
 DEMO_PIN = "2468"
 DEMO_CURVE_NAME = "Workshop incomer 100 A moulded-case breaker (demo points, invented)"

@@ -1,8 +1,10 @@
-"""Job records on the device: the local store (sqlite-utils), never importing Flet.
+"""The job store on the device (sqlite-utils): jobs, boards, circuits, review, people, settings.
+
+It imports only calc; exports live in `mobile_app.export`, the outbox and sync in `mobile_app.sync`.
 
 Public surface (the store API agreed with the app, export and sync; additions marked *added*):
 
-    from mobile_app.records import Store
+    from mobile_app.store import Store
     store = Store.open(data_dir)        # None -> platformdirs user data dir; WAL, FKs,
                                         # integrity check, migrations (backup first);
                                         # a bad file is moved aside
@@ -20,7 +22,7 @@ Public surface (the store API agreed with the app, export and sync; additions ma
               boards(job_id)
               set_board_field(board_id, name, raw, by=None, expected_version=None) -> dict
               BOARD_FIELDS *added* system and ze: blank = the job's supply (a TT outbuilding board
-              has its own)
+              has its own); JOB_FIELDS, BOARD_FIELDS, CIRCUIT_FIELDS name every field
     circuits: add_circuit(board_id, number, description="", by=None) -> id ; circuits(board_id)
               get_circuit(id)
               set_circuit_field(circuit_id, name, raw, by=None, expected_version=None)
@@ -36,30 +38,11 @@ Public surface (the store API agreed with the app, export and sync; additions ma
     documents: job_document(job_id) -> dict ; import_job_document(doc) -> id (the job as it was
               exported: status, revision, review, people, assessments, audit; one transaction)
 
-Export (`mobile_app.records.export`; formats in EXPORT-FORMAT.md):
-    export_bundle(store, job_id, out_dir, board_id=None) -> Bundle   # JSON, CSV, PDF + manifest
-    read_bundle(path) -> Bundle          # re-checks every SHA-256 (BundleCheckError)
-    import_job_json(store, data) -> id   # a JSON export back into the store (DocumentError)
-    cli_export(job_id, data_dir, out_dir) -> exit code   # `python -m mobile_app export`
-
-Outbox (`mobile_app.records.outbox`): Outbox(store.db) — enqueue(bundle_dir, job_id, revision)
-    -> id, waiting(), sent(), due(), get(id), mark_sent(id), mark_failed(...), last_error();
-    it takes the store's lock, so it may share a Store with other threads.
-
-Sync (`mobile_app.records.sync`, WebDAV):
-    SyncTarget(url, user, password) ; save_target(store, url, user, password) ;
-    load_target(store) -> SyncTarget (NotConfiguredError, InsecureTargetError)
-    sync_once(store, target, force=False) -> SyncReport ; sync_store(store, force=False) -> SyncReport
-    SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background, its own Store
-    cli_sync(data_dir) -> exit code      # `python -m mobile_app sync`
-
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
 ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (*added*: the folder
 cannot be opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or
 curve), DocumentError (an import that is not a boardside-job document; the export raises this
-same class). The export adds ExportError (a StoreError) with BundleExistsError and
-BundleCheckError; the outbox raises OutboxError and the sync SyncError (neither is a StoreError),
-each with subclasses of its own.
+same class; `mobile_app.export` adds ExportError, a StoreError, with subclasses of its own).
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
 
 Settings read by the store: "default_system", "default_u0" (text, "230 V"), "default_cmin"
@@ -69,7 +52,7 @@ list_jobs() has version, parent_job_id, superseded (a newer revision exists) and
 audit() rows are id, when, who, person_id, entity, entity_id, field, what, old, new.
 """
 
-from mobile_app.records.errors import (
+from mobile_app.store.errors import (
     ConflictError,
     DocumentError,
     InvalidValueError,
@@ -85,10 +68,10 @@ from mobile_app.records.errors import (
     StoreTooNewError,
     UnknownFieldError,
 )
-from mobile_app.records.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
-from mobile_app.records.salvage import Salvage, salvage_jobs
-from mobile_app.records.schema import MovedAside
-from mobile_app.records.store import Store
+from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
+from mobile_app.store.salvage import Salvage, salvage_jobs
+from mobile_app.store.schema import MovedAside
+from mobile_app.store.store import Store
 
 __all__ = [
     "BOARD_FIELDS",

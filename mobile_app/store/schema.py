@@ -19,7 +19,7 @@ from pathlib import Path
 import sqlite_utils
 from sqlite_utils import Migrations
 
-from mobile_app.records.errors import MigrationError, StoreTooNewError
+from mobile_app.store.errors import MigrationError, StoreTooNewError
 
 SQLITE_HEADER = b"SQLite format 3\x00"
 DAMAGE_ERRORS = ("SQLITE_CORRUPT", "SQLITE_NOTADB")

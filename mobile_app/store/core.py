@@ -19,9 +19,9 @@ import platformdirs
 import sqlite_utils
 
 import calc
-from mobile_app.records import pins
-from mobile_app.records.errors import InvalidValueError, NotFoundError, OpenError, SaveError
-from mobile_app.records.schema import MovedAside, connect, migrate, move_aside, problem_with
+from mobile_app.store import pins
+from mobile_app.store.errors import InvalidValueError, NotFoundError, OpenError, SaveError
+from mobile_app.store.schema import MovedAside, connect, migrate, move_aside, problem_with
 
 STORE_FILE = "boardside.sqlite"
 ROLES = ("apprentice", "qualified", "supervisor")

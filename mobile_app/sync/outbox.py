@@ -23,7 +23,7 @@ from typing import Any
 
 from sqlite_utils import Database
 
-from mobile_app.records.core import db_lock, write_transaction
+from mobile_app.store.core import db_lock, write_transaction
 
 TABLE = "outbox"
 MANIFEST = "manifest.json"

@@ -164,9 +164,9 @@ from __future__ import annotations
 import json
 from typing import Any
 
-from mobile_app.records.documents import DOCUMENT_SCHEMA, DOCUMENT_SCHEMA_VERSION
-from mobile_app.records.errors import DocumentError
-from mobile_app.records.export_common import CAUTIONS
+from mobile_app.export.common import CAUTIONS
+from mobile_app.store.documents import DOCUMENT_SCHEMA, DOCUMENT_SCHEMA_VERSION
+from mobile_app.store.errors import DocumentError
 
 SCHEMA = DOCUMENT_SCHEMA
 SCHEMA_VERSION = DOCUMENT_SCHEMA_VERSION

@@ -14,7 +14,7 @@ import re
 from collections.abc import Callable, Iterator
 from typing import Any
 
-from mobile_app.records.export_common import CAUTIONS, person_label
+from mobile_app.export.common import CAUTIONS, person_label
 
 _FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
 _NUMBER = re.compile(r"[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?")

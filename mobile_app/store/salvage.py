@@ -17,9 +17,9 @@ from typing import Any
 
 import sqlite_utils
 
-from mobile_app.records.errors import StoreError
-from mobile_app.records.schema import SQLITE_HEADER, migrate
-from mobile_app.records.store import Store
+from mobile_app.store.errors import StoreError
+from mobile_app.store.schema import SQLITE_HEADER, migrate
+from mobile_app.store.store import Store
 
 
 @dataclass(frozen=True)

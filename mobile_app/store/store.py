@@ -7,7 +7,7 @@ flow, PINs, revisions, audit trail) and `documents` (job documents out and in).
 
 from __future__ import annotations
 
-from mobile_app.records.documents import DocumentStore
+from mobile_app.store.documents import DocumentStore
 
 
 class Store(DocumentStore):

@@ -12,14 +12,14 @@ from typing import Any
 
 from fpdf import FPDF
 
-from mobile_app.records.export_common import (
+from mobile_app.export.common import (
     CAUTIONS,
     field_text,
     format_value,
     person_label,
     verdict_label,
 )
-from mobile_app.records.export_pdf_layout import (
+from mobile_app.export.pdf_layout import (
     BLACK,
     BOLD,
     GREY,

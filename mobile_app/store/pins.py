@@ -11,7 +11,7 @@ import hashlib
 import hmac
 import secrets
 
-from mobile_app.records.errors import PinError
+from mobile_app.store.errors import PinError
 
 MIN_PIN_LENGTH = 4
 MAX_WRONG_PINS = 5

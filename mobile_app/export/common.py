@@ -11,7 +11,7 @@ import math
 from typing import Any
 
 from calc import CAUTIONS
-from mobile_app.records.errors import StoreError
+from mobile_app.store.errors import StoreError
 
 __all__ = [
     "CAUTIONS", "BundleCheckError", "BundleExistsError", "ExportError", "field_text", "format_number",

@@ -9,11 +9,11 @@ from collections.abc import Callable
 from typing import Any
 
 import calc
-from mobile_app.records.assessment import Outcome
-from mobile_app.records.core import ROLES, now_iso
-from mobile_app.records.errors import DocumentError
-from mobile_app.records.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Parsed
-from mobile_app.records.review import ReviewStore
+from mobile_app.store.assessment import Outcome
+from mobile_app.store.core import ROLES, now_iso
+from mobile_app.store.errors import DocumentError
+from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Parsed
+from mobile_app.store.review import ReviewStore
 
 DOCUMENT_SCHEMA = "boardside-job"
 DOCUMENT_SCHEMA_VERSION = 1

@@ -9,7 +9,7 @@ own stops the run, and every due bundle backs off exponentially with jitter; sta
 database, so a restart resumes. Nothing local is ever deleted.
 
 The office folder, its address rules, the password kept on the device and the typed errors are in
-`sync_target`; their names are re-exported here.
+`mobile_app.sync.target`.
 """
 
 from __future__ import annotations
@@ -18,7 +18,6 @@ import hashlib
 import logging
 import random
 import ssl
-import sys
 import threading
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -29,7 +28,8 @@ from typing import Any
 import httpx
 from webdav4 import client as dav
 
-from mobile_app.records.outbox import (
+from mobile_app.store import Store
+from mobile_app.sync.outbox import (
     BundleError,
     BundleFile,
     Outbox,
@@ -37,38 +37,19 @@ from mobile_app.records.outbox import (
     files_from_row,
     utc_now,
 )
-from mobile_app.records.sync_target import (
-    AuthError,
-    CertificateError,
-    DroppedError,
+from mobile_app.sync.target import (
     InsecureTargetError,
     NotConfiguredError,
-    OfflineError,
     ProtocolError,
-    ServerError,
-    SlowServerError,
-    StorageFullError,
-    SyncError,
     SyncTarget,
     VerifyError,
     check_url,
     classify,
-    load_password,
     load_target,
     parse_is_collection,
-    save_password,
-    save_target,
     scrub,
     status_error,
 )
-
-__all__ = [
-    "AuthError", "CertificateError", "DroppedError", "InsecureTargetError", "NotConfiguredError",
-    "OfflineError", "ProtocolError", "ServerError", "SlowServerError", "StorageFullError",
-    "SyncError", "SyncReport", "SyncTarget", "SyncTask", "VerifyError", "check_url", "cli_sync",
-    "load_password", "load_target", "save_password", "save_target", "scrub", "sync_once",
-    "sync_store",
-]
 
 log = logging.getLogger("boardside.sync")
 log.addHandler(logging.NullHandler())
@@ -304,8 +285,6 @@ class SyncTask:
         self._thread.join(timeout_s)
 
     def _run(self) -> None:
-        from mobile_app.records import Store
-
         store = Store.open(self.data_dir)
         try:
             while not self._stop.is_set():
@@ -328,40 +307,3 @@ class SyncTask:
             return self.idle_s
         due_in_s = (datetime.fromisoformat(report.next_try_at) - utc_now()).total_seconds()
         return min(self.idle_s, max(0.1, due_in_s))
-
-
-def cli_sync(data_dir: Path | None) -> int:
-    """`python -m mobile_app sync`: send now; print what was sent, what waits and the last error.
-
-    Exit 0 when nothing waits because of an error, 1 when something does, 2 for a refused or
-    missing office folder while bundles wait.
-    """
-    from mobile_app.records import Store
-
-    store = Store.open(data_dir)
-    try:
-        outbox = Outbox(store.db)
-        try:
-            report = sync_store(store, force=True)
-        except (NotConfiguredError, InsecureTargetError) as exc:
-            print(f"sync: {exc}", file=sys.stderr)
-            return 2
-        print_report(outbox, report)
-        return 1 if any(row["last_error"] for row in outbox.waiting()) else 0
-    finally:
-        store.close()
-
-
-def print_report(outbox: Outbox, report: SyncReport) -> None:
-    """Print the run's result for a terminal: sent now, waiting (with errors), last error."""
-    print(f"Sent now: {len(report.sent)}")
-    for row in map(outbox.get, report.sent):
-        print(f"  {row['bundle_name']} -> {row['remote_path']}/ at {row['sent_at']}")
-    waiting = outbox.waiting()
-    print(f"Waiting: {len(waiting)}")
-    for row in waiting:
-        note = f"; last error: {row['last_error']}" if row["last_error"] else ""
-        print(f"  {row['bundle_name']} (tries {row['attempts']}, next {row['next_try_at']}{note})")
-    last = outbox.last_error()
-    if last:
-        print(f"Last error: {last}")

@@ -20,11 +20,11 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from mobile_app.records.errors import NotFoundError
-from mobile_app.records.export_common import CAUTIONS, BundleCheckError, BundleExistsError
-from mobile_app.records.export_csv import job_csv_bytes
-from mobile_app.records.export_json import check_document, job_json_bytes
-from mobile_app.records.export_pdf import job_pdf_bytes
+from mobile_app.export.common import CAUTIONS, BundleCheckError, BundleExistsError
+from mobile_app.export.csv_doc import job_csv_bytes
+from mobile_app.export.json_doc import check_document, job_json_bytes
+from mobile_app.export.pdf_doc import job_pdf_bytes
+from mobile_app.store.errors import NotFoundError
 
 MANIFEST_NAME = "manifest.json"
 MANIFEST_SCHEMA = "boardside-bundle"

@@ -5,10 +5,10 @@ from __future__ import annotations
 
 from typing import Any
 
-from mobile_app.records import pins
-from mobile_app.records.circuits import CircuitStore
-from mobile_app.records.core import now_iso
-from mobile_app.records.errors import LockedOutError, PinError, ReviewError
+from mobile_app.store import pins
+from mobile_app.store.circuits import CircuitStore
+from mobile_app.store.core import now_iso
+from mobile_app.store.errors import LockedOutError, PinError, ReviewError
 
 _COPY_SKIP_JOB = {
     "id",

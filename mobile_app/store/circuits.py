@@ -6,10 +6,10 @@ from __future__ import annotations
 import json
 from typing import Any
 
-from mobile_app.records.assessment import build_calc_input
-from mobile_app.records.core import now_iso
-from mobile_app.records.fields import CIRCUIT_FIELDS, READING_FIELDS
-from mobile_app.records.jobs import JobStore, fields_of, set_clause
+from mobile_app.store.assessment import build_calc_input
+from mobile_app.store.core import now_iso
+from mobile_app.store.fields import CIRCUIT_FIELDS, READING_FIELDS
+from mobile_app.store.jobs import JobStore, fields_of, set_clause
 
 COPIED_TO_NEXT_CIRCUIT = tuple(
     f for f in CIRCUIT_FIELDS if f not in ("number", "description", *READING_FIELDS)

@@ -6,10 +6,10 @@ from __future__ import annotations
 import sqlite3
 from typing import Any
 
-from mobile_app.records.assessment import Outcome, assess, build_calc_input, invalid_fields
-from mobile_app.records.core import StoreCore, now_iso
-from mobile_app.records.errors import ConflictError, NotFoundError, ReadOnlyError, UnknownFieldError
-from mobile_app.records.fields import (
+from mobile_app.store.assessment import Outcome, assess, build_calc_input, invalid_fields
+from mobile_app.store.core import StoreCore, now_iso
+from mobile_app.store.errors import ConflictError, NotFoundError, ReadOnlyError, UnknownFieldError
+from mobile_app.store.fields import (
     BOARD_FIELDS,
     CIRCUIT_FIELDS,
     JOB_FIELDS,

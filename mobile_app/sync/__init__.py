@@ -1,0 +1,137 @@
+"""Sending export bundles to the office's WebDAV folder: the outbox on the device and the sync.
+
+Public surface:
+
+    from mobile_app.sync import Outbox, sync_store
+    outbox = Outbox(store.db)          # the outbox table in the store's database; takes the store's lock
+    outbox.enqueue(bundle_dir, job_id, revision) -> id ; waiting() ; sent() ; due(now, force) ;
+    get(id) ; next_try_at() ; mark_sent(id) ; mark_failed(id, message, kind, next_try_at) ; last_error()
+    SyncTarget(url, user, password, timeout_s=30, ca_file=None)
+    save_target(store, url, user, password) ; load_target(store) -> SyncTarget
+    check_url(url) ; scrub(text, target) ; save_password(data_dir, pw) ; load_password(data_dir)
+    sync_once(store_or_db, target, now=None, force=False, progress=None) -> SyncReport
+    sync_store(store, force=False, progress=None) -> SyncReport      # with the saved target
+    SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background, its own Store
+
+Errors: OutboxError with BundleError and UnknownBundleError (the outbox); SyncError with
+NotConfiguredError, InsecureTargetError, OfflineError, DroppedError, SlowServerError, AuthError,
+ServerError, StorageFullError, ProtocolError, CertificateError and VerifyError (the sync; `kind`
+picks the backoff). Neither is a StoreError. `python -m mobile_app sync` is
+`mobile_app.sync.cli.cli_sync`.
+
+Modules: `outbox` (the table, no network), `target` (the office folder, its address rules, the
+password on the device, the errors), `runner` (one run and the background task, webdav4 over httpx),
+`cli`. Imports point to the store only. A name is imported from its module when first used, so the
+outbox can be read without loading httpx or webdav4.
+"""
+
+from __future__ import annotations
+
+import importlib
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:
+    from mobile_app.sync.outbox import (
+        BundleError,
+        Outbox,
+        OutboxError,
+        UnknownBundleError,
+    )
+    from mobile_app.sync.runner import (
+        SyncReport,
+        SyncTask,
+        sync_once,
+        sync_store,
+    )
+    from mobile_app.sync.target import (
+        AuthError,
+        CertificateError,
+        DroppedError,
+        InsecureTargetError,
+        NotConfiguredError,
+        OfflineError,
+        ProtocolError,
+        ServerError,
+        SlowServerError,
+        StorageFullError,
+        SyncError,
+        SyncTarget,
+        VerifyError,
+        check_url,
+        load_password,
+        load_target,
+        save_password,
+        save_target,
+        scrub,
+    )
+
+_MODULE_OF = {
+    "Outbox": "outbox",
+    "OutboxError": "outbox",
+    "BundleError": "outbox",
+    "UnknownBundleError": "outbox",
+    "SyncReport": "runner",
+    "SyncTask": "runner",
+    "sync_once": "runner",
+    "sync_store": "runner",
+    "SyncTarget": "target",
+    "check_url": "target",
+    "load_password": "target",
+    "load_target": "target",
+    "save_password": "target",
+    "save_target": "target",
+    "scrub": "target",
+    "SyncError": "target",
+    "AuthError": "target",
+    "CertificateError": "target",
+    "DroppedError": "target",
+    "InsecureTargetError": "target",
+    "NotConfiguredError": "target",
+    "OfflineError": "target",
+    "ProtocolError": "target",
+    "ServerError": "target",
+    "SlowServerError": "target",
+    "StorageFullError": "target",
+    "VerifyError": "target",
+}
+
+__all__ = [
+    "AuthError",
+    "BundleError",
+    "CertificateError",
+    "DroppedError",
+    "InsecureTargetError",
+    "NotConfiguredError",
+    "OfflineError",
+    "Outbox",
+    "OutboxError",
+    "ProtocolError",
+    "ServerError",
+    "SlowServerError",
+    "StorageFullError",
+    "SyncError",
+    "SyncReport",
+    "SyncTarget",
+    "SyncTask",
+    "UnknownBundleError",
+    "VerifyError",
+    "check_url",
+    "load_password",
+    "load_target",
+    "save_password",
+    "save_target",
+    "scrub",
+    "sync_once",
+    "sync_store",
+]
+
+
+def __getattr__(name: str) -> Any:
+    """A public name, imported from its module on first use."""
+    if name not in _MODULE_OF:
+        raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+    return getattr(importlib.import_module(f"{__name__}.{_MODULE_OF[name]}"), name)
+
+
+def __dir__() -> list[str]:
+    return sorted(__all__)
