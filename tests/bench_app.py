@@ -71,8 +71,8 @@ def store_first_circuit(data_dir: Path, job_id: int) -> int:
     from mobile_app.store import Store
 
     with Store.open(data_dir) as store:
-        board = store.boards(job_id)[0]["id"]
-        return int(store.circuits(board)[0]["id"])
+        board = store.boards.of_job(job_id)[0]["id"]
+        return int(store.circuits.of_board(board)[0]["id"])
 
 
 def round_trip_ms(page, field_label: str, text: str, expect: str) -> float:
@@ -120,7 +120,7 @@ def main() -> int:
             time.sleep(1.0)
             idle_mb = group_rss_mb(process.pid)
             with Store.open(data) as store:
-                job = store.list_jobs()[0]["id"]
+                job = store.jobs.all()[0]["id"]
                 walk_job = JobScreen(store, JobsList(store).new_job("Bench walk"))
                 circuit = walk_job.add_circuit(walk_job.boards()[0].id)
                 walk = Walk(store, circuit)

@@ -45,17 +45,17 @@ SPEC = {"role": "final", "device_kind": "mcb", "device_curve": "B", "device_rati
 
 def build_job(store: Store) -> int:
     """A TN-C-S job of BOARDS boards × CIRCUITS_PER_BOARD B32 circuits, every one assessed."""
-    job_id = store.create_job({"client_ref": "BENCH-500", "system": "TN-C-S", "u0": "230",
+    job_id = store.jobs.create({"client_ref": "BENCH-500", "system": "TN-C-S", "u0": "230",
                                "cmin": "0.95", "ze": "0.35", "pfc": "1.5 kA"})
     for b in range(BOARDS):
-        board_id = store.add_board(job_id, f"DB{b + 1}", f"Floor {b + 1}")
-        first = store.add_circuit(board_id, "1", "Sockets")
+        board_id = store.boards.add(job_id, f"DB{b + 1}", f"Floor {b + 1}")
+        first = store.circuits.add(board_id, "1", "Sockets")
         for name, raw in SPEC.items():
-            store.set_circuit_field(first, name, raw)
-        store.set_circuit_field(first, "zs", "0.62")
+            store.circuits.set_field(first, name, raw)
+        store.circuits.set_field(first, "zs", "0.62")
         for n in range(2, CIRCUITS_PER_BOARD + 1):
-            circuit_id = store.add_circuit(board_id, str(n), f"Circuit {n} of board {b + 1}")
-            store.set_circuit_field(circuit_id, "zs", f"{0.4 + n / 40:.2f}")
+            circuit_id = store.circuits.add(board_id, str(n), f"Circuit {n} of board {b + 1}")
+            store.circuits.set_field(circuit_id, "zs", f"{0.4 + n / 40:.2f}")
     return job_id
 
 
@@ -80,10 +80,10 @@ def main() -> int:
             job_id = build_job(store)
             print(f"built a {BOARDS * CIRCUITS_PER_BOARD}-circuit job in "
                   f"{time.perf_counter() - start:.1f} s (not part of the figures)")
-            doc: dict[str, Any] = store.job_document(job_id)
+            doc: dict[str, Any] = store.documents.export(job_id)
             baseline = median_s(lambda: json.dumps(doc), rounds)
             figures = {
-                "job document from the store": median_s(lambda: store.job_document(job_id), rounds),
+                "job document from the store": median_s(lambda: store.documents.export(job_id), rounds),
                 "JSON": median_s(lambda: job_json_bytes(doc), rounds),
                 "CSV": median_s(lambda: job_csv_bytes(doc), rounds),
                 "PDF": median_s(lambda: job_pdf_bytes(doc), rounds),

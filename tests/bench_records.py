@@ -60,16 +60,16 @@ def timed_ms(action: Callable[..., object], *args: object) -> float:
 
 def build_job(store: Store) -> int:
     """A TN-C-S job of BOARDS boards × CIRCUITS_PER_BOARD B32 circuits with readings."""
-    job_id = store.create_job({"client_ref": "BENCH", "system": "TN-C-S", "ze": "0.35", "pfc": "1.5 kA"})
+    job_id = store.jobs.create({"client_ref": "BENCH", "system": "TN-C-S", "ze": "0.35", "pfc": "1.5 kA"})
     for b in range(BOARDS):
-        board_id = store.add_board(job_id, f"DB{b + 1}")
-        first = store.add_circuit(board_id, "1")
+        board_id = store.boards.add(job_id, f"DB{b + 1}")
+        first = store.circuits.add(board_id, "1")
         for name, raw in SPEC.items():
-            store.set_circuit_field(first, name, raw)
-        store.set_circuit_field(first, "zs", "0.62")
+            store.circuits.set_field(first, name, raw)
+        store.circuits.set_field(first, "zs", "0.62")
         for n in range(2, CIRCUITS_PER_BOARD + 1):
-            circuit_id = store.add_circuit(board_id, str(n))
-            store.set_circuit_field(circuit_id, "zs", f"{0.4 + n / 100:.2f}")
+            circuit_id = store.circuits.add(board_id, str(n))
+            store.circuits.set_field(circuit_id, "zs", f"{0.4 + n / 100:.2f}")
     return job_id
 
 
@@ -98,8 +98,8 @@ def main() -> int:
         start = time.perf_counter()
         job_id = build_job(store)
         build_s = time.perf_counter() - start
-        circuit_id = store.circuits(store.boards(job_id)[0]["id"])[0]["id"]
-        calc_input = store.calc_input(circuit_id)
+        circuit_id = store.circuits.of_board(store.boards.of_job(job_id)[0]["id"])[0]["id"]
+        calc_input = store.circuits.calc_input(circuit_id)
         assessment = json.dumps(calc.assess(calc_input).to_dict(), ensure_ascii=False, separators=(",", ":"))
 
         plain = sqlite3.connect(store.path, isolation_level=None)
@@ -110,7 +110,7 @@ def main() -> int:
         calc_ms: list[float] = []
         for i in range(ROUNDS * SAVES):
             raw = f"0.{500 + i % 400}"
-            store_ms.append(timed_ms(store.set_circuit_field, circuit_id, "zs", raw))
+            store_ms.append(timed_ms(store.circuits.set_field, circuit_id, "zs", raw))
             plain_ms.append(timed_ms(plain_save, plain, circuit_id, raw, assessment))
             calc_ms.append(timed_ms(lambda: calc.assess(calc_input).to_dict()))
         plain.close()
@@ -119,18 +119,18 @@ def main() -> int:
         supply_ms = []
         with Store.open(data) as again:
             for i in range(3):
-                supply_ms.append(timed_ms(again.set_job_field, job_id, "ze", f"0.3{i}"))
+                supply_ms.append(timed_ms(again.jobs.set_field, job_id, "ze", f"0.3{i}"))
         open_ms, overview_ms, whole_ms = [], [], []
         for _ in range(OPEN_RUNS):
             start = time.perf_counter()
             again = Store.open(data)
             open_ms.append((time.perf_counter() - start) * 1000)
             start = time.perf_counter()
-            again.get_job(job_id)
-            rows = [again.circuits(board["id"]) for board in again.boards(job_id)]
+            again.jobs.get(job_id)
+            rows = [again.circuits.of_board(board["id"]) for board in again.boards.of_job(job_id)]
             overview_ms.append((time.perf_counter() - start) * 1000)
             start = time.perf_counter()
-            document = again.job_document(job_id)
+            document = again.documents.export(job_id)
             whole_ms.append((time.perf_counter() - start) * 1000)
             again.close()
         circuits = sum(len(r) for r in rows)

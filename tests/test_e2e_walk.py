@@ -84,7 +84,7 @@ def server(tmp_path: Path) -> Iterator[str]:
     from mobile_app.store import Store
 
     with Store.open(tmp_path) as store:
-        store.add_person(SUPERVISOR, "supervisor", PIN)
+        store.people.add(SUPERVISOR, "supervisor", PIN)
     port = free_port()
     process = start_server(tmp_path, port)
     try:

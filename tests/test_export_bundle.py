@@ -150,9 +150,9 @@ def test_no_secret_reaches_a_bundle(tmp_path: Path) -> None:
     store = Store.open(tmp_path / "store")
     try:
         job_id = create_demo_job(store)
-        people = {person["name"]: person["id"] for person in store.people()}
-        store.submit_for_review(job_id, people["Rosa Quennell"])
-        store.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        people = {person["name"]: person["id"] for person in store.people.all()}
+        store.review.submit(job_id, people["Rosa Quennell"])
+        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
         password = "Office-Secret-7f3Q"
         save_target(store, "https://office.example/dav/boardside/", "field-tablet", password)
         bundle = export_bundle(store, job_id, tmp_path / "out")
@@ -180,7 +180,7 @@ def test_no_secret_reaches_a_bundle(tmp_path: Path) -> None:
 
 def test_one_board_export(demo_store: tuple[Path, Store, int], tmp_path: Path) -> None:
     _data, store, job_id = demo_store
-    board = store.boards(job_id)[2]
+    board = store.boards.of_job(job_id)[2]
     bundle = export_bundle(store, job_id, tmp_path, board_id=board["id"])
     assert "-board-DB-3-" in bundle.name
     doc = load_job_json(bundle.files[0].read_bytes())

@@ -77,10 +77,10 @@ def store_job(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Store,
     """The demo job plus a board of hostile descriptions and readings."""
     store = Store.open(Path(tmp_path_factory.mktemp("csv-store")))
     job_id = create_demo_job(store)
-    board_id = store.add_board(job_id, "=BOARD()", "@loft", "-feed")
+    board_id = store.boards.add(job_id, "=BOARD()", "@loft", "-feed")
     for number, (text, _cell) in enumerate(INJECTION_CASES[:9], start=1):
-        circuit_id = store.add_circuit(board_id, str(number), text)
-        store.set_circuit_field(circuit_id, "zs", text)
+        circuit_id = store.circuits.add(board_id, str(number), text)
+        store.circuits.set_field(circuit_id, "zs", text)
     yield store, job_id
     store.close()
 
@@ -93,7 +93,7 @@ def _rows(data: bytes) -> list[dict[str, str]]:
 
 def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    doc = store.job_document(job_id)
+    doc = store.documents.export(job_id)
     rows = _rows(job_csv_bytes(doc))
     circuits = [c for board in doc["boards"] for c in board["circuits"]]
     assert len(rows) == len(circuits) == 22 + 9
@@ -117,14 +117,14 @@ def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> 
 
 def test_milliohms_typed_are_written_in_ohms(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    rows = _rows(job_csv_bytes(store.job_document(job_id)))
+    rows = _rows(job_csv_bytes(store.documents.export(job_id)))
     office = next(row for row in rows if row["Description"] == "Office sockets (radial)")
     assert office["Zs measured (Ω)"] == "0.71"  # typed "710 mΩ" in the demo
 
 
 def test_hostile_text_is_neutralised_in_the_file(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    doc = store.job_document(job_id)
+    doc = store.documents.export(job_id)
     stored = [c["description"] for c in doc["boards"][-1]["circuits"]]
     rows = [row for row in _rows(job_csv_bytes(doc)) if row["Board"] == "'=BOARD()"]
     assert [row["Description"] for row in rows] == [neutralise_cell(text) for text in stored]

@@ -36,12 +36,12 @@ def store_job(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Store,
     """The demo job plus a board holding unusable readings and unusual text."""
     store = Store.open(Path(tmp_path_factory.mktemp("json-store")))
     job_id = create_demo_job(store)
-    board_id = store.add_board(job_id, "DB-9 Ω", "loft, ², √, Δ", "=feed")
-    odd = store.add_circuit(board_id, "1", "=1+2 sockets “quoted” \\ back\\slash")
-    store.set_circuit_field(odd, "zs", "abc")
-    store.set_circuit_field(odd, "device_rating", "32 A")
-    store.set_circuit_field(odd, "test_temp_c", "-5 °C")
-    store.set_job_field(job_id, "date", "31 Feb")
+    board_id = store.boards.add(job_id, "DB-9 Ω", "loft, ², √, Δ", "=feed")
+    odd = store.circuits.add(board_id, "1", "=1+2 sockets “quoted” \\ back\\slash")
+    store.circuits.set_field(odd, "zs", "abc")
+    store.circuits.set_field(odd, "device_rating", "32 A")
+    store.circuits.set_field(odd, "test_temp_c", "-5 °C")
+    store.jobs.set_field(job_id, "date", "31 Feb")
     yield store, job_id
     store.close()
 
@@ -77,7 +77,7 @@ def _keys(doc: dict[str, Any]) -> set[str]:
 
 def test_every_key_of_a_real_document_is_documented(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    doc = json.loads(job_json_bytes(store.job_document(job_id)))
+    doc = json.loads(job_json_bytes(store.documents.export(job_id)))
     undocumented = _keys(doc) - _documented_names()
     assert not undocumented, f"document EXPORT-FORMAT.md keys: {sorted(undocumented)}"
     assert CONTRACT_ASSESSMENT_KEYS <= _documented_names()
@@ -85,7 +85,7 @@ def test_every_key_of_a_real_document_is_documented(store_job: tuple[Store, int]
 
 def test_file_is_utf8_json_with_schema_and_cautions(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    data = job_json_bytes(store.job_document(job_id))
+    data = job_json_bytes(store.documents.export(job_id))
     assert "Ω".encode() in data and b"\\u03a9" not in data
     doc = json.loads(data.decode("utf-8"))
     assert doc["schema"] == "boardside-job" and doc["schema_version"] == 1
@@ -95,7 +95,7 @@ def test_file_is_utf8_json_with_schema_and_cautions(store_job: tuple[Store, int]
 
 def test_readings_are_kept_as_typed_beside_their_values(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
-    doc = load_job_json(job_json_bytes(store.job_document(job_id)))
+    doc = load_job_json(job_json_bytes(store.documents.export(job_id)))
     odd = doc["boards"][-1]["circuits"][0]
     assert odd["fields"]["zs"]["raw"] == "abc"
     assert odd["fields"]["zs"]["value"] is None and odd["fields"]["zs"]["error"]
@@ -131,12 +131,12 @@ def _comparable(doc: dict[str, Any]) -> list[Any]:
 
 def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_path: Path) -> None:
     store, job_id = store_job
-    original = store.job_document(job_id)
+    original = store.documents.export(job_id)
     data = job_json_bytes(original)
     other = Store.open(tmp_path / "office")
     try:
         new_id = import_job_json(other, data)
-        again = other.job_document(new_id)
+        again = other.documents.export(new_id)
     finally:
         other.close()
     assert _comparable(again) == _comparable(original)
@@ -147,15 +147,15 @@ def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_pat
 def test_an_approved_job_comes_back_approved(tmp_path: Path) -> None:
     with Store.open(tmp_path / "site") as site:
         job_id = create_demo_job(site)
-        people = {p["name"]: p["id"] for p in site.people()}
-        site.submit_for_review(job_id, people["Rosa Quennell"])
-        site.approve(job_id, people["Ines Okafor"], DEMO_PIN)
-        original = site.job_document(job_id)
+        people = {p["name"]: p["id"] for p in site.people.all()}
+        site.review.submit(job_id, people["Rosa Quennell"])
+        site.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        original = site.documents.export(job_id)
     with Store.open(tmp_path / "office") as office:
         new_id = import_job_json(office, job_json_bytes(original))
-        again = office.job_document(new_id)
+        again = office.documents.export(new_id)
         with pytest.raises(ReadOnlyError):
-            office.set_job_field(new_id, "description", "changed at the office")
+            office.jobs.set_field(new_id, "description", "changed at the office")
     assert _comparable(again) == _comparable(original)
     assert (again["job"]["status"], again["job"]["approved_by"]) == ("approved", "Ines Okafor")
 

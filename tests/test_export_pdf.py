@@ -21,10 +21,10 @@ def approved_pdf(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[dic
     """The demo job, approved by its supervisor, as a PDF read back with pypdf."""
     store = Store.open(Path(tmp_path_factory.mktemp("pdf-store")))
     job_id = create_demo_job(store)
-    people = {person["name"]: person["id"] for person in store.people()}
-    store.submit_for_review(job_id, people["Rosa Quennell"])
-    store.approve(job_id, people["Ines Okafor"], DEMO_PIN)
-    doc = store.job_document(job_id)
+    people = {person["name"]: person["id"] for person in store.people.all()}
+    store.review.submit(job_id, people["Rosa Quennell"])
+    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+    doc = store.documents.export(job_id)
     store.close()
     reader = PdfReader(io.BytesIO(job_pdf_bytes(doc)))
     text = "\n".join(page.extract_text() for page in reader.pages)

@@ -19,7 +19,7 @@ from mobile_app.store.core import STORE_FILE
 ROOT = Path(__file__).resolve().parents[1]
 KILLS = 25
 
-# The child saves one field at a time and prints "ack <raw>" only after set_circuit_field returned
+# The child saves one field at a time and prints "ack <raw>" only after circuits.set_field returned
 # (that is, after COMMIT). It alternates a reading with units and a unicode description.
 CHILD = """
 import sys
@@ -35,10 +35,10 @@ while True:
     circuit_id = ids[n % len(ids)]
     if n % 2:
         raw = f"{run * 1_000_000 + n} mΩ"
-        store.set_circuit_field(circuit_id, "zs", raw)
+        store.circuits.set_field(circuit_id, "zs", raw)
     else:
         raw = f"run {run} save {n} ✓ — ünïcode"
-        store.set_circuit_field(circuit_id, "description", raw)
+        store.circuits.set_field(circuit_id, "description", raw)
     print("ack", circuit_id, raw, flush=True)
 """
 
@@ -52,9 +52,9 @@ def complete_lines(output: str) -> list[str]:
 def prepare(folder: Path) -> list[int]:
     """A store with one job, one board and four B32 circuits; returns the circuit ids."""
     with Store.open(folder) as store:
-        job_id = store.create_job({"client_ref": "CRASH", "system": "TN-S", "ze": "0.3"})
-        board_id = store.add_board(job_id, "DB1")
-        first = store.add_circuit(board_id, "1")
+        job_id = store.jobs.create({"client_ref": "CRASH", "system": "TN-S", "ze": "0.3"})
+        board_id = store.boards.add(job_id, "DB1")
+        first = store.circuits.add(board_id, "1")
         for name, raw in {
             "role": "final",
             "device_kind": "mcb",
@@ -63,8 +63,8 @@ def prepare(folder: Path) -> list[int]:
             "line_csa": "2.5",
             "cpc_csa": "1.5",
         }.items():
-            store.set_circuit_field(first, name, raw)
-        return [first] + [store.add_circuit(board_id, str(n)) for n in (2, 3, 4)]
+            store.circuits.set_field(first, name, raw)
+        return [first] + [store.circuits.add(board_id, str(n)) for n in (2, 3, 4)]
 
 
 @pytest.mark.slow
@@ -94,13 +94,13 @@ def test_sigkill_at_random_moments_loses_no_acknowledged_save(tmp_path: Path) ->
         conn.close()
         with Store.open(tmp_path) as store:
             assert store.recovered is None
-            saved = {(row["entity_id"], row["new"]) for row in store.audit(1)}
+            saved = {(row["entity_id"], row["new"]) for row in store.jobs.audit(1)}
             missing = [pair for pair in acknowledged if pair not in saved]
             assert missing == [], f"run {run}: acknowledged saves lost: {missing[:5]}"
             for circuit_id in ids:
-                circuit = store.get_circuit(circuit_id)
+                circuit = store.circuits.get(circuit_id)
                 last = {"zs": None, "description": None}
-                for entry in store.audit(1):
+                for entry in store.jobs.audit(1):
                     if entry["entity_id"] == circuit_id and entry["field"] in last:
                         last[entry["field"]] = entry["new"]
                 for name, raw in last.items():
@@ -121,7 +121,7 @@ n = 0
 while True:
     n += 1
     raw = f"0.{100 + (int(sys.argv[2]) * 1000 + n) % 800} Ω"
-    store.set_job_field(1, "ze", raw)
+    store.jobs.set_field(1, "ze", raw)
     print("ack", raw, flush=True)
 """
 
@@ -132,9 +132,9 @@ def test_sigkill_during_supply_changes_leaves_every_circuit_assessed_with_the_sa
 ) -> None:
     prepare(tmp_path)
     with Store.open(tmp_path) as store:
-        board_id = store.boards(1)[0]["id"]
+        board_id = store.boards.of_job(1)[0]["id"]
         for number in range(5, 41):
-            store.set_circuit_field(store.add_circuit(board_id, str(number)), "r1r2", "0.2")
+            store.circuits.set_field(store.circuits.add(board_id, str(number)), "r1r2", "0.2")
     chance = random.Random(4181)
     total_acked = 0
     for run in range(1, SUPPLY_KILLS + 1):
@@ -154,11 +154,11 @@ def test_sigkill_during_supply_changes_leaves_every_circuit_assessed_with_the_sa
         total_acked += len(acked)
         with Store.open(tmp_path) as store:
             assert store.db.conn.execute("PRAGMA integrity_check").fetchone() == ("ok",)
-            ze = store.get_job(1)["fields"]["ze"]
+            ze = store.jobs.get(1)["fields"]["ze"]
             if acked:
-                history = [a["new"] for a in store.audit(1) if a["field"] == "ze"]
+                history = [a["new"] for a in store.jobs.audit(1) if a["field"] == "ze"]
                 assert acked[-1] in history[-2:]
-            assessed = [store.get_circuit(c["id"])["assessment"] for c in store.circuits(board_id)]
+            assessed = [store.circuits.get(c["id"])["assessment"] for c in store.circuits.of_board(board_id)]
             assert len(assessed) == 40 and all(a is not None for a in assessed)
             assert [a["inputs"]["supply"]["ze"] for a in assessed] == [pytest.approx(ze["value"])] * 40
     assert total_acked > SUPPLY_KILLS, "the child hardly saved anything before the kills"

@@ -105,17 +105,17 @@ def test_every_earlier_version_migrates_with_its_data(tmp_path: Path, version: i
     old_store(tmp_path, version)
     with Store.open(tmp_path) as store:
         assert store.db.conn.execute("PRAGMA user_version").fetchone() == (SCHEMA_VERSION,)
-        job = store.get_job(1)
+        job = store.jobs.get(1)
         assert (job["fields"]["client_ref"]["raw"], job["version"], job["revision"]) == ("OLD-1", 1, 1)
-        circuit = store.get_circuit(1)
+        circuit = store.circuits.get(1)
         assert circuit["fields"]["zs"] == {"raw": "0,62 Ω", "value": 0.62, "error": None}
         assert circuit["fields"]["description"]["raw"] == "Kitchen ring — façade side"
         assert circuit["fields"]["library_device_id"]["raw"] == ""
-        assert store.people() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified", "has_pin": 0}]
-        assert [a["new"] for a in store.audit(1)] == ["0,62 Ω"]
-        assert len(store.library_devices()) == (1 if version >= 2 else 0)
-        assert store.boards(1)[0]["fields"]["system"]["value"] == ("TT" if version >= 3 else None)
-        saved = store.set_circuit_field(1, "zs", "1.9", by=1, expected_version=1)
+        assert store.people.all() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified", "has_pin": 0}]
+        assert [a["new"] for a in store.jobs.audit(1)] == ["0,62 Ω"]
+        assert len(store.library.all()) == (1 if version >= 2 else 0)
+        assert store.boards.of_job(1)[0]["fields"]["system"]["value"] == ("TT" if version >= 3 else None)
+        saved = store.circuits.set_field(1, "zs", "1.9", by=1, expected_version=1)
         assert (saved["version"], saved["verdict"]) == (2, "fail")
         backup = store.backup_path
     assert backup is not None and backup.parent == tmp_path / "backups"
@@ -172,8 +172,8 @@ def test_a_file_that_is_not_sqlite_is_moved_aside(tmp_path: Path) -> None:
         assert moved.moved_to.read_bytes() == b"these are not the bytes you are looking for"
         assert moved.moved_to.name.startswith("boardside-unusable-")
         assert "kept as boardside-unusable-" in moved.message and "Nothing was deleted" in moved.message
-        assert store.list_jobs() == []
-        store.create_job({"client_ref": "fresh"})
+        assert store.jobs.all() == []
+        store.jobs.create({"client_ref": "fresh"})
 
 
 def test_a_damaged_store_is_moved_aside_with_its_bytes(tmp_path: Path) -> None:
@@ -184,7 +184,7 @@ def test_a_damaged_store_is_moved_aside_with_its_bytes(tmp_path: Path) -> None:
         moved = store.recovered
         assert moved is not None and moved.reason.startswith("unreadable")
         assert moved.moved_to.read_bytes() == data
-        assert store.list_jobs() == []
+        assert store.jobs.all() == []
     with Store.open(tmp_path) as again:
         assert again.recovered is None
 

@@ -28,7 +28,7 @@ def _run(workers: list[threading.Thread]) -> None:
 
 def test_outbox_and_store_take_one_lock(tmp_path: Path) -> None:
     with Store.open(tmp_path) as store:
-        assert Outbox(store.db)._lock is store._lock is db_lock(store.db)
+        assert Outbox(store.db)._lock is store.core.lock is db_lock(store.db)
 
 
 def test_two_threads_enqueueing_and_marking_while_a_third_saves(tmp_path: Path) -> None:
@@ -36,8 +36,8 @@ def test_two_threads_enqueueing_and_marking_while_a_third_saves(tmp_path: Path) 
             for n in range(2 * ROUNDS)]
     errors: list[BaseException] = []
     with Store.open(tmp_path / "data") as store:
-        job_id = store.create_job({"client_ref": "LOCK-1"})
-        circuit_id = store.add_circuit(store.add_board(job_id, "DB1"), "1")
+        job_id = store.jobs.create({"client_ref": "LOCK-1"})
+        circuit_id = store.circuits.add(store.boards.add(job_id, "DB1"), "1")
         outbox = Outbox(store.db)
         start = threading.Barrier(3)
 
@@ -59,10 +59,10 @@ def test_two_threads_enqueueing_and_marking_while_a_third_saves(tmp_path: Path) 
                 start.wait()
                 for n in range(ROUNDS):
                     with pytest.raises(RuntimeError), store.batch():
-                        store.set_circuit_field(circuit_id, "zs", f"{n}.5 Ω")
-                        store.set_circuit_field(circuit_id, "description", f"abandoned {n}")
+                        store.circuits.set_field(circuit_id, "zs", f"{n}.5 Ω")
+                        store.circuits.set_field(circuit_id, "description", f"abandoned {n}")
                         raise RuntimeError("the person cancelled")
-                    store.set_circuit_field(circuit_id, "r1r2", f"0.{n + 1}")
+                    store.circuits.set_field(circuit_id, "r1r2", f"0.{n + 1}")
             except BaseException as error:  # noqa: BLE001 - collected and asserted below
                 errors.append(error)
 
@@ -74,7 +74,7 @@ def test_two_threads_enqueueing_and_marking_while_a_third_saves(tmp_path: Path) 
         assert errors == []
         assert len(outbox.sent()) == ROUNDS and len(outbox.waiting()) == ROUNDS
         assert all(row["attempts"] == 1 and row["last_error"] == "server down" for row in outbox.waiting())
-        fields = store.get_circuit(circuit_id)["fields"]
+        fields = store.circuits.get(circuit_id)["fields"]
         assert (fields["zs"]["raw"], fields["description"]["raw"]) == ("", "")  # no cancelled save leaked
         assert fields["r1r2"]["raw"] == f"0.{ROUNDS}"
         assert store.db.execute("PRAGMA integrity_check").fetchone() == ("ok",)

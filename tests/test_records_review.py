@@ -23,17 +23,17 @@ class People:
     """Ids of the people in the review fixture."""
 
     def __init__(self, store: Store) -> None:
-        self.apprentice = store.add_person("Abe Apprentice", "apprentice")
-        self.qualified = store.add_person("Quin Qualified", "qualified")
-        self.supervisor = store.add_person("Sue Supervisor", "supervisor", PIN)
-        self.other_supervisor = store.add_person("Sam Supervisor", "supervisor", "9999")
+        self.apprentice = store.people.add("Abe Apprentice", "apprentice")
+        self.qualified = store.people.add("Quin Qualified", "qualified")
+        self.supervisor = store.people.add("Sue Supervisor", "supervisor", PIN)
+        self.other_supervisor = store.people.add("Sam Supervisor", "supervisor", "9999")
 
 
 @pytest.fixture
 def store(tmp_path: Path) -> Iterator[Store]:
     """A fresh store with a clock the tests can move."""
     opened = Store.open(tmp_path)
-    opened.clock = FakeClock()
+    opened.core.clock = FakeClock()
     yield opened
     opened.close()
 
@@ -50,9 +50,9 @@ class FakeClock:
 
 def draft_job(store: Store, by: int) -> tuple[int, int]:
     """A draft job with one board and a circuit with Zs; returns (job id, circuit id)."""
-    job_id = store.create_job({"client_ref": "R-1", "system": "TN-S", "ze": "0.8"}, by=by)
-    board_id = store.add_board(job_id, "DB1", by=by)
-    circuit_id = store.add_circuit(board_id, "1", "lights", by=by)
+    job_id = store.jobs.create({"client_ref": "R-1", "system": "TN-S", "ze": "0.8"}, by=by)
+    board_id = store.boards.add(job_id, "DB1", by=by)
+    circuit_id = store.circuits.add(board_id, "1", "lights", by=by)
     for name, raw in {
         "role": "final",
         "device_kind": "mcb",
@@ -62,7 +62,7 @@ def draft_job(store: Store, by: int) -> tuple[int, int]:
         "cpc_csa": "1.0",
         "zs": "1.2",
     }.items():
-        store.set_circuit_field(circuit_id, name, raw, by=by)
+        store.circuits.set_field(circuit_id, name, raw, by=by)
     return job_id, circuit_id
 
 
@@ -78,71 +78,71 @@ def test_pin_hash_is_salted_scrypt_and_checked() -> None:
 def test_draft_submitted_approved(store: Store) -> None:
     people = People(store)
     job_id, circuit_id = draft_job(store, people.apprentice)
-    store.submit_for_review(job_id, people.apprentice)
-    assert store.get_job(job_id)["status"] == "submitted"
-    store.approve(job_id, people.supervisor, PIN)
-    job = store.get_job(job_id)
+    store.review.submit(job_id, people.apprentice)
+    assert store.jobs.get(job_id)["status"] == "submitted"
+    store.review.approve(job_id, people.supervisor, PIN)
+    job = store.jobs.get(job_id)
     assert (job["status"], job["approved_by"], job["submitted_by"]) == (
         "approved",
         people.supervisor,
         people.apprentice,
     )
     with pytest.raises(ReadOnlyError, match="open a new revision"):
-        store.set_circuit_field(circuit_id, "zs", "0.9")
+        store.circuits.set_field(circuit_id, "zs", "0.9")
     with pytest.raises(ReadOnlyError):
-        store.set_job_field(job_id, "ze", "0.5")
+        store.jobs.set_field(job_id, "ze", "0.5")
     with pytest.raises(ReadOnlyError):
-        store.add_board(job_id, "DB2")
+        store.boards.add(job_id, "DB2")
     with pytest.raises(ReadOnlyError):
-        store.reassess_job(job_id)
+        store.jobs.reassess(job_id)
 
 
 def test_a_submitted_job_is_frozen_until_returned_with_a_comment(store: Store) -> None:
     people = People(store)
     job_id, circuit_id = draft_job(store, people.qualified)
-    store.submit_for_review(job_id, people.qualified)
+    store.review.submit(job_id, people.qualified)
     with pytest.raises(ReadOnlyError, match="return it to draft"):
-        store.set_circuit_field(circuit_id, "zs", "0.9")
+        store.circuits.set_field(circuit_id, "zs", "0.9")
     with pytest.raises(ReviewError, match="a comment is needed"):
-        store.return_to_draft(job_id, people.supervisor, "  ")
+        store.review.return_to_draft(job_id, people.supervisor, "  ")
     with pytest.raises(ReviewError, match="only a supervisor"):
-        store.return_to_draft(job_id, people.qualified, "fine by me")
-    store.return_to_draft(job_id, people.supervisor, "Zs on circuit 1 looks high: retest")
-    job = store.get_job(job_id)
+        store.review.return_to_draft(job_id, people.qualified, "fine by me")
+    store.review.return_to_draft(job_id, people.supervisor, "Zs on circuit 1 looks high: retest")
+    job = store.jobs.get(job_id)
     assert (job["status"], job["review_comment"]) == ("draft", "Zs on circuit 1 looks high: retest")
-    store.set_circuit_field(circuit_id, "zs", "0.9", by=people.qualified)
+    store.circuits.set_field(circuit_id, "zs", "0.9", by=people.qualified)
 
 
 def test_review_steps_out_of_order_are_refused(store: Store) -> None:
     people = People(store)
     job_id, _ = draft_job(store, people.qualified)
     with pytest.raises(ReviewError, match="is draft, not submitted"):
-        store.approve(job_id, people.supervisor, PIN)
-    store.submit_for_review(job_id, people.qualified)
+        store.review.approve(job_id, people.supervisor, PIN)
+    store.review.submit(job_id, people.qualified)
     with pytest.raises(ReviewError, match="is submitted, not draft"):
-        store.submit_for_review(job_id, people.qualified)
+        store.review.submit(job_id, people.qualified)
     with pytest.raises(ReviewError, match="is not a supervisor"):
-        store.approve(job_id, people.qualified, PIN)
+        store.review.approve(job_id, people.qualified, PIN)
 
 
 def test_wrong_pins_count_down_then_lock_out_even_the_right_pin(store: Store) -> None:
     people = People(store)
     job_id, _ = draft_job(store, people.qualified)
-    store.submit_for_review(job_id, people.qualified)
+    store.review.submit(job_id, people.qualified)
     for left in range(MAX_WRONG_PINS - 1, 0, -1):
         with pytest.raises(PinError) as caught:
-            store.approve(job_id, people.supervisor, "0000")
+            store.review.approve(job_id, people.supervisor, "0000")
         assert str(caught.value) == f"wrong PIN ({left} attempts left before a lock-out)"
         assert not isinstance(caught.value, LockedOutError)
     with pytest.raises(LockedOutError, match="try again in 300 s"):
-        store.approve(job_id, people.supervisor, "0000")
-    store.clock.now += LOCKOUT_S - 10
+        store.review.approve(job_id, people.supervisor, "0000")
+    store.core.clock.now += LOCKOUT_S - 10
     with pytest.raises(LockedOutError, match="try again in 10 s"):
-        store.approve(job_id, people.supervisor, PIN)
-    store.clock.now += 11
-    store.approve(job_id, people.supervisor, PIN)
-    assert store.get_job(job_id)["status"] == "approved"
-    wrong = [a for a in store.audit(job_id) if a["field"] == "pin"]
+        store.review.approve(job_id, people.supervisor, PIN)
+    store.core.clock.now += 11
+    store.review.approve(job_id, people.supervisor, PIN)
+    assert store.jobs.get(job_id)["status"] == "approved"
+    wrong = [a for a in store.jobs.audit(job_id) if a["field"] == "pin"]
     assert len(wrong) == MAX_WRONG_PINS and all(a["who"] == "Sue Supervisor" for a in wrong)
 
 
@@ -150,61 +150,61 @@ def test_a_right_pin_resets_the_count_of_wrong_ones(store: Store) -> None:
     people = People(store)
     for _ in range(2):
         job_id, _ = draft_job(store, people.qualified)
-        store.submit_for_review(job_id, people.qualified)
+        store.review.submit(job_id, people.qualified)
         for _ in range(MAX_WRONG_PINS - 1):
             with pytest.raises(PinError):
-                store.approve(job_id, people.supervisor, "1111")
-        store.approve(job_id, people.supervisor, PIN)
+                store.review.approve(job_id, people.supervisor, "1111")
+        store.review.approve(job_id, people.supervisor, PIN)
 
 
 def test_a_supervisor_without_a_pin_cannot_approve(store: Store) -> None:
     people = People(store)
-    no_pin = store.add_person("Nell", "supervisor")
+    no_pin = store.people.add("Nell", "supervisor")
     job_id, _ = draft_job(store, people.qualified)
-    store.submit_for_review(job_id, people.qualified)
+    store.review.submit(job_id, people.qualified)
     with pytest.raises(PinError, match="no PIN is set for Nell"):
-        store.approve(job_id, no_pin, "1234")
-    store.set_pin(no_pin, "1234")
-    store.approve(job_id, no_pin, "1234")
+        store.review.approve(job_id, no_pin, "1234")
+    store.people.set_pin(no_pin, "1234")
+    store.review.approve(job_id, no_pin, "1234")
 
 
 def test_revision_copies_the_approved_job_and_leaves_it_unchanged(store: Store) -> None:
     people = People(store)
     job_id, circuit_id = draft_job(store, people.qualified)
-    store.submit_for_review(job_id, people.qualified)
-    store.approve(job_id, people.supervisor, PIN)
-    approved = store.job_document(job_id)
+    store.review.submit(job_id, people.qualified)
+    store.review.approve(job_id, people.supervisor, PIN)
+    approved = store.documents.export(job_id)
     with pytest.raises(ReviewError, match="a reason is needed"):
-        store.open_revision(job_id, " ", people.qualified)
-    new_id = store.open_revision(job_id, "RCD added to circuit 1", people.qualified)
+        store.review.open_revision(job_id, " ", people.qualified)
+    new_id = store.review.open_revision(job_id, "RCD added to circuit 1", people.qualified)
     with pytest.raises(ReviewError, match=f"revision job {new_id} is already open"):
-        store.open_revision(job_id, "again", people.qualified)
-    new = store.get_job(new_id)
+        store.review.open_revision(job_id, "again", people.qualified)
+    new = store.jobs.get(new_id)
     assert (new["status"], new["revision"], new["parent_job_id"], new["revision_reason"]) == (
         "draft",
         2,
         job_id,
         "RCD added to circuit 1",
     )
-    (board,) = store.boards(new_id)
-    (circuit,) = store.circuits(board["id"])
-    copied = store.get_circuit(circuit["id"])
-    assert copied["fields"] == store.get_circuit(circuit_id)["fields"]
-    store.set_circuit_field(circuit["id"], "rcd_idn", "30 mA", by=people.qualified)
-    after = store.job_document(job_id)
+    (board,) = store.boards.of_job(new_id)
+    (circuit,) = store.circuits.of_board(board["id"])
+    copied = store.circuits.get(circuit["id"])
+    assert copied["fields"] == store.circuits.get(circuit_id)["fields"]
+    store.circuits.set_field(circuit["id"], "rcd_idn", "30 mA", by=people.qualified)
+    after = store.documents.export(job_id)
     assert after["boards"] == approved["boards"] and after["job"] == approved["job"]
-    listed = {j["id"]: j for j in store.list_jobs()}
+    listed = {j["id"]: j for j in store.jobs.all()}
     assert listed[job_id]["superseded"] == 1 and listed[new_id]["superseded"] == 0
     with pytest.raises(ReviewError, match="only an approved job is revised"):
-        store.open_revision(new_id, "why not", people.qualified)
+        store.review.open_revision(new_id, "why not", people.qualified)
 
 
 def test_audit_trail_records_who_what_old_and_new(store: Store) -> None:
     people = People(store)
     job_id, circuit_id = draft_job(store, people.apprentice)
-    store.set_circuit_field(circuit_id, "zs", "1.35", by=people.qualified)
-    store.set_job_field(job_id, "ze", "0.75", by=people.qualified)
-    trail = store.audit(job_id)
+    store.circuits.set_field(circuit_id, "zs", "1.35", by=people.qualified)
+    store.jobs.set_field(job_id, "ze", "0.75", by=people.qualified)
+    trail = store.jobs.audit(job_id)
     zs_changes = [a for a in trail if a["field"] == "zs"]
     assert [(a["who"], a["old"], a["new"], a["what"]) for a in zs_changes] == [
         ("Abe Apprentice", "", "1.2", "circuit 1 zs"),

@@ -57,8 +57,8 @@ texts = st.one_of(st.sampled_from(ODD), st.text(max_size=60))
 def shared(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Store]:
     """One store with a job, a board and a circuit, shared by the property tests."""
     store = Store.open(tmp_path_factory.mktemp("roundtrip"))
-    job_id = store.create_job({"client_ref": "RT"})
-    store.add_circuit(store.add_board(job_id, "DB1"), "1")
+    job_id = store.jobs.create({"client_ref": "RT"})
+    store.circuits.add(store.boards.add(job_id, "DB1"), "1")
     yield store
     store.close()
 
@@ -66,8 +66,8 @@ def shared(tmp_path_factory: pytest.TempPathFactory) -> Iterator[Store]:
 @settings(max_examples=60, deadline=None)
 @given(name=fields, raw=texts)
 def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: str, raw: str) -> None:
-    saved = shared.set_circuit_field(1, name, raw)
-    stored = shared.get_circuit(1)["fields"][name]
+    saved = shared.circuits.set_field(1, name, raw)
+    stored = shared.circuits.get(1)["fields"][name]
     assert stored["raw"] == raw == saved["raw"]
     assert (stored["value"], stored["error"]) == (saved["value"], saved["error"])
     assert stored["value"] is None or stored["error"] is None
@@ -82,29 +82,29 @@ def test_any_text_in_any_circuit_field_comes_back_exactly(shared: Store, name: s
 def test_job_and_board_text_comes_back_exactly(
     shared: Store, job: dict[str, str], board: str, raw: str
 ) -> None:
-    job_id = shared.create_job(job)
-    fields_back = shared.get_job(job_id)["fields"]
+    job_id = shared.jobs.create(job)
+    fields_back = shared.jobs.get(job_id)["fields"]
     for name, typed in job.items():
         if typed.strip() or name not in ("system", "u0", "cmin"):
             assert fields_back[name]["raw"] == typed
-    board_id = shared.add_board(job_id, "B")
-    shared.set_board_field(board_id, board, raw)
-    assert shared.boards(job_id)[0]["fields"][board]["raw"] == raw
+    board_id = shared.boards.add(job_id, "B")
+    shared.boards.set_field(board_id, board, raw)
+    assert shared.boards.of_job(job_id)[0]["fields"][board]["raw"] == raw
 
 
 def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> None:
     with Store.open(tmp_path / "a") as first:
         job_id = create_demo_job(first)
-        first.set_circuit_field(1, "zs", "¿0.7?")
-        doc = first.job_document(job_id)
+        first.circuits.set_field(1, "zs", "¿0.7?")
+        doc = first.documents.export(job_id)
     text = json.dumps(doc, ensure_ascii=False)
     assert doc["schema"] == "boardside-job" and doc["schema_version"] == 1
     assert doc["job"]["client_ref"] == "TY-2026-118"
     assert len(doc["library_devices"]) == 1 and doc["audit"]
     with Store.open(tmp_path / "b") as second:
-        second.add_library_device("already here", [(10, 10), (100, 0.1)])
-        new_id = second.import_job_document(json.loads(text))
-        again = second.job_document(new_id)
+        second.library.add("already here", [(10, 10), (100, 0.1)])
+        new_id = second.documents.import_(json.loads(text))
+        again = second.documents.export(new_id)
     assert again["job"]["fields"] == doc["job"]["fields"]
     assert again["job"]["status"] == "draft"
     assert restored(again) == restored(doc)
@@ -151,45 +151,45 @@ def restored(doc: dict) -> dict:
 def reviewed_revisions(store: Store) -> tuple[int, int]:
     """The demo job returned once with a comment, approved, then revised and submitted again."""
     job_id = create_demo_job(store)
-    people = {p["name"]: p["id"] for p in store.people()}
+    people = {p["name"]: p["id"] for p in store.people.all()}
     rosa, ines = people["Rosa Quennell"], people["Ines Okafor"]
-    store.submit_for_review(job_id, rosa)
-    store.return_to_draft(job_id, ines, "Circuit 3: measure Zs again – «0.7?» is not a reading")
-    store.set_circuit_field(3, "zs", "0.41 Ω", by=rosa)
-    store.submit_for_review(job_id, rosa)
-    store.approve(job_id, ines, DEMO_PIN)
-    revision_id = store.open_revision(job_id, "Board DB2 replaced", by=rosa)
-    store.set_job_field(revision_id, "description", "After the DB2 swap", by=rosa)
-    store.submit_for_review(revision_id, rosa)
+    store.review.submit(job_id, rosa)
+    store.review.return_to_draft(job_id, ines, "Circuit 3: measure Zs again – «0.7?» is not a reading")
+    store.circuits.set_field(3, "zs", "0.41 Ω", by=rosa)
+    store.review.submit(job_id, rosa)
+    store.review.approve(job_id, ines, DEMO_PIN)
+    revision_id = store.review.open_revision(job_id, "Board DB2 replaced", by=rosa)
+    store.jobs.set_field(revision_id, "description", "After the DB2 swap", by=rosa)
+    store.review.submit(revision_id, rosa)
     return job_id, revision_id
 
 
 def test_an_import_restores_review_revision_people_and_audit(tmp_path: Path) -> None:
     with Store.open(tmp_path / "site") as site:
         first_id, second_id = reviewed_revisions(site)
-        first, second = site.job_document(first_id), site.job_document(second_id)
+        first, second = site.documents.export(first_id), site.documents.export(second_id)
     first, second = json.loads(json.dumps(first)), json.loads(json.dumps(second))
     assert first["job"]["status"] == "approved" and second["job"]["status"] == "submitted"
     with Store.open(tmp_path / "office") as office:
-        ines_here = office.add_person("Ines Okafor", "supervisor", "9753")
-        office.add_person("Rosa Quennell", "supervisor")  # same name, another role: not her
-        new_first = office.import_job_document(first)
-        new_second = office.import_job_document(second)
-        again_first, again_second = office.job_document(new_first), office.job_document(new_second)
+        ines_here = office.people.add("Ines Okafor", "supervisor", "9753")
+        office.people.add("Rosa Quennell", "supervisor")  # same name, another role: not her
+        new_first = office.documents.import_(first)
+        new_second = office.documents.import_(second)
+        again_first, again_second = office.documents.export(new_first), office.documents.export(new_second)
         assert restored(again_first) == restored(first)
         assert restored(again_second) == restored(second)
         assert again_first["audit"][-1]["field"] == "imported"
-        approved = office.get_job(new_first)
+        approved = office.jobs.get(new_first)
         assert approved["approved_by"] == ines_here
         assert approved["version"] == 1 and approved["revision"] == 1
-        assert office.get_job(new_second)["parent_job_id"] == new_first
-        assert office.get_job(new_second)["revision"] == 2
-        circuit_id = office.circuits(office.boards(new_first)[0]["id"])[0]["id"]
+        assert office.jobs.get(new_second)["parent_job_id"] == new_first
+        assert office.jobs.get(new_second)["revision"] == 2
+        circuit_id = office.circuits.of_board(office.boards.of_job(new_first)[0]["id"])[0]["id"]
         with pytest.raises(ReadOnlyError):
-            office.set_circuit_field(circuit_id, "zs", "0.5")
+            office.circuits.set_field(circuit_id, "zs", "0.5")
         with pytest.raises(ReviewError, match="already open"):
-            office.open_revision(new_first, "again", None)
-        people = {(p["name"], p["role"]): p["has_pin"] for p in office.people()}
+            office.review.open_revision(new_first, "again", None)
+        people = {(p["name"], p["role"]): p["has_pin"] for p in office.people.all()}
     assert people == {
         ("Ines Okafor", "supervisor"): 1,
         ("Rosa Quennell", "supervisor"): 0,
@@ -201,9 +201,9 @@ def test_an_import_restores_review_revision_people_and_audit(tmp_path: Path) -> 
 def test_a_revision_whose_parent_is_not_here_keeps_its_reason_only(tmp_path: Path) -> None:
     with Store.open(tmp_path / "site") as site:
         _, second_id = reviewed_revisions(site)
-        doc = site.job_document(second_id)
+        doc = site.documents.export(second_id)
     with Store.open(tmp_path / "office") as office:
-        job = office.get_job(office.import_job_document(doc))
+        job = office.jobs.get(office.documents.import_(doc))
     assert (job["parent_job_id"], job["revision"], job["revision_reason"]) == (
         None, 2, "Board DB2 replaced")
 
@@ -211,15 +211,15 @@ def test_a_revision_whose_parent_is_not_here_keeps_its_reason_only(tmp_path: Pat
 def test_exported_assessments_stay_unless_a_draft_was_assessed_by_another_calc(tmp_path: Path) -> None:
     with Store.open(tmp_path / "site") as site:
         approved_id, draft_id = reviewed_revisions(site)
-        site.return_to_draft(draft_id, [p["id"] for p in site.people() if p["role"] == "supervisor"][0],
-                             "check the description")
-        docs = [site.job_document(approved_id), site.job_document(draft_id)]
+        supervisor = [p["id"] for p in site.people.all() if p["role"] == "supervisor"][0]
+        site.review.return_to_draft(draft_id, supervisor, "check the description")
+        docs = [site.documents.export(approved_id), site.documents.export(draft_id)]
     for doc in docs:
         circuit = doc["boards"][0]["circuits"][0]
         circuit["calc_version"] = circuit["assessment"]["calc_version"] = "0.0.1-older"
         circuit["verdict"] = "fail"
     with Store.open(tmp_path / "office") as office:
-        kept, redone = (office.job_document(office.import_job_document(doc)) for doc in docs)
+        kept, redone = (office.documents.export(office.documents.import_(doc)) for doc in docs)
 
     def circuits(doc: dict) -> list[dict]:
         return [dict(c, id=None, updated_by=None) for c in doc["boards"][0]["circuits"]]
@@ -243,28 +243,28 @@ def test_exported_assessments_stay_unless_a_draft_was_assessed_by_another_calc(t
 )
 def test_a_foreign_document_is_refused(tmp_path: Path, doc: dict, problem: str) -> None:
     with Store.open(tmp_path) as store, pytest.raises(DocumentError) as caught:
-        store.import_job_document(doc)
+        store.documents.import_(doc)
     assert str(caught.value) == f"not a readable job document: {problem}"
 
 
 def test_a_document_broken_half_way_imports_nothing(tmp_path: Path) -> None:
     with Store.open(tmp_path) as store:
-        doc = store.job_document(create_demo_job(store))
+        doc = store.documents.export(create_demo_job(store))
         del doc["boards"][1]["circuits"][2]["fields"]
-        before = (store.list_jobs(), store.library_devices())
+        before = (store.jobs.all(), store.library.all())
         with pytest.raises(DocumentError, match="KeyError: 'fields'"):
-            store.import_job_document(doc)
-        assert (store.list_jobs(), store.library_devices()) == before
+            store.documents.import_(doc)
+        assert (store.jobs.all(), store.library.all()) == before
 
 
 def test_an_older_document_without_people_matches_by_name(tmp_path: Path) -> None:
     with Store.open(tmp_path / "site") as site:
-        doc = site.job_document(reviewed_revisions(site)[0])
+        doc = site.documents.export(reviewed_revisions(site)[0])
     del doc["people"]
     with Store.open(tmp_path / "office") as office:
-        rosa = office.add_person("Rosa Quennell", "apprentice")
-        job = office.get_job(office.import_job_document(doc))
-        people = {(p["name"], p["role"]) for p in office.people()}
+        rosa = office.people.add("Rosa Quennell", "apprentice")
+        job = office.jobs.get(office.documents.import_(doc))
+        people = {(p["name"], p["role"]) for p in office.people.all()}
     assert job["recorded_by"] == job["submitted_by"] == rosa
     assert people == {("Rosa Quennell", "apprentice"), ("Ines Okafor", "supervisor")}
 
@@ -283,17 +283,17 @@ def test_an_older_document_without_people_matches_by_name(tmp_path: Path) -> Non
 )
 def test_a_document_with_a_bad_review_part_imports_nothing(tmp_path: Path, change, problem: str) -> None:
     with Store.open(tmp_path / "site") as site:
-        doc = site.job_document(reviewed_revisions(site)[0])
+        doc = site.documents.export(reviewed_revisions(site)[0])
     change(doc)
     with Store.open(tmp_path / "office") as office:
         with pytest.raises(DocumentError, match=re.escape(problem)):
-            office.import_job_document(doc)
-        assert (office.list_jobs(), office.people(), office.library_devices()) == ([], [], [])
+            office.documents.import_(doc)
+        assert (office.jobs.all(), office.people.all(), office.library.all()) == ([], [], [])
 
 
 @pytest.mark.parametrize("raw", ["²", "١", "3²", "0x1", "-1", "1.0"])
 def test_a_library_reference_that_is_not_plain_digits_is_an_error(shared: Store, raw: str) -> None:
-    saved = shared.set_circuit_field(1, "library_device_id", raw)
+    saved = shared.circuits.set_field(1, "library_device_id", raw)
     assert (saved["raw"], saved["value"], saved["error"]) == (
         raw,
         None,

@@ -10,6 +10,7 @@ from pathlib import Path
 
 import platformdirs
 import pytest
+import sqlite_utils
 
 from mobile_app.store import (
     CIRCUIT_FIELDS,
@@ -18,9 +19,12 @@ from mobile_app.store import (
     Store,
     UnknownFieldError,
 )
-from mobile_app.store.core import default_data_dir
+from mobile_app.store.core import Core, default_data_dir
 from mobile_app.store.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
 from mobile_app.store.errors import InvalidValueError
+from mobile_app.store.library import Library
+from mobile_app.store.schema import connect, migrate
+from mobile_app.store.settings import Settings
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -48,11 +52,11 @@ def store(tmp_path: Path) -> Iterator[Store]:
 
 def make_circuit(store: Store, zs: str = "0.62") -> int:
     """A TN-C-S job with one board and a B32 ring circuit (2.5/1.5 mm² copper) with Zs typed."""
-    job_id = store.create_job({"client_ref": "T-1", "system": "TN-C-S", "ze": "0.35"})
-    board_id = store.add_board(job_id, "DB1", "hall", "origin")
-    circuit_id = store.add_circuit(board_id, "1", "ring")
+    job_id = store.jobs.create({"client_ref": "T-1", "system": "TN-C-S", "ze": "0.35"})
+    board_id = store.boards.add(job_id, "DB1", "hall", "origin")
+    circuit_id = store.circuits.add(board_id, "1", "ring")
     for name, raw in {**B32_RING, "zs": zs}.items():
-        store.set_circuit_field(circuit_id, name, raw)
+        store.circuits.set_field(circuit_id, name, raw)
     return circuit_id
 
 
@@ -75,36 +79,36 @@ def test_foreign_keys_refuse_a_board_without_a_job(store: Store) -> None:
 
 
 def test_job_fields_keep_raw_value_and_error(store: Store) -> None:
-    job_id = store.create_job({"client_ref": "  Ref 7 ", "u0": "230 V", "ze": "0,35 Ω"})
-    job = store.get_job(job_id)
+    job_id = store.jobs.create({"client_ref": "  Ref 7 ", "u0": "230 V", "ze": "0,35 Ω"})
+    job = store.jobs.get(job_id)
     assert set(job["fields"]) == set(JOB_FIELDS)
     assert job["fields"]["client_ref"] == {"raw": "  Ref 7 ", "value": "Ref 7", "error": None}
     assert job["fields"]["ze"]["value"] == pytest.approx(0.35)
     assert job["fields"]["cmin"] == {"raw": "0.95", "value": 0.95, "error": None}
-    saved = store.set_job_field(job_id, "pfc", "lots")
+    saved = store.jobs.set_field(job_id, "pfc", "lots")
     assert saved["raw"] == "lots" and saved["value"] is None and saved["error"]
-    assert store.get_job(job_id)["fields"]["pfc"]["raw"] == "lots"
-    assert store.set_job_field(job_id, "system", "tt")["value"] == "TT"
-    assert store.set_job_field(job_id, "system", "IT")["error"] == "must be one of: TN-C-S, TN-S, TT"
-    assert store.set_job_field(job_id, "date", "24/11/2026")["value"] == "2026-11-24"
-    assert store.set_job_field(job_id, "date", "yesterday")["error"]
+    assert store.jobs.get(job_id)["fields"]["pfc"]["raw"] == "lots"
+    assert store.jobs.set_field(job_id, "system", "tt")["value"] == "TT"
+    assert store.jobs.set_field(job_id, "system", "IT")["error"] == "must be one of: TN-C-S, TN-S, TT"
+    assert store.jobs.set_field(job_id, "date", "24/11/2026")["value"] == "2026-11-24"
+    assert store.jobs.set_field(job_id, "date", "yesterday")["error"]
 
 
 def test_create_job_uses_default_settings(store: Store) -> None:
-    store.set_setting("default_u0", "240 V")
-    store.set_setting("default_system", "TN-S")
-    fields = store.get_job(store.create_job({}))["fields"]
+    store.settings.set("default_u0", "240 V")
+    store.settings.set("default_system", "TN-S")
+    fields = store.jobs.get(store.jobs.create({}))["fields"]
     assert fields["u0"]["value"] == 240.0 and fields["system"]["value"] == "TN-S"
 
 
 def test_circuit_save_reassesses_and_bumps_the_version(store: Store) -> None:
     circuit_id = make_circuit(store)
-    circuit = store.get_circuit(circuit_id)
+    circuit = store.circuits.get(circuit_id)
     assert set(circuit["fields"]) == set(CIRCUIT_FIELDS)
     assert circuit["verdict"] == "pass"
     assert circuit["assessment"]["earth_fault_current_a"] == pytest.approx(230 * 0.95 / 0.62)
     assert circuit["calc_version"]
-    saved = store.set_circuit_field(circuit_id, "zs", "1.9 Ω", expected_version=circuit["version"])
+    saved = store.circuits.set_field(circuit_id, "zs", "1.9 Ω", expected_version=circuit["version"])
     assert saved == {
         "field": "zs",
         "raw": "1.9 Ω",
@@ -117,9 +121,9 @@ def test_circuit_save_reassesses_and_bumps_the_version(store: Store) -> None:
 
 def test_an_invalid_reading_is_kept_and_makes_the_circuit_incomplete(store: Store) -> None:
     circuit_id = make_circuit(store)
-    saved = store.set_circuit_field(circuit_id, "zs", "0.6.2")
+    saved = store.circuits.set_field(circuit_id, "zs", "0.6.2")
     assert saved["verdict"] == "incomplete" and saved["error"]
-    circuit = store.get_circuit(circuit_id)
+    circuit = store.circuits.get(circuit_id)
     assert circuit["fields"]["zs"] == {"raw": "0.6.2", "value": None, "error": saved["error"]}
     assert circuit["assessment"] is None
     assert circuit["assessment_error"] == "invalid entries: circuit.zs"
@@ -127,37 +131,37 @@ def test_an_invalid_reading_is_kept_and_makes_the_circuit_incomplete(store: Stor
 
 def test_saving_the_same_text_again_changes_nothing(store: Store) -> None:
     circuit_id = make_circuit(store)
-    before = store.get_circuit(circuit_id)
-    audit_before = store.audit(before["job_id"])
-    again = store.set_circuit_field(circuit_id, "zs", "0.62")
+    before = store.circuits.get(circuit_id)
+    audit_before = store.jobs.audit(before["job_id"])
+    again = store.circuits.set_field(circuit_id, "zs", "0.62")
     assert again["version"] == before["version"]
-    assert store.audit(before["job_id"]) == audit_before
+    assert store.jobs.audit(before["job_id"]) == audit_before
 
 
 def test_a_supply_change_reassesses_every_circuit_of_the_job(store: Store) -> None:
     circuit_id = make_circuit(store, zs="")
-    store.set_circuit_field(circuit_id, "r1r2", "0.30")
-    job_id = store.get_circuit(circuit_id)["job_id"]
-    assert store.get_circuit(circuit_id)["assessment"]["zs_ohm"] == pytest.approx(0.65)
-    store.set_job_field(job_id, "ze", "0.80")
-    assert store.get_circuit(circuit_id)["assessment"]["zs_ohm"] == pytest.approx(1.10)
+    store.circuits.set_field(circuit_id, "r1r2", "0.30")
+    job_id = store.circuits.get(circuit_id)["job_id"]
+    assert store.circuits.get(circuit_id)["assessment"]["zs_ohm"] == pytest.approx(0.65)
+    store.jobs.set_field(job_id, "ze", "0.80")
+    assert store.circuits.get(circuit_id)["assessment"]["zs_ohm"] == pytest.approx(1.10)
 
 
 def test_a_board_supply_overrides_the_job_supply(store: Store) -> None:
     circuit_id = make_circuit(store)
-    board_id = store.get_circuit(circuit_id)["board_id"]
-    store.set_board_field(board_id, "system", "TT")
-    assert store.calc_input(circuit_id)["supply"]["system"] == "TT"
-    assert store.get_circuit(circuit_id)["assessment"]["inputs"]["supply"]["system"] == "TT"
-    store.set_board_field(board_id, "system", "")
-    assert store.calc_input(circuit_id)["supply"]["system"] == "TN-C-S"
+    board_id = store.circuits.get(circuit_id)["board_id"]
+    store.boards.set_field(board_id, "system", "TT")
+    assert store.circuits.calc_input(circuit_id)["supply"]["system"] == "TT"
+    assert store.circuits.get(circuit_id)["assessment"]["inputs"]["supply"]["system"] == "TT"
+    store.boards.set_field(board_id, "system", "")
+    assert store.circuits.calc_input(circuit_id)["supply"]["system"] == "TN-C-S"
 
 
 def test_calc_input_follows_the_contract_shape(store: Store) -> None:
     circuit_id = make_circuit(store)
-    store.set_circuit_field(circuit_id, "rcd_idn", "30 mA")
-    store.set_setting("final_circuit_max_a", 63)
-    assert store.calc_input(circuit_id) == {
+    store.circuits.set_field(circuit_id, "rcd_idn", "30 mA")
+    store.settings.set("final_circuit_max_a", 63)
+    assert store.circuits.calc_input(circuit_id) == {
         "supply": {"system": "TN-C-S", "u0": 230.0, "cmin": 0.95, "ze": 0.35},
         "circuit": {
             "role": "final",
@@ -173,42 +177,42 @@ def test_calc_input_follows_the_contract_shape(store: Store) -> None:
 
 def test_a_new_circuit_copies_device_and_cables_but_not_readings(store: Store) -> None:
     circuit_id = make_circuit(store)
-    board_id = store.get_circuit(circuit_id)["board_id"]
-    second = store.get_circuit(store.add_circuit(board_id, "2", "radial"))
+    board_id = store.circuits.get(circuit_id)["board_id"]
+    second = store.circuits.get(store.circuits.add(board_id, "2", "radial"))
     assert second["fields"]["device_rating"]["raw"] == "32"
     assert second["fields"]["cpc_csa"]["raw"] == "1.5"
     assert second["fields"]["zs"]["raw"] == ""
     assert second["verdict"] == "incomplete"
-    assert [c["number"] for c in store.circuits(board_id)] == ["1", "2"]
+    assert [c["number"] for c in store.circuits.of_board(board_id)] == ["1", "2"]
 
 
 def test_list_jobs_counts_verdicts_and_searches(store: Store) -> None:
     circuit_id = make_circuit(store)
-    board_id = store.get_circuit(circuit_id)["board_id"]
-    store.add_circuit(board_id, "2")
-    failing = store.add_circuit(board_id, "3")
-    store.set_circuit_field(failing, "zs", "5")
-    other = store.create_job({"client_ref": "100%_sure", "site_address": "Quay"})
-    (row,) = store.list_jobs("T-1")
+    board_id = store.circuits.get(circuit_id)["board_id"]
+    store.circuits.add(board_id, "2")
+    failing = store.circuits.add(board_id, "3")
+    store.circuits.set_field(failing, "zs", "5")
+    other = store.jobs.create({"client_ref": "100%_sure", "site_address": "Quay"})
+    (row,) = store.jobs.all("T-1")
     assert (row["circuits"], row["failing"], row["incomplete"]) == (3, 1, 1)
-    assert [j["id"] for j in store.list_jobs("%_")] == [other]
-    assert [j["id"] for j in store.list_jobs("quay")] == [other]
-    assert len(store.list_jobs()) == 2
+    assert [j["id"] for j in store.jobs.all("%_")] == [other]
+    assert [j["id"] for j in store.jobs.all("quay")] == [other]
+    assert len(store.jobs.all()) == 2
 
 
 def test_unknown_field_and_missing_rows_raise_typed_errors(store: Store) -> None:
     circuit_id = make_circuit(store)
     with pytest.raises(UnknownFieldError, match="circuit has no field 'colour'"):
-        store.set_circuit_field(circuit_id, "colour", "red")
+        store.circuits.set_field(circuit_id, "colour", "red")
     with pytest.raises(NotFoundError, match="no circuit with id 999"):
-        store.get_circuit(999)
+        store.circuits.get(999)
     with pytest.raises(NotFoundError):
-        store.add_board(999, "DB9")
+        store.boards.add(999, "DB9")
 
 
 def test_library_device_is_used_by_a_curve_circuit(store: Store) -> None:
-    device_id = store.add_library_device("Test breaker", [(1000, 0.02), (130, 3000), (450, 30)], rating_a=100)
-    assert store.library_devices() == [
+    device_id = store.library.add("Test breaker", [(1000, 0.02), (130, 3000), (450, 30)], rating_a=100)
+    assert store.library.all() == [
         {
             "id": device_id,
             "name": "Test breaker",
@@ -217,58 +221,76 @@ def test_library_device_is_used_by_a_curve_circuit(store: Store) -> None:
         }
     ]
     circuit_id = make_circuit(store)
-    store.set_circuit_field(circuit_id, "device_kind", "curve")
-    saved = store.set_circuit_field(circuit_id, "library_device_id", str(device_id))
+    store.circuits.set_field(circuit_id, "device_kind", "curve")
+    saved = store.circuits.set_field(circuit_id, "library_device_id", str(device_id))
     assert saved["error"] is None
-    device = store.calc_input(circuit_id)["circuit"]["device"]
+    device = store.circuits.calc_input(circuit_id)["circuit"]["device"]
     assert device == {
         "kind": "curve",
         "points": [[130.0, 3000.0], [450.0, 30.0], [1000.0, 0.02]],
         "rating": 32.0,
     }
-    assert store.set_circuit_field(circuit_id, "library_device_id", "77")["error"] == (
+    assert store.circuits.set_field(circuit_id, "library_device_id", "77")["error"] == (
         "no device with id 77 in the library"
     )
 
 
 def test_library_refuses_a_curve_whose_time_rises(store: Store) -> None:
     with pytest.raises(InvalidValueError, match="points: time must fall as current rises"):
-        store.add_library_device("bad", [(100, 1), (200, 2)])
+        store.library.add("bad", [(100, 1), (200, 2)])
     with pytest.raises(InvalidValueError, match="name: must not be blank"):
-        store.add_library_device("  ", [(100, 2), (200, 1)])
+        store.library.add("  ", [(100, 2), (200, 1)])
 
 
 def test_settings_round_trip_json(store: Store) -> None:
-    assert store.get_setting("sync_url", "none") == "none"
-    store.set_setting("sync_url", "https://example.invalid/dav")
-    store.set_setting("thresholds", {"a": [1, 2.5, None]})
-    assert store.get_setting("sync_url") == "https://example.invalid/dav"
-    assert store.get_setting("thresholds") == {"a": [1, 2.5, None]}
+    assert store.settings.get("sync_url", "none") == "none"
+    store.settings.set("sync_url", "https://example.invalid/dav")
+    store.settings.set("thresholds", {"a": [1, 2.5, None]})
+    assert store.settings.get("sync_url") == "https://example.invalid/dav"
+    assert store.settings.get("thresholds") == {"a": [1, 2.5, None]}
+
+
+def test_a_part_works_alone_on_the_shared_core(tmp_path: Path) -> None:
+    path = tmp_path / "parts.sqlite"
+    db = sqlite_utils.Database(connect(path))
+    migrate(db, path)
+    core = Core(path, db)
+    library, settings = Library(core), Settings(core)
+    device_id = library.add("Test breaker", [(130, 3000), (1000, 0.02)])
+    settings.set("final_circuit_max_a", 63)
+    assert library.find(device_id) == library.all()[0] and library.find(device_id + 1) is None
+    assert Settings(core).get("final_circuit_max_a") == 63
+    assert core.lock is Store(path, db).core.lock
+    db.close()
 
 
 def test_people_never_show_the_pin_hash(store: Store) -> None:
-    store.add_person("Ana", "supervisor", "482913")
-    (person,) = store.people()
+    store.people.add("Ana", "supervisor", "482913")
+    (person,) = store.people.all()
     assert person == {"id": 1, "name": "Ana", "role": "supervisor", "has_pin": 1}
     stored = store.db.conn.execute("SELECT pin_hash FROM people").fetchone()[0]
     assert "482913" not in stored and stored.startswith("scrypt$")
     with pytest.raises(InvalidValueError, match="role: must be one of"):
-        store.add_person("Bo", "boss")
+        store.people.add("Bo", "boss")
 
 
 def test_demo_job_has_mixed_devices_failures_and_one_incomplete(store: Store) -> None:
     job_id = create_demo_job(store)
-    (row,) = store.list_jobs()
+    (row,) = store.jobs.all()
     assert row["id"] == job_id and row["circuits"] >= 20
     assert row["failing"] >= 3 and row["incomplete"] == 1
-    circuits = [store.get_circuit(c["id"]) for b in store.boards(job_id) for c in store.circuits(b["id"])]
+    circuits = [
+        store.circuits.get(c["id"])
+        for b in store.boards.of_job(job_id)
+        for c in store.circuits.of_board(b["id"])
+    ]
     kinds = {(c["fields"]["device_kind"]["value"], c["fields"]["device_curve"]["value"]) for c in circuits}
     assert {("mcb", "B"), ("mcb", "C"), ("mcb", "D"), ("fuse-gg", None), ("curve", None)} <= kinds
-    assert [d["name"] for d in store.library_devices()] == [DEMO_CURVE_NAME]
-    tt_board = next(b for b in store.boards(job_id) if b["fields"]["system"]["value"] == "TT")
+    assert [d["name"] for d in store.library.all()] == [DEMO_CURVE_NAME]
+    tt_board = next(b for b in store.boards.of_job(job_id) if b["fields"]["system"]["value"] == "TT")
     assert all(
-        store.get_circuit(c["id"])["fields"]["rcd_idn"]["value"] == 0.03
-        for c in store.circuits(tt_board["id"])
+        store.circuits.get(c["id"])["fields"]["rcd_idn"]["value"] == 0.03
+        for c in store.circuits.of_board(tt_board["id"])
     )
     assert all(c["assessment_error"] is None for c in circuits)
     assert len(circuits) == sum(len(board[4]) for board in BOARDS)
@@ -285,31 +307,31 @@ def test_demo_command_prints_the_job_id_last(tmp_path: Path) -> None:
     )
     job_id = int(result.stdout.strip().splitlines()[-1])
     with Store.open(tmp_path) as store:
-        assert store.get_job(job_id)["fields"]["client_ref"]["raw"] == "TY-2026-118"
+        assert store.jobs.get(job_id)["fields"]["client_ref"]["raw"] == "TY-2026-118"
 
 
 def test_the_demo_made_twice_reuses_its_people_and_curve(store: Store) -> None:
     first, second = create_demo_job(store), create_demo_job(store)
-    assert first != second and len(store.list_jobs()) == 2
-    assert len(store.people()) == 3 and len(store.library_devices()) == 1
+    assert first != second and len(store.jobs.all()) == 2
+    assert len(store.people.all()) == 3 and len(store.library.all()) == 1
 
 
 def test_a_batch_commits_together_or_not_at_all(store: Store) -> None:
     with pytest.raises(NotFoundError), store.batch():
-        store.create_job({"client_ref": "half"})
-        store.add_board(999, "nowhere")
-    assert store.list_jobs() == []
+        store.jobs.create({"client_ref": "half"})
+        store.boards.add(999, "nowhere")
+    assert store.jobs.all() == []
     with store.batch():
-        job_id = store.create_job({"client_ref": "whole"})
-        store.add_board(job_id, "DB1")
-    assert [j["client_ref"] for j in store.list_jobs()] == ["whole"]
+        job_id = store.jobs.create({"client_ref": "whole"})
+        store.boards.add(job_id, "DB1")
+    assert [j["client_ref"] for j in store.jobs.all()] == ["whole"]
 
 
 def test_reassess_job_applies_a_changed_setting_to_a_draft_job(store: Store) -> None:
     circuit_id = make_circuit(store)
-    job_id = store.get_circuit(circuit_id)["job_id"]
-    assert store.get_circuit(circuit_id)["assessment"]["inputs"]["settings"] == {"final_circuit_max_a": 32.0}
-    store.set_setting("final_circuit_max_a", 63)
-    assert store.reassess_job(job_id) == 1
-    assessed = store.get_circuit(circuit_id)["assessment"]["inputs"]
+    job_id = store.circuits.get(circuit_id)["job_id"]
+    assert store.circuits.get(circuit_id)["assessment"]["inputs"]["settings"] == {"final_circuit_max_a": 32.0}
+    store.settings.set("final_circuit_max_a", 63)
+    assert store.jobs.reassess(job_id) == 1
+    assessed = store.circuits.get(circuit_id)["assessment"]["inputs"]
     assert assessed["settings"] == {"final_circuit_max_a": 63.0}

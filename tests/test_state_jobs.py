@@ -99,7 +99,7 @@ def test_curve_draft_errors_and_preview(store) -> None:
     assert draft.problem() is None
     assert draft.preview() is not None
     assert draft.save(store) is not None
-    assert [d["name"] for d in store.library_devices()] == ["Test MCCB"]
+    assert [d["name"] for d in store.library.all()] == ["Test MCCB"]
 
 
 def test_demo_only_when_empty_and_found_again(store) -> None:
@@ -120,7 +120,7 @@ def test_settings_check_supply_defaults(store) -> None:
 def test_library_rows_list_saved_curves(store) -> None:
     from mobile_app.state.library import library_rows
 
-    store.add_library_device("MCCB 250", [(500.0, 20.0), (3000.0, 0.02)], rating_a=250.0)
+    store.library.add("MCCB 250", [(500.0, 20.0), (3000.0, 0.02)], rating_a=250.0)
     (row,) = library_rows(store)
     assert (row.name, row.detail) == ("MCCB 250", "2 points · In 250 A")
 
@@ -179,10 +179,10 @@ def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) 
     with Store.open(tmp_path) as store:
         recovery = Recovery(store.recovered)
         assert recovery.visible and "could not be read" in recovery.message
-        assert store.list_jobs() == []
+        assert store.jobs.all() == []
         said = recovery.recover(store)
         assert said.startswith("Recovered 1 job from ")
-        assert [job["client_ref"] for job in store.list_jobs()] == ["TY-2026-118"]
+        assert [job["client_ref"] for job in store.jobs.all()] == ["TY-2026-118"]
         assert not recovery.visible
 
 
@@ -193,14 +193,14 @@ def test_changing_the_final_circuit_scope_reassesses_draft_jobs(tmp_path) -> Non
     from mobile_app.store import Store
 
     with Store.open(tmp_path) as store:
-        job = store.create_job({"client_ref": "S-1", "system": "TN-S"})
-        board = store.add_board(job, "DB1")
-        circuit = store.add_circuit(board, "1", "cooker")
+        job = store.jobs.create({"client_ref": "S-1", "system": "TN-S"})
+        board = store.boards.add(job, "DB1")
+        circuit = store.circuits.add(board, "1", "cooker")
         for name, raw in [("role", "final"), ("device_kind", "fuse-gg"), ("device_rating", "40"),
                           ("line_csa", "10"), ("cpc_csa", "4"), ("zs", "1.0")]:
-            store.set_circuit_field(circuit, name, raw)
+            store.circuits.set_field(circuit, name, raw)
         settings = SettingsState(store)
         settings.set("final_circuit_max_a", "32")
-        assert store.get_circuit(circuit)["verdict"] == "pass"
+        assert store.circuits.get(circuit)["verdict"] == "pass"
         settings.set("final_circuit_max_a", "63")
-        assert store.get_circuit(circuit)["verdict"] == "fail"
+        assert store.circuits.get(circuit)["verdict"] == "fail"

@@ -112,8 +112,8 @@ def test_save_error_keeps_typed_text(store) -> None:
     job, circuit_id = new_circuit(store)
     walk = Walk(store, circuit_id, step="readings")
     fill_to_readings(walk)
-    person = store.add_person("Sam", "qualified")
-    store.submit_for_review(job.job_id, person)
+    person = store.people.add("Sam", "qualified")
+    store.review.submit(job.job_id, person)
     view = walk.set_field("zs", "0.7")
     assert view.raw == "0.7"
     assert view.save_error is not None and view.save_error.startswith("Not saved")
@@ -140,7 +140,7 @@ def test_progress_and_neighbours(store) -> None:
 
 
 def test_device_from_the_library(store) -> None:
-    curve_id = store.add_library_device("MCCB 100", [(130.0, 3000.0), (600.0, 0.04), (2000.0, 0.02)],
+    curve_id = store.library.add("MCCB 100", [(130.0, 3000.0), (600.0, 0.04), (2000.0, 0.02)],
                                         rating_a=100.0)
     _job, circuit_id = new_circuit(store)
     walk = Walk(store, circuit_id)

@@ -72,7 +72,7 @@ def test_sync_command_refuses_plain_http_to_another_host(tmp_path, capsys):
     data = tmp_path / "data"
     setup_store(data, "http://127.0.0.1:9/office/", "office", "pw")
     store = Store.open(data)
-    store.set_setting("sync_url", "http://192.0.2.7/office/")  # RFC 5737 test address
+    store.settings.set("sync_url", "http://192.0.2.7/office/")  # RFC 5737 test address
     store.close()
     assert main(["sync", "--data", str(data)]) == 2
     assert capsys.readouterr().err == (
@@ -87,7 +87,7 @@ def test_the_password_is_kept_beside_the_store_not_in_it(tmp_path):
         target = load_target(store)
         assert (target.url, target.user, target.password) == (
             "https://dav.example.com/office/", "office", "Hunter2-pw")
-        assert store.get_setting("sync_password") is None
+        assert store.settings.get("sync_password") is None
         with pytest.raises(InsecureTargetError):
             save_target(store, "http://dav.example.com/", "office", "x")
     finally:

@@ -226,7 +226,7 @@ def export_bundle(store: Any, job_id: int, out_dir: Path, board_id: int | None =
 
     Raises the store's NotFoundError for an unknown job or board.
     """
-    doc = store.job_document(job_id)
+    doc = store.documents.export(job_id)
     if board_id is not None:
         doc = board_document(doc, board_id)
     return write_bundle(doc, out_dir, board_id)

@@ -229,5 +229,5 @@ def _refuse_constant(name: str) -> float:
 
 
 def import_job_json(store: Any, data: bytes | str) -> int:
-    """Load a JSON export into `store` as it was exported (`Store.import_job_document`); the new job's id."""
-    return int(store.import_job_document(load_job_json(data)))
+    """Load a JSON export into `store` as it was exported (`store.documents.import_`); the new job's id."""
+    return int(store.documents.import_(load_job_json(data)))

@@ -65,7 +65,7 @@ class JobsList:
                 failing=int(job.get("failing") or 0),
                 incomplete=int(job.get("incomplete") or 0),
             )
-            for job in self.store.list_jobs(self.search.strip())
+            for job in self.store.jobs.all(self.search.strip())
         ]
         if self.status == "all":
             return rows
@@ -80,8 +80,8 @@ class JobsList:
             "date": datetime.date.today().isoformat(),
             **defaults,
         }
-        job_id = int(self.store.create_job(fields, by=by))
-        self.store.add_board(job_id, "DB1")
+        job_id = int(self.store.jobs.create(fields, by=by))
+        self.store.boards.add(job_id, "DB1")
         return job_id
 
 
@@ -129,7 +129,7 @@ class JobScreen:
 
     def reload(self) -> None:
         """Read the job again."""
-        self.job: dict[str, Any] = self.store.get_job(self.job_id)
+        self.job: dict[str, Any] = self.store.jobs.get(self.job_id)
 
     @property
     def title(self) -> str:
@@ -171,7 +171,7 @@ class JobScreen:
         spec = next(s for s in JOB_SPECS + SUPPLY_SPECS if s.name == name)
         self._typed[name] = raw
         try:
-            self.store.set_job_field(self.job_id, name, raw, by=self.by)
+            self.store.jobs.set_field(self.job_id, name, raw, by=self.by)
         except StoreError as exc:
             self._save_errors[name] = f"Not saved ({exc}); your text is kept"
             return self._field(spec)
@@ -183,7 +183,7 @@ class JobScreen:
     def boards(self) -> list[BoardView]:
         """Boards in order, each with its circuits and their verdict marks."""
         views = []
-        for board in self.store.boards(self.job_id):
+        for board in self.store.boards.of_job(self.job_id):
             circuits = tuple(
                 CircuitRow(
                     id=int(c["id"]),
@@ -192,7 +192,7 @@ class JobScreen:
                     verdict=c.get("verdict") or "incomplete",
                     mark=verdict_mark(c.get("verdict")),
                 )
-                for c in self.store.circuits(board["id"])
+                for c in self.store.circuits.of_board(board["id"])
             )
             views.append(
                 BoardView(
@@ -206,19 +206,19 @@ class JobScreen:
 
     def add_board(self, designation: str = "") -> int:
         """Add a board named `designation` (or the next DBn)."""
-        name = designation.strip() or f"DB{len(self.store.boards(self.job_id)) + 1}"
-        return int(self.store.add_board(self.job_id, name))
+        name = designation.strip() or f"DB{len(self.store.boards.of_job(self.job_id)) + 1}"
+        return int(self.store.boards.add(self.job_id, name))
 
     def add_circuit(self, board_id: int, description: str = "") -> int:
         """Add the board's next circuit; choices the store left blank get the usual defaults."""
-        existing = self.store.circuits(board_id)
+        existing = self.store.circuits.of_board(board_id)
         numbers = [int(c["number"]) for c in existing if str(c.get("number", "")).isdigit()]
         number = str(max(numbers, default=0) + 1)
-        circuit_id = int(self.store.add_circuit(board_id, number, description, by=self.by))
-        fields = self.store.get_circuit(circuit_id)["fields"]
+        circuit_id = int(self.store.circuits.add(board_id, number, description, by=self.by))
+        fields = self.store.circuits.get(circuit_id)["fields"]
         for spec in all_specs().values():
             if spec.default and not (fields.get(spec.name) or {}).get("raw"):
-                self.store.set_circuit_field(circuit_id, spec.name, spec.default, by=self.by)
+                self.store.circuits.set_field(circuit_id, spec.name, spec.default, by=self.by)
         return circuit_id
 
 
@@ -226,7 +226,7 @@ def ensure_demo(store: Any) -> int:
     """The demo job's id, creating it (`mobile_app.store.demo`) if the store does not hold it."""
     from mobile_app.store import demo
 
-    for job in store.list_jobs(demo.JOB["client_ref"]):
+    for job in store.jobs.all(demo.JOB["client_ref"]):
         if job.get("client_ref") == demo.JOB["client_ref"]:
             return int(job["id"])
     return int(demo.create_demo_job(store))
@@ -234,6 +234,6 @@ def ensure_demo(store: Any) -> int:
 
 def demo_if_empty(store: Any) -> int | None:
     """Create the demo job when the store holds no job at all (`--demo`); returns its id or None."""
-    if store.list_jobs():
+    if store.jobs.all():
         return None
     return ensure_demo(store)

@@ -102,7 +102,7 @@ class CurveDraft:
         ]
         rating = calc.parse_value("circuit.device.rating", self.rating) if self.rating.strip() else None
         try:
-            device_id = int(store.add_library_device(self.name.strip(), points, rating_a=rating))
+            device_id = int(store.library.add(self.name.strip(), points, rating_a=rating))
         except StoreError as exc:
             self.message = f"Not saved: {exc}"
             return None
@@ -127,7 +127,7 @@ def library_rows(store: Any) -> list[LibraryRow]:
             name=str(d["name"]),
             detail=f"{len(d.get('points') or [])} points · In {format_quantity(d.get('rating_a'), 'A')}",
         )
-        for d in store.library_devices()
+        for d in store.library.all()
     ]
 
 

@@ -77,7 +77,7 @@ class OutboxState:
         out_dir.mkdir(parents=True, exist_ok=True)
         try:
             bundle = export_bundle(self.store, job_id, out_dir)
-            revision = int(self.store.get_job(job_id).get("revision") or 1)
+            revision = int(self.store.jobs.get(job_id).get("revision") or 1)
             self.outbox.enqueue(Path(bundle.path), job_id, revision)
         except (StoreError, OutboxError, OSError, ValueError) as exc:
             return f"Not exported: {exc}"

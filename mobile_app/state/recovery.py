@@ -35,7 +35,7 @@ class Recovery:
         try:
             salvage = salvage_jobs(self.moved.moved_to)
             for document in salvage.documents:
-                store.import_job_document(document)
+                store.documents.import_(document)
         except StoreError as exc:
             self.result = f"Could not recover the jobs: {exc}"
             return self.result

@@ -139,7 +139,7 @@ def headline(verdict: str, reasons: Any) -> str:
 
 
 def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> ResultsPanel:
-    """The panel for a circuit as the store returned it (`get_circuit`) and its calc input."""
+    """The panel for a circuit as the store returned it (`store.circuits.get`) and its calc input."""
     assessment = circuit.get("assessment") or {}
     verdict = assessment.get("verdict") or circuit.get("verdict") or "incomplete"
     device = (calc_input.get("circuit") or {}).get("device") or {}

@@ -27,7 +27,7 @@ class ReviewState:
     @property
     def status(self) -> str:
         """draft, in review (as the store spells it), approved."""
-        return str(self.store.get_job(self.job_id).get("status") or "draft")
+        return str(self.store.jobs.get(self.job_id).get("status") or "draft")
 
     @property
     def status_word(self) -> str:
@@ -36,7 +36,7 @@ class ReviewState:
 
     def summary(self) -> str:
         """What a reviewer looks at first: `22 circuits · 3 failing · 1 incomplete`."""
-        for job in self.store.list_jobs():
+        for job in self.store.jobs.all():
             if int(job["id"]) == self.job_id:
                 circuits, failing, incomplete = (int(job.get(k) or 0) for k in
                                                  ("circuits", "failing", "incomplete"))
@@ -48,7 +48,7 @@ class ReviewState:
     @property
     def comment(self) -> str | None:
         """The reviewer's comment when the job was returned to draft, if any."""
-        job = self.store.get_job(self.job_id)
+        job = self.store.jobs.get(self.job_id)
         return job.get("review_comment") if job.get("status") == "draft" else None
 
     def open_revision(self, reason: str, by_name: str) -> tuple[Outcome, int | None]:
@@ -56,18 +56,18 @@ class ReviewState:
         if not reason.strip():
             return Outcome(False, "Say why the approved job needs a new revision"), None
         try:
-            new_id = int(self.store.open_revision(self.job_id, reason.strip(), self.recorder(by_name)))
+            new_id = int(self.store.review.open_revision(self.job_id, reason.strip(), self.recorder(by_name)))
         except StoreError as exc:
             return Outcome(False, f"No new revision: {exc}"), None
         return Outcome(True, "New revision opened as a draft"), new_id
 
     def supervisors(self) -> list[dict[str, Any]]:
         """People who may approve."""
-        return [p for p in self.store.people() if p.get("role") == "supervisor"]
+        return [p for p in self.store.people.all() if p.get("role") == "supervisor"]
 
     def _person(self, name: str, role: str | None) -> dict[str, Any] | None:
         wanted = name.strip().casefold()
-        for person in self.store.people():
+        for person in self.store.people.all():
             if person["name"].strip().casefold() == wanted and (role is None or person["role"] == role):
                 return person
         return None
@@ -77,12 +77,12 @@ class ReviewState:
         person = self._person(name, None)
         if person is not None:
             return int(person["id"])
-        return int(self.store.add_person(name.strip() or "Electrician", "qualified"))
+        return int(self.store.people.add(name.strip() or "Electrician", "qualified"))
 
     def submit(self, recorded_by: str) -> Outcome:
         """Submit the job for review in the name of `recorded_by`."""
         try:
-            self.store.submit_for_review(self.job_id, self.recorder(recorded_by))
+            self.store.review.submit(self.job_id, self.recorder(recorded_by))
         except StoreError as exc:
             return Outcome(False, f"Not submitted: {exc}")
         return Outcome(True, "Submitted for review")
@@ -95,7 +95,7 @@ class ReviewState:
         if not pin.strip():
             return Outcome(False, "Enter the supervisor's PIN")
         try:
-            self.store.approve(self.job_id, int(person["id"]), pin.strip())
+            self.store.review.approve(self.job_id, int(person["id"]), pin.strip())
         except LockedOutError as exc:
             return Outcome(False, f"Locked: {exc}")
         except PinError as exc:
@@ -112,7 +112,7 @@ class ReviewState:
         if person is None:
             return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
         try:
-            self.store.return_to_draft(self.job_id, int(person["id"]), comment.strip())
+            self.store.review.return_to_draft(self.job_id, int(person["id"]), comment.strip())
         except StoreError as exc:
             return Outcome(False, f"Not returned: {exc}")
         return Outcome(True, "Returned to draft with your comment")
@@ -122,7 +122,7 @@ class ReviewState:
         if not name.strip():
             return Outcome(False, "Enter the supervisor's name")
         try:
-            self.store.add_person(name.strip(), "supervisor", pin.strip())
+            self.store.people.add(name.strip(), "supervisor", pin.strip())
         except StoreError as exc:
             return Outcome(False, f"Not added: {exc}")
         return Outcome(True, f"Supervisor {name.strip()} added")
@@ -130,7 +130,7 @@ class ReviewState:
     def history(self, limit: int = 12) -> list[str]:
         """The job's review events as lines (`2026-12-02 07:30 · Approved (was In review) · Ann`)."""
         lines = []
-        for entry in self.store.audit(self.job_id):
+        for entry in self.store.jobs.audit(self.job_id):
             if entry.get("entity") == "review" and entry.get("field") == "status":
                 what = f"{status_word(entry.get('new'))} (was {status_word(entry.get('old'))})"
             elif entry.get("entity") == "review" and entry.get("field") == "pin":

@@ -51,7 +51,7 @@ class SettingsState:
         """The saved text of a setting, or its default."""
         if key in self._typed:
             return self._typed[key]
-        value = self.store.get_setting(key, None)
+        value = self.store.settings.get(key, None)
         return DEFAULTS.get(key, "") if value is None else str(value)
 
     def view(self, key: str) -> SettingView:
@@ -63,7 +63,7 @@ class SettingsState:
         self._typed[key] = value
         try:
             self._check(key, value)
-            self.store.set_setting(key, value.strip())
+            self.store.settings.set(key, value.strip())
         except (SettingsError, StoreError) as exc:
             self._messages[key] = str(exc)
             return self.view(key)
@@ -76,9 +76,9 @@ class SettingsState:
     def _reassess_drafts(self) -> None:
         """The scope changes which disconnection time applies: draft jobs are assessed again; jobs
         submitted or approved keep the assessments they were reviewed with."""
-        for job in self.store.list_jobs():
+        for job in self.store.jobs.all():
             if job.get("status") == "draft":
-                self.store.reassess_job(int(job["id"]))
+                self.store.jobs.reassess(int(job["id"]))
 
     @staticmethod
     def _check(key: str, value: str) -> None:

@@ -61,7 +61,7 @@ class Walk:
 
     def reload(self) -> None:
         """Read the circuit again from the store (after a save elsewhere or a page reload)."""
-        self.circuit: dict[str, Any] = self.store.get_circuit(self.circuit_id)
+        self.circuit: dict[str, Any] = self.store.circuits.get(self.circuit_id)
 
     @property
     def title(self) -> str:
@@ -106,7 +106,7 @@ class Walk:
     def _choices(self, spec: FieldSpec) -> tuple[Choice, ...]:
         if spec.name == "library_device_id":
             return tuple(
-                Choice(str(d["id"]), d["name"]) for d in self.store.library_devices()
+                Choice(str(d["id"]), d["name"]) for d in self.store.library.all()
             )
         return spec.choices
 
@@ -138,7 +138,7 @@ class Walk:
         """Save one field at once; on a failed save keep the typed text and say why."""
         self._typed[name] = raw
         try:
-            self.store.set_circuit_field(self.circuit_id, name, raw, by=self.by)
+            self.store.circuits.set_field(self.circuit_id, name, raw, by=self.by)
         except StoreError as exc:
             self._save_errors[name] = f"Not saved ({exc}); your text is kept"
             return self.field(name)
@@ -192,4 +192,4 @@ class Walk:
 
     def results(self) -> ResultsPanel:
         """The results panel of the circuit as saved."""
-        return results_panel(self.circuit, self.store.calc_input(self.circuit_id))
+        return results_panel(self.circuit, self.store.circuits.calc_input(self.circuit_id))

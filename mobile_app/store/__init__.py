@@ -1,55 +1,63 @@
 """The job store on the device (sqlite-utils): jobs, boards, circuits, review, people, settings.
 
-It imports only calc; exports live in `mobile_app.export`, the outbox and sync in `mobile_app.sync`.
+It imports only calc and never Flet; exports live in `mobile_app.export`, the outbox and the sync in
+`mobile_app.sync`. One `Store` holds one connection and hands out one small part per concern, each
+given the shared core (`store.core`: the connection's lock, write transactions, the audit trail and
+the clock) and the parts it uses, so each can be read and tested alone.
 
-Public surface (the store API agreed with the app, export and sync; additions marked *added*):
+Public surface:
 
     from mobile_app.store import Store
-    store = Store.open(data_dir)        # None -> platformdirs user data dir; WAL, FKs,
-                                        # integrity check, migrations (backup first);
-                                        # a bad file is moved aside
-    store.recovered                     # *added*: MovedAside(original, moved_to, reason) or None
-    salvage_jobs(store.recovered.moved_to) *added*: Salvage(documents, problems), the job
-                                        documents still readable from the file moved aside
-    store.backup_path                   # *added*: copy taken before the last migration, or None
-    store.path, store.db, store.close()
+    store = Store.open(data_dir)    # None -> platformdirs user data dir; WAL, foreign keys, integrity
+                                    # check, migrations (backup first); a damaged file is moved aside
+    store.recovered                 # MovedAside(original, moved_to, reason) or None
+    salvage_jobs(store.recovered.moved_to) -> Salvage(documents, problems): the job documents still
+                                    # readable from the file moved aside (the file is not changed)
+    store.backup_path               # the copy taken before the last migration, or None
+    store.path, store.db, store.close(), `with Store.open(...) as store:`
+    with store.batch(): ...         # several changes committed as one (or none)
 
-    people:   add_person(name, role, pin=None) -> id ; set_pin(person_id, pin) *added* ; people()
-    jobs:     create_job(fields, by=None) -> id ; list_jobs(search="") ; get_job(id)
-              reassess_job(job_id) -> count *added* (after a settings change or a calc update)
-              set_job_field(job_id, name, raw, by=None, expected_version=None) -> dict
-    boards:   add_board(job_id, designation, location="", supplied_from="", by=None) -> id
-              boards(job_id)
-              set_board_field(board_id, name, raw, by=None, expected_version=None) -> dict
-              BOARD_FIELDS *added* system and ze: blank = the job's supply (a TT outbuilding board
-              has its own); JOB_FIELDS, BOARD_FIELDS, CIRCUIT_FIELDS name every field
-    circuits: add_circuit(board_id, number, description="", by=None) -> id ; circuits(board_id)
-              get_circuit(id)
-              set_circuit_field(circuit_id, name, raw, by=None, expected_version=None)
-              calc_input(circuit_id) -> dict ; get_circuit()["assessment_error"] *added*: why calc
-              could not assess (verdict "incomplete"), or None
-    library:  add_library_device(name, points, rating_a=None) -> id ; library_devices()
-    review:   submit_for_review(job_id, by) ; approve(job_id, supervisor_id, pin)
-              return_to_draft(job_id, reviewer_id, comment)
-              open_revision(job_id, reason, by) -> id
-              audit(job_id) -> list[dict]
-    settings: get_setting(key, default=None) ; set_setting(key, value)
-    batch:    with store.batch(): ...  *added*: several changes committed as one
-    documents: job_document(job_id) -> dict ; import_job_document(doc) -> id (the job as it was
-              exported: status, revision, review, people, assessments, audit; one transaction)
+    store.people     add(name, role, pin=None) -> id ; set_pin(person_id, pin) ; all() ; get(person_id)
+    store.settings   get(key, default=None) ; set(key, value)
+    store.library    add(name, points, rating_a=None) -> id ; all() ; find(device_id) -> dict | None
+    store.jobs       create(fields=None, by=None) -> id ; all(search="") ; get(job_id)
+                     set_field(job_id, name, raw, by=None, expected_version=None) -> dict
+                     reassess(job_id) -> count (after a settings change or a calc update)
+                     audit(job_id) -> list[dict]
+    store.boards     add(job_id, designation, location="", supplied_from="", by=None) -> id
+                     of_job(job_id) ; set_field(board_id, name, raw, by=None, expected_version=None)
+    store.circuits   add(board_id, number, description="", by=None) -> id ; of_board(board_id)
+                     get(circuit_id) ; set_field(circuit_id, name, raw, by=None, expected_version=None)
+                     calc_input(circuit_id) -> dict
+    store.review     submit(job_id, by) ; return_to_draft(job_id, reviewer_id, comment)
+                     approve(job_id, supervisor_id, pin) ; open_revision(job_id, reason, by) -> id
+    store.documents  export(job_id) -> dict ; import_(doc) -> id (the job as it was exported: status,
+                     revision, review, people, assessments, audit; one transaction)
+
+JOB_FIELDS, BOARD_FIELDS and CIRCUIT_FIELDS name every field. A board's system and Ze, when filled
+in, take the place of the job's supply (a TT outbuilding board). A field save returns the field, its
+text as typed, parsed value, error and the row's new version (a circuit's also its verdict); a
+circuit's `get()["assessment_error"]` says why calc could not assess it (verdict "incomplete").
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
-ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (*added*: the folder
-cannot be opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or
-curve), DocumentError (an import that is not a boardside-job document; the export raises this
-same class; `mobile_app.export` adds ExportError, a StoreError, with subclasses of its own).
+ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (the folder cannot be
+opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or curve),
+DocumentError (an import that is not a boardside-job document; the export raises this same class;
+`mobile_app.export` adds ExportError, a StoreError, with subclasses of its own).
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
 
 Settings read by the store: "default_system", "default_u0" (text, "230 V"), "default_cmin"
 ("0.95") fill a new job's blank supply fields; "final_circuit_max_a" goes to calc as
-settings.final_circuit_max_a. Returned rows carry a little more than agreed: people() has has_pin;
-list_jobs() has version, parent_job_id, superseded (a newer revision exists) and updated_at;
-audit() rows are id, when, who, person_id, entity, entity_id, field, what, old, new.
+settings.final_circuit_max_a. Rows: people.all() has id, name, role, has_pin; jobs.all() has
+id, client_ref, site_address, date, status, revision, version, parent_job_id, updated_at,
+superseded (a newer revision exists), circuits, failing, incomplete; audit rows are id, when, who,
+person_id, entity, entity_id, field, what, old, new.
+
+Modules: `store` (Store), `core` (Core, the lock, write transactions), `schema` (migrations, a
+damaged file moved aside), `salvage`, one module per part (`people`, `settings`, `library`, `jobs`,
+`boards`, `circuits`, `review`, `documents`), `rows` (what the parts share about a row's fields),
+`fields` (parsing what was typed), `assessment` (a circuit's calc input and assessment, pure),
+`pins` (scrypt hashes), `errors`, `demo` (the demo job).
 """
 
 from mobile_app.store.errors import (

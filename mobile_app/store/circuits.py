@@ -4,27 +4,41 @@ text kept, reassessed by the calculation core in the same transaction."""
 from __future__ import annotations
 
 import json
+import sqlite3
 from typing import Any
 
-from mobile_app.store.assessment import build_calc_input
-from mobile_app.store.core import now_iso
-from mobile_app.store.fields import CIRCUIT_FIELDS, READING_FIELDS
-from mobile_app.store.jobs import JobStore, fields_of, set_clause
+from mobile_app.store.assessment import Outcome, assess, build_calc_input, invalid_fields
+from mobile_app.store.core import Core, now_iso
+from mobile_app.store.fields import CIRCUIT_FIELDS, READING_FIELDS, SUPPLY_FIELDS
+from mobile_app.store.library import Library
+from mobile_app.store.rows import check_version, fields_of, parse, saved, set_clause
+from mobile_app.store.settings import Settings
 
 COPIED_TO_NEXT_CIRCUIT = tuple(
     f for f in CIRCUIT_FIELDS if f not in ("number", "description", *READING_FIELDS)
 )
+# the fields of each row whose parse error leaves a circuit's assessment incomplete
+_ASSESSED = {
+    "job": SUPPLY_FIELDS,
+    "board": ("system", "ze"),
+    "circuit": tuple(f for f in CIRCUIT_FIELDS if f not in ("number", "description")),
+}
 
 
-class CircuitStore(JobStore):
-    """Circuits of the boards of a job."""
+class Circuits:
+    """The circuits of the boards of a store's jobs, and their assessments (`store.circuits`)."""
 
-    def add_circuit(self, board_id: int, number: str, description: str = "", by: int | None = None) -> int:
+    def __init__(self, core: Core, library: Library, settings: Settings) -> None:
+        self.core = core
+        self.library = library
+        self.settings = settings
+
+    def add(self, board_id: int, number: str, description: str = "", by: int | None = None) -> int:
         """Add a circuit; device and cables are copied from the board's previous circuit."""
-        with self._write() as conn:
-            board = self._row("board", board_id)
-            job = self._draft_job(board["job_id"])
-            previous = self._one(
+        with self.core.write() as conn:
+            board = self.core.row("board", board_id)
+            job = self.core.draft_job(board["job_id"])
+            previous = self.core.one(
                 "SELECT * FROM circuits WHERE board_id = ? ORDER BY position DESC LIMIT 1",
                 (board_id,),
             )
@@ -35,8 +49,8 @@ class CircuitStore(JobStore):
             )
             circuit_id = int(cursor.lastrowid or 0)
             own = [
-                self._parse("circuit", "number", number),
-                self._parse("circuit", "description", description),
+                parse("circuit", "number", number, self.library),
+                parse("circuit", "description", description, self.library),
             ]
             values = [v for p in own for v in (p.raw, p.value, p.error)]
             if previous is not None:
@@ -49,26 +63,26 @@ class CircuitStore(JobStore):
             else:
                 names = ("number", "description")
             conn.execute(f"UPDATE circuits SET {set_clause(names)} WHERE id = ?", (*values, circuit_id))
-            circuit = self._row("circuit", circuit_id)
-            self._store_outcome(conn, circuit_id, self._outcome(job, board, circuit))
-            self._audit(conn, job["id"], by, "circuit", circuit_id, None, None, number)
-            self._touch_job(conn, job["id"])
+            circuit = self.core.row("circuit", circuit_id)
+            self.save_assessment(conn, circuit_id, self.assess(job, board, circuit))
+            self.core.audit(conn, job["id"], by, "circuit", circuit_id, None, None, number)
+            self.core.touch_job(conn, job["id"])
         return circuit_id
 
-    def circuits(self, board_id: int) -> list[dict[str, Any]]:
+    def of_board(self, board_id: int) -> list[dict[str, Any]]:
         """A board's circuits in order: id, number, description, verdict, version."""
-        self._row("board", board_id)
-        return self._query(
+        self.core.row("board", board_id)
+        return self.core.query(
             "SELECT id, board_id, position, number_raw AS number,"
             " description_raw AS description,"
             " verdict, version FROM circuits WHERE board_id = ? ORDER BY position",
             (board_id,),
         )
 
-    def get_circuit(self, circuit_id: int) -> dict[str, Any]:
+    def get(self, circuit_id: int) -> dict[str, Any]:
         """One circuit: ids, version, verdict, calc version, fields as typed, latest assessment."""
-        row = self._row("circuit", circuit_id)
-        job_id = self._row("board", row["board_id"])["job_id"]
+        row = self.core.row("circuit", circuit_id)
+        job_id = self.core.row("board", row["board_id"])["job_id"]
         return {
             "id": row["id"],
             "board_id": row["board_id"],
@@ -84,7 +98,7 @@ class CircuitStore(JobStore):
             "assessment": json.loads(row["assessment"]) if row["assessment"] else None,
         }
 
-    def set_circuit_field(
+    def set_field(
         self,
         circuit_id: int,
         name: str,
@@ -97,12 +111,12 @@ class CircuitStore(JobStore):
         ConflictError when `expected_version` is given and stale; ReadOnlyError unless the job is
         a draft; SaveError when the storage refuses the write (nothing is half-written).
         """
-        parsed = self._parse("circuit", name, raw)
-        with self._write() as conn:
-            circuit = self._row("circuit", circuit_id)
-            board = self._row("board", circuit["board_id"])
-            job = self._draft_job(board["job_id"])
-            self._check_version("circuit", circuit, expected_version)
+        parsed = parse("circuit", name, raw, self.library)
+        with self.core.write() as conn:
+            circuit = self.core.row("circuit", circuit_id)
+            board = self.core.row("board", circuit["board_id"])
+            job = self.core.draft_job(board["job_id"])
+            check_version("circuit", circuit, expected_version)
             version = circuit["version"]
             verdict = circuit["verdict"]
             if circuit[f"{name}_raw"] != parsed.raw:
@@ -115,7 +129,7 @@ class CircuitStore(JobStore):
                         f"{name}_error": parsed.error,
                     }
                 )
-                outcome = self._outcome(job, board, circuit)
+                outcome = self.assess(job, board, circuit)
                 verdict = outcome.verdict
                 conn.execute(
                     f"UPDATE circuits SET {set_clause((name,))}, version = ?, updated_at = ?,"
@@ -135,22 +149,52 @@ class CircuitStore(JobStore):
                         circuit_id,
                     ),
                 )
-                self._audit(conn, job["id"], by, "circuit", circuit_id, name, old, parsed.raw)
-                self._touch_job(conn, job["id"])
-        return {
-            "field": name,
-            "raw": parsed.raw,
-            "value": parsed.value,
-            "error": parsed.error,
-            "version": version,
-            "verdict": verdict,
-        }
+                self.core.audit(conn, job["id"], by, "circuit", circuit_id, name, old, parsed.raw)
+                self.core.touch_job(conn, job["id"])
+        return dict(saved(parsed, name, version), verdict=verdict)
 
     def calc_input(self, circuit_id: int) -> dict[str, Any]:
         """The dict given to `calc.assess` for this circuit (the job's supply and the circuit)."""
-        circuit = self._row("circuit", circuit_id)
-        board = self._row("board", circuit["board_id"])
-        job = self._row("job", board["job_id"])
-        library_id = circuit["library_device_id_value"]
-        library = self._library_device(int(library_id)) if library_id is not None else None
-        return build_calc_input(job, board, circuit, library, self.get_setting("final_circuit_max_a"))
+        circuit = self.core.row("circuit", circuit_id)
+        board = self.core.row("board", circuit["board_id"])
+        job = self.core.row("job", board["job_id"])
+        return self._calc_input(job, board, circuit)
+
+    def _calc_input(
+        self, job: dict[str, Any], board: dict[str, Any], circuit: dict[str, Any]
+    ) -> dict[str, Any]:
+        """The calc input of a circuit from its rows, with its library curve and the settings."""
+        library_id = circuit.get("library_device_id_value")
+        library = self.library.find(int(library_id)) if library_id is not None else None
+        return build_calc_input(job, board, circuit, library, self.settings.get("final_circuit_max_a"))
+
+    def assess(self, job: dict[str, Any], board: dict[str, Any], circuit: dict[str, Any]) -> Outcome:
+        """Assess one circuit from its job, board and circuit rows (nothing is written)."""
+        rows = {"job": job, "board": board, "circuit": circuit}
+        return assess(self._calc_input(job, board, circuit), invalid_fields(rows, _ASSESSED))
+
+    @staticmethod
+    def save_assessment(conn: sqlite3.Connection, circuit_id: int, outcome: Outcome) -> None:
+        """Write a circuit's assessment (inside the caller's transaction)."""
+        conn.execute(
+            "UPDATE circuits SET verdict = ?, assessment = ?, calc_version = ?,"
+            " assessment_error = ? WHERE id = ?",
+            (
+                outcome.verdict,
+                outcome.assessment_json,
+                outcome.calc_version,
+                outcome.error,
+                circuit_id,
+            ),
+        )
+
+    def reassess_board(self, conn: sqlite3.Connection, job: dict[str, Any], board: dict[str, Any]) -> None:
+        """Reassess every circuit of a board (inside the caller's transaction)."""
+        for circuit in self.core.query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],)):
+            self.save_assessment(conn, circuit["id"], self.assess(job, board, circuit))
+
+    def reassess_job(self, conn: sqlite3.Connection, job_id: int) -> None:
+        """Reassess every circuit of a job (inside the caller's transaction)."""
+        job = self.core.row("job", job_id)
+        for board in self.core.query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
+            self.reassess_board(conn, job, board)

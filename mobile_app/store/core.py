@@ -1,30 +1,25 @@
-"""The store's foundation: opening the file, write transactions, the audit trail, people,
-settings and the device library."""
+"""The store's shared core: the store file's place, its one lock, write transactions (SQLite's
+refusals as SaveError), and `Core`, which every part of the Store is given."""
 
 from __future__ import annotations
 
 import contextlib
 import datetime
-import json
-import math
 import sqlite3
 import threading
 import time
 import weakref
 from collections.abc import Callable, Iterator
 from pathlib import Path
-from typing import Any, Self
+from typing import Any
 
 import platformdirs
 import sqlite_utils
 
-import calc
-from mobile_app.store import pins
-from mobile_app.store.errors import InvalidValueError, NotFoundError, OpenError, SaveError
-from mobile_app.store.schema import MovedAside, connect, migrate, move_aside, problem_with
+from mobile_app.store.errors import NotFoundError, ReadOnlyError, SaveError
 
 STORE_FILE = "boardside.sqlite"
-ROLES = ("apprentice", "qualified", "supervisor")
+_TABLES = {"job": "jobs", "board": "boards", "circuit": "circuits"}
 
 
 def default_data_dir() -> Path:
@@ -95,82 +90,63 @@ def write_transaction(db: sqlite_utils.Database) -> Iterator[sqlite3.Connection]
             raise
 
 
-class StoreCore:
-    """An open store file: connection, transactions, audit, people, settings, device library."""
+class Core:
+    """One open store file, shared by every part of the Store: the connection and its lock, write
+    transactions, reads, the rows of jobs, boards and circuits, the audit trail and the clock."""
 
-    def __init__(
-        self,
-        path: Path,
-        db: sqlite_utils.Database,
-        recovered: MovedAside | None,
-        backup_path: Path | None,
-    ) -> None:
+    def __init__(self, path: Path, db: sqlite_utils.Database) -> None:
         self.path = path
         self.db = db
-        self.recovered = recovered
-        self.backup_path = backup_path
+        self.lock = db_lock(db)
         self.clock: Callable[[], float] = time.time
-        self._lock = db_lock(db)
 
-    @classmethod
-    def open(cls, data_dir: Path | None = None) -> Self:
-        """Open (or create) the store in `data_dir` (None: the user's app-data folder).
-
-        Checks the file (a non-SQLite or damaged file is moved aside and `recovered` says so), turns
-        on WAL and foreign keys, and runs pending migrations after taking a backup copy.
-        """
-        folder = Path(data_dir) if data_dir is not None else default_data_dir()
-        try:
-            folder.mkdir(parents=True, exist_ok=True)
-            path = folder / STORE_FILE
-            problem = problem_with(path)
-            recovered = move_aside(path, problem) if problem else None
-            conn = connect(path)
-        except (OSError, sqlite3.Error) as error:
-            reason = save_reason(error) if isinstance(error, sqlite3.Error) else str(error)
-            raise OpenError(str(folder), reason) from error
-        db = sqlite_utils.Database(conn)
-        try:
-            backup_path = migrate(db, path)
-        except BaseException:
-            conn.close()
-            raise
-        return cls(path, db, recovered, backup_path)
-
-    def close(self) -> None:
-        """Close the connection (every save is already committed)."""
-        self.db.close()
-
-    def __enter__(self) -> Self:
-        return self
-
-    def __exit__(self, *exc_info: object) -> None:
-        self.close()
-
-    def _write(self) -> contextlib.AbstractContextManager[sqlite3.Connection]:
+    def write(self) -> contextlib.AbstractContextManager[sqlite3.Connection]:
         """One write transaction on this store's connection (see `write_transaction`)."""
         return write_transaction(self.db)
 
-    @contextlib.contextmanager
-    def batch(self) -> Iterator[None]:
-        """Several changes that commit together or not at all (each call inside is a savepoint)."""
-        with self._write():
-            yield
-
-    def _query(self, sql: str, params: tuple[Any, ...] | dict[str, Any] = ()) -> list[dict[str, Any]]:
+    def query(self, sql: str, params: tuple[Any, ...] | dict[str, Any] = ()) -> list[dict[str, Any]]:
         """Rows of a read query as dicts (plain sqlite3: no savepoint around each read)."""
-        with self._lock:
+        with self.lock:
             cursor = self.db.conn.execute(sql, params)
             names = [column[0] for column in cursor.description]
             return [dict(zip(names, row, strict=True)) for row in cursor.fetchall()]
 
-    def _one(self, sql: str, params: tuple[Any, ...] = ()) -> dict[str, Any] | None:
+    def one(self, sql: str, params: tuple[Any, ...] = ()) -> dict[str, Any] | None:
         """The first row of a query as a dict, or None."""
-        rows = self._query(sql, params)
+        rows = self.query(sql, params)
         return rows[0] if rows else None
 
-    def _audit(
-        self,
+    def row(self, kind: str, item_id: int) -> dict[str, Any]:
+        """One job, board or circuit row, or NotFoundError."""
+        row = self.one(f"SELECT * FROM {_TABLES[kind]} WHERE id = ?", (item_id,))
+        if row is None:
+            raise NotFoundError(kind, item_id)
+        return row
+
+    def draft_job(self, job_id: int) -> dict[str, Any]:
+        """The job row if it may be changed (draft), else ReadOnlyError."""
+        job = self.row("job", job_id)
+        if job["status"] != "draft":
+            raise ReadOnlyError(job_id, job["status"])
+        return job
+
+    @staticmethod
+    def touch_job(conn: sqlite3.Connection, job_id: int) -> None:
+        """Mark a job as changed now (inside the caller's transaction)."""
+        conn.execute("UPDATE jobs SET updated_at = ? WHERE id = ?", (now_iso(), job_id))
+
+    @staticmethod
+    def insert(conn: sqlite3.Connection, table: str, row: dict[str, Any]) -> int:
+        """Insert a row given as a dict (inside the caller's transaction); return its id."""
+        names = ", ".join(row)
+        marks = ", ".join("?" for _ in row)
+        return int(
+            conn.execute(f"INSERT INTO {table} ({names}) VALUES ({marks})", tuple(row.values())).lastrowid
+            or 0
+        )
+
+    @staticmethod
+    def audit(
         conn: sqlite3.Connection,
         job_id: int | None,
         by: int | None,
@@ -196,96 +172,6 @@ class StoreCore:
             ),
         )
 
-    # people
-    def add_person(self, name: str, role: str, pin: str | None = None) -> int:
-        """Add a person (role: apprentice, qualified or supervisor), with a PIN for supervisors."""
-        if not name.strip():
-            raise InvalidValueError("name", "must not be blank")
-        if role not in ROLES:
-            raise InvalidValueError("role", "must be one of: " + ", ".join(ROLES))
-        pin_hash = pins.hash_pin(pin) if pin is not None else None
-        with self._write() as conn:
-            cursor = conn.execute(
-                "INSERT INTO people (name, role, created_at, pin_hash) VALUES (?, ?, ?, ?)",
-                (name.strip(), role, now_iso(), pin_hash),
-            )
-            person_id = int(cursor.lastrowid or 0)
-            self._audit(conn, None, None, "person", person_id, "role", None, role)
-        return person_id
-
-    def set_pin(self, person_id: int, pin: str) -> None:
-        """Set or change a person's PIN (stored only as a salted scrypt hash); clears a lock-out."""
-        self._person(person_id)
-        pin_hash = pins.hash_pin(pin)
-        with self._write() as conn:
-            conn.execute(
-                "UPDATE people SET pin_hash = ?, failed_pins = 0, locked_until = NULL WHERE id = ?",
-                (pin_hash, person_id),
-            )
-            self._audit(conn, None, person_id, "person", person_id, "pin", None, "changed")
-
-    def people(self) -> list[dict[str, Any]]:
-        """Everyone known to the store: id, name, role and whether a PIN is set (never the hash)."""
-        return self._query(
-            "SELECT id, name, role, pin_hash IS NOT NULL AS has_pin FROM people ORDER BY name, id"
-        )
-
-    def _person(self, person_id: int) -> dict[str, Any]:
-        """One person's row, or NotFoundError."""
-        row = self._one("SELECT * FROM people WHERE id = ?", (person_id,))
-        if row is None:
-            raise NotFoundError("person", person_id)
-        return row
-
-    # settings
-    def get_setting(self, key: str, default: Any = None) -> Any:
-        """A setting's value (JSON-decoded), or `default` when it was never set."""
-        row = self._one("SELECT value FROM settings WHERE key = ?", (key,))
-        return default if row is None else json.loads(row["value"])
-
-    def set_setting(self, key: str, value: Any) -> None:
-        """Store a JSON-able setting (passwords do not belong here)."""
-        with self._write() as conn:
-            conn.execute(
-                "INSERT INTO settings (key, value) VALUES (?, ?) ON CONFLICT(key)"
-                " DO UPDATE SET value = excluded.value",
-                (key, json.dumps(value)),
-            )
-
-    # device library
-    def add_library_device(
-        self,
-        name: str,
-        points: list[tuple[float, float]] | list[list[float]],
-        rating_a: float | None = None,
-    ) -> int:
-        """Save a manufacturer curve: (current_a, time_s) points, times falling as current rises."""
-        if not name.strip():
-            raise InvalidValueError("name", "must not be blank")
-        clean = check_curve_points(points)
-        if rating_a is not None and not (math.isfinite(rating_a) and rating_a > 0):
-            raise InvalidValueError("rating_a", "must be greater than zero")
-        with self._write() as conn:
-            cursor = conn.execute(
-                "INSERT INTO library_devices (name, rating_a, points, created_at) VALUES (?, ?, ?, ?)",
-                (name.strip(), rating_a, json.dumps(clean), now_iso()),
-            )
-            device_id = int(cursor.lastrowid or 0)
-            self._audit(conn, None, None, "library", device_id, "name", None, name.strip())
-        return device_id
-
-    def library_devices(self) -> list[dict[str, Any]]:
-        """The device library: id, name, rating_a, points [[current_a, time_s], ...]."""
-        return [
-            dict(row, points=json.loads(row["points"]))
-            for row in self._query("SELECT id, name, rating_a, points FROM library_devices ORDER BY name, id")
-        ]
-
-    def _library_device(self, device_id: int) -> dict[str, Any] | None:
-        """One library device with its points decoded, or None."""
-        row = self._one("SELECT id, name, rating_a, points FROM library_devices WHERE id = ?", (device_id,))
-        return None if row is None else dict(row, points=json.loads(row["points"]))
-
 
 def _savepoint(conn: sqlite3.Connection) -> Iterator[sqlite3.Connection]:
     """A nested write: a savepoint released on success, rolled back to on failure."""
@@ -298,17 +184,3 @@ def _savepoint(conn: sqlite3.Connection) -> Iterator[sqlite3.Connection]:
             conn.execute("RELEASE nested_write")
         raise
     conn.execute("RELEASE nested_write")
-
-
-def check_curve_points(points: Any) -> list[list[float]]:
-    """Check curve points with the calculation core: two or more, times falling as current rises.
-
-    Returns [[current_a, time_s], ...] sorted by current; InvalidValueError otherwise.
-    """
-    try:
-        parsed = calc.read_points(list(points))
-    except TypeError as error:
-        raise InvalidValueError("points", "must be a list of [current, time] pairs") from error
-    except calc.InputError as error:
-        raise InvalidValueError("points", error.problem) from error
-    return [[current_a, time_s] for current_a, time_s in parsed]

@@ -190,14 +190,14 @@ def create_demo_job(store: Store) -> int:
     The demo people and library curve are added once and reused when the demo is made again.
     """
     with store.batch():
-        known = {(p["name"], p["role"]): p["id"] for p in store.people()}
+        known = {(p["name"], p["role"]): p["id"] for p in store.people.all()}
         ids = {
             name: known.get((name, role))
-            or store.add_person(name, role, DEMO_PIN if role == "supervisor" else None)
+            or store.people.add(name, role, DEMO_PIN if role == "supervisor" else None)
             for name, role in PEOPLE
         }
-        curves = {d["name"]: d["id"] for d in store.library_devices()}
-        curve_id = curves.get(DEMO_CURVE_NAME) or store.add_library_device(
+        curves = {d["name"]: d["id"] for d in store.library.all()}
+        curve_id = curves.get(DEMO_CURVE_NAME) or store.library.add(
             DEMO_CURVE_NAME, DEMO_CURVE_POINTS, rating_a=100
         )
         return _add_job(store, ids["Rosa Quennell"], curve_id)
@@ -205,17 +205,17 @@ def create_demo_job(store: Store) -> int:
 
 def _add_job(store: Store, recorder: int, curve_id: int) -> int:
     """The demo job's boards and circuits, typed in field by field as a person would."""
-    job_id = store.create_job(JOB, by=recorder)
+    job_id = store.jobs.create(JOB, by=recorder)
     for designation, location, supplied_from, board_fields, circuits in BOARDS:
-        board_id = store.add_board(job_id, designation, location, supplied_from, by=recorder)
+        board_id = store.boards.add(job_id, designation, location, supplied_from, by=recorder)
         for name, raw in board_fields.items():
-            store.set_board_field(board_id, name, raw, by=recorder)
+            store.boards.set_field(board_id, name, raw, by=recorder)
         for number, description, fields in circuits:
-            circuit_id = store.add_circuit(board_id, number, description, by=recorder)
+            circuit_id = store.circuits.add(board_id, number, description, by=recorder)
             for name, raw in fields.items():
                 if name == "device_kind" and raw == "curve":
-                    store.set_circuit_field(circuit_id, "library_device_id", str(curve_id), by=recorder)
-                store.set_circuit_field(circuit_id, name, raw, by=recorder)
+                    store.circuits.set_field(circuit_id, "library_device_id", str(curve_id), by=recorder)
+                store.circuits.set_field(circuit_id, name, raw, by=recorder)
     return job_id
 
 

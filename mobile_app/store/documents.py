@@ -10,10 +10,15 @@ from typing import Any
 
 import calc
 from mobile_app.store.assessment import Outcome
-from mobile_app.store.core import ROLES, now_iso
+from mobile_app.store.boards import Boards
+from mobile_app.store.circuits import Circuits
+from mobile_app.store.core import Core, now_iso
 from mobile_app.store.errors import DocumentError
-from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Parsed
-from mobile_app.store.review import ReviewStore
+from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
+from mobile_app.store.jobs import Jobs
+from mobile_app.store.library import Library
+from mobile_app.store.people import ROLES, People
+from mobile_app.store.rows import parse, triples
 
 DOCUMENT_SCHEMA = "boardside-job"
 DOCUMENT_SCHEMA_VERSION = 1
@@ -21,13 +26,34 @@ STATUSES = ("draft", "submitted", "approved")
 VERDICTS = ("pass", "fail", "incomplete")
 
 
-class DocumentStore(ReviewStore):
-    """Job documents out of and into the store."""
+class Documents:
+    """Whole jobs out of and into a store, as JSON-able documents (`store.documents`)."""
 
-    def job_document(self, job_id: int) -> dict[str, Any]:
+    def __init__(
+        self,
+        core: Core,
+        people: People,
+        library: Library,
+        jobs: Jobs,
+        boards: Boards,
+        circuits: Circuits,
+    ) -> None:
+        self.core = core
+        self.people = people
+        self.library = library
+        self.jobs = jobs
+        self.boards = boards
+        self.circuits = circuits
+
+    def export(self, job_id: int) -> dict[str, Any]:
         """The whole job (boards, circuits with fields as typed and assessments, library devices
         used, audit trail) as a JSON-able dict with "schema": "boardside-job"."""
         return self._document(job_id, None)
+
+    def salvage(self, job_id: int, problems: list[str]) -> dict[str, Any]:
+        """The job document as far as it can be read from a damaged file: parts SQLite cannot read
+        are left out and noted in `problems`."""
+        return self._document(job_id, problems)
 
     def _document(self, job_id: int, problems: list[str] | None) -> dict[str, Any]:
         """The job document; with a `problems` list, parts SQLite cannot read are left out and
@@ -42,15 +68,17 @@ class DocumentStore(ReviewStore):
                 problems.append(f"job {job_id}, {what}: {error}")
                 return instead
 
-        job = self.get_job(job_id)
+        job = self.jobs.get(job_id)
         fields = job["fields"]
         boards = []
         used_library: set[int] = set()
-        for board in part("boards", lambda: self.boards(job_id), []):
+        for board in part("boards", lambda: self.boards.of_job(job_id), []):
             circuits = []
-            rows = part(f"board {board['designation']} circuits", lambda b=board: self.circuits(b["id"]), [])
+            rows = part(
+                f"board {board['designation']} circuits", lambda b=board: self.circuits.of_board(b["id"]), []
+            )
             for row in rows:
-                circuit = part(f"circuit {row['number']}", lambda r=row: self.get_circuit(r["id"]), None)
+                circuit = part(f"circuit {row['number']}", lambda r=row: self.circuits.get(r["id"]), None)
                 if circuit is None:
                     continue
                 library_id = circuit["fields"]["library_device_id"]["value"]
@@ -80,10 +108,10 @@ class DocumentStore(ReviewStore):
                     "circuits": circuits,
                 }
             )
-        everyone = part("people", lambda: {p["id"]: p for p in self.people()}, {})
+        everyone = part("people", lambda: {p["id"]: p for p in self.people.all()}, {})
         names = {person_id: person["name"] for person_id, person in everyone.items()}
-        library = part("device library", self.library_devices, [])
-        trail = part("audit trail", lambda: self.audit(job_id), [])
+        library = part("device library", self.library.all, [])
+        trail = part("audit trail", lambda: self.jobs.audit(job_id), [])
         mentioned = {job[k] for k in ("recorded_by", "submitted_by", "approved_by")}
         mentioned |= {c["updated_by"] for b in boards for c in b["circuits"]}
         mentioned |= {entry["person_id"] for entry in trail}
@@ -121,7 +149,7 @@ class DocumentStore(ReviewStore):
             "audit": trail,
         }
 
-    def import_job_document(self, doc: dict[str, Any]) -> int:
+    def import_(self, doc: dict[str, Any]) -> int:
         """Load a job document as a new job, in one transaction (a broken document imports nothing).
 
         The job comes back as it was exported: status, revision and its reason, who recorded,
@@ -136,7 +164,7 @@ class DocumentStore(ReviewStore):
             raise DocumentError(f'"schema" is not "{DOCUMENT_SCHEMA}"')
         if doc.get("schema_version") != DOCUMENT_SCHEMA_VERSION:
             raise DocumentError(f"schema_version {doc.get('schema_version')!r} is not supported")
-        with self._write() as conn:
+        with self.core.write() as conn:
             try:
                 return self._import(conn, doc)
             except DocumentError:
@@ -147,20 +175,20 @@ class DocumentStore(ReviewStore):
     def _import(self, conn: sqlite3.Connection, doc: dict[str, Any]) -> int:
         """The body of an import, inside its transaction; returns the new job's id."""
         job = doc["job"]
-        people = _PeopleMatcher(self, doc)
+        people = _PeopleMatcher(self.people, doc)
         library_ids = self._import_library(doc.get("library_devices") or [])
         status = _choice(job.get("status", "draft"), "job.status", STATUSES)
-        typed = [self._parse("job", n, _raw(job["fields"], n)) for n in JOB_FIELDS]
-        row = dict(_triples(JOB_FIELDS, typed), **_review_columns(job, people), status=status)
+        typed = [parse("job", n, _raw(job["fields"], n), self.library) for n in JOB_FIELDS]
+        row = dict(triples(JOB_FIELDS, typed), **_review_columns(job, people), status=status)
         row["parent_job_id"] = self._imported_parent(row, job.get("parent_job_id"))
-        job_id = self._insert(conn, "jobs", row)
+        job_id = self.core.insert(conn, "jobs", row)
         job_row = dict(row, id=job_id)
         ids: dict[str, dict[int, int]] = {"board": {}, "circuit": {}}
         reassessed: list[tuple[int, Outcome, Outcome]] = []
         for position, board in enumerate(doc.get("boards") or [], start=1):
-            board_typed = [self._parse("board", n, _raw(board["fields"], n)) for n in BOARD_FIELDS]
-            board_row = dict(_triples(BOARD_FIELDS, board_typed), job_id=job_id, position=position)
-            board_id = self._insert(conn, "boards", board_row)
+            board_typed = [parse("board", n, _raw(board["fields"], n), self.library) for n in BOARD_FIELDS]
+            board_row = dict(triples(BOARD_FIELDS, board_typed), job_id=job_id, position=position)
+            board_id = self.core.insert(conn, "boards", board_row)
             ids["board"][_source_id(board)] = board_id
             for number, circuit in enumerate(board.get("circuits") or [], start=1):
                 circuit_row = self._imported_circuit(circuit, library_ids, people)
@@ -168,20 +196,20 @@ class DocumentStore(ReviewStore):
                 kept = _exported_outcome(circuit)
                 outcome = kept
                 if status == "draft" and kept.calc_version not in (None, calc.__version__):
-                    outcome = self._outcome(job_row, board_row, circuit_row)
+                    outcome = self.circuits.assess(job_row, board_row, circuit_row)
                 circuit_row.update(_outcome_columns(outcome))
-                circuit_id = self._insert(conn, "circuits", circuit_row)
+                circuit_id = self.core.insert(conn, "circuits", circuit_row)
                 ids["circuit"][_source_id(circuit)] = circuit_id
                 if _outcome_columns(outcome) != _outcome_columns(kept):
                     reassessed.append((circuit_id, kept, outcome))
         for entry in doc.get("audit") or []:
-            self._insert(conn, "audit", _audit_row(entry, job_id, ids, people))
+            self.core.insert(conn, "audit", _audit_row(entry, job_id, ids, people))
         note = f"{row['client_ref_raw']} revision {row['revision']}"
-        self._audit(conn, job_id, None, "job", job_id, "imported", None, note)
+        self.core.audit(conn, job_id, None, "job", job_id, "imported", None, note)
         for circuit_id, kept, outcome in reassessed:
             old = f"{kept.verdict} (calc {kept.calc_version})"
             new = f"{outcome.verdict} (calc {outcome.calc_version})"
-            self._audit(conn, job_id, None, "circuit", circuit_id, "assessment", old, new)
+            self.core.audit(conn, job_id, None, "circuit", circuit_id, "assessment", old, new)
         return job_id
 
     def _imported_circuit(
@@ -194,9 +222,9 @@ class DocumentStore(ReviewStore):
             raw = _raw(fields, name)
             if name == "library_device_id" and raw.strip().isascii() and raw.strip().isdigit():
                 raw = str(library_ids.get(int(raw), raw))
-            parsed.append(self._parse("circuit", name, raw))
+            parsed.append(parse("circuit", name, raw, self.library))
         return dict(
-            _triples(CIRCUIT_FIELDS, parsed),
+            triples(CIRCUIT_FIELDS, parsed),
             updated_at=_text(circuit.get("updated_at"), "circuit.updated_at") or now_iso(),
             updated_by=people.by_id(circuit.get("updated_by")),
         )
@@ -206,7 +234,7 @@ class DocumentStore(ReviewStore):
         the same client reference and no revision yet; None for a first revision or when absent."""
         if exported_parent is None or row["revision"] <= 1:
             return None
-        parent = self._one(
+        parent = self.core.one(
             "SELECT id FROM jobs j WHERE client_ref_raw = ? AND revision = ? AND status = 'approved'"
             " AND NOT EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) ORDER BY id DESC",
             (row["client_ref_raw"], row["revision"] - 1),
@@ -215,11 +243,11 @@ class DocumentStore(ReviewStore):
 
     def _import_library(self, devices: list[dict[str, Any]]) -> dict[int, int]:
         """Add document library devices not already here; map their ids to this store's ids."""
-        here = {(d["name"], tuple(map(tuple, d["points"]))): d["id"] for d in self.library_devices()}
+        here = {(d["name"], tuple(map(tuple, d["points"]))): d["id"] for d in self.library.all()}
         mapping: dict[int, int] = {}
         for device in devices:
             key = (device["name"], tuple(tuple(float(v) for v in p) for p in device["points"]))
-            mapping[int(device["id"])] = here.get(key) or self.add_library_device(
+            mapping[int(device["id"])] = here.get(key) or self.library.add(
                 device["name"], device["points"], device.get("rating_a")
             )
         return mapping
@@ -231,8 +259,8 @@ class _PeopleMatcher:
     roles: a name then matches anyone of that name, and a newcomer is added as an apprentice,
     except an approver, who is a supervisor."""
 
-    def __init__(self, store: DocumentStore, doc: dict[str, Any]) -> None:
-        self.store = store
+    def __init__(self, people: People, doc: dict[str, Any]) -> None:
+        self.people = people
         self.listed: dict[int, tuple[str, str | None]] = {}
         for person in doc.get("people") or []:
             role = _choice(person["role"], "people.role", ROLES)
@@ -263,10 +291,10 @@ class _PeopleMatcher:
 
     def _match(self, name: str, role: str | None) -> int:
         """The first person here with this name (and role, if known), else a new one."""
-        for person in self.store.people():
+        for person in self.people.all():
             if person["name"] == name and role in (None, person["role"]):
                 return int(person["id"])
-        return self.store.add_person(name, role or "apprentice")
+        return self.people.add(name, role or "apprentice")
 
 
 def _review_columns(job: dict[str, Any], people: _PeopleMatcher) -> dict[str, Any]:
@@ -335,14 +363,6 @@ def _audit_row(
         "old": _text(entry.get("old"), "audit.old"),
         "new": _text(entry.get("new"), "audit.new"),
     }
-
-
-def _triples(names: tuple[str, ...], parsed: list[Parsed]) -> dict[str, Any]:
-    """Row columns `<name>_raw`, `<name>_value`, `<name>_error` for parsed fields."""
-    row: dict[str, Any] = {}
-    for name, field in zip(names, parsed, strict=True):
-        row.update({f"{name}_raw": field.raw, f"{name}_value": field.value, f"{name}_error": field.error})
-    return row
 
 
 def _source_id(item: dict[str, Any]) -> int:

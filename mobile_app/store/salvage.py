@@ -2,7 +2,7 @@
 
 The file is never changed: it is copied (with its -wal) to a temporary folder, the copy is brought
 up to the current schema where possible, and every job is read part by part; parts SQLite cannot
-read are left out and listed as problems. The documents have the shape of `Store.job_document`, so
+read are left out and listed as problems. The documents have the shape of `store.documents.export`, so
 the exports can write them like any other job.
 """
 
@@ -43,7 +43,7 @@ def salvage_jobs(path: Path) -> Salvage:
             shutil.copyfile(wal, copy.with_name(copy.name + "-wal"))
         conn = sqlite3.connect(str(copy), isolation_level=None)
         try:
-            return _read(Store(copy, sqlite_utils.Database(conn), None, None))
+            return _read(Store(copy, sqlite_utils.Database(conn)))
         finally:
             conn.close()
 
@@ -62,7 +62,7 @@ def _read(store: Store) -> Salvage:
     documents = []
     for job_id in job_ids:
         try:
-            documents.append(store._document(job_id, problems))
+            documents.append(store.documents.salvage(job_id, problems))
         except sqlite3.DatabaseError as error:
             problems.append(f"job {job_id}: {error}")
     return Salvage(documents, problems)

@@ -243,16 +243,16 @@ def load_password(data_dir: Path) -> str:
 
 def save_target(store: Any, url: str, user: str, password: str) -> None:
     """Check and save the office folder: URL and user in the store, password in its own file."""
-    store.set_setting("sync_url", check_url(url))
-    store.set_setting("sync_user", user)
+    store.settings.set("sync_url", check_url(url))
+    store.settings.set("sync_user", user)
     save_password(Path(store.path).parent, password)
 
 
 def load_target(store: Any) -> SyncTarget:
     """The office folder saved on this device; raises NotConfiguredError or InsecureTargetError."""
-    url = store.get_setting("sync_url") or ""
+    url = store.settings.get("sync_url") or ""
     if not url:
         raise NotConfiguredError("no office folder is set (sync_url)")
-    return SyncTarget(check_url(url), store.get_setting("sync_user") or "",
+    return SyncTarget(check_url(url), store.settings.get("sync_user") or "",
                       load_password(Path(store.path).parent),
-                      ca_file=store.get_setting("sync_ca_file") or None)
+                      ca_file=store.settings.get("sync_ca_file") or None)
