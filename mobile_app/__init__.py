@@ -1,1 +1,1 @@
-"""Boardside field app: Flet screens on top of the job records and the calculation core."""
+"""Boardside field app: Flet screens over the job store, its exports and sync, and the calculation core."""
