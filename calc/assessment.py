@@ -1,4 +1,6 @@
-"""`assess`: one circuit's input to its complete assessment, with the working shown step by step."""
+"""`assess`: one circuit's input to its complete assessment: every check with its outcome (pass, fail,
+not shown), the figure that decided it and its limit, the verdict with one primary cause, and the
+working shown step by step."""
 
 from __future__ import annotations
 
@@ -6,20 +8,22 @@ from dataclasses import dataclass, field
 from functools import cached_property
 from typing import Any
 
-from calc.conductors import k_values, line_withstand, protective_conductor
-from calc.devices import make_device
+from calc.capacity import breaking_capacity
+from calc.checks import FAIL, NOT_SHOWN, PASS, Check, overall
+from calc.circuit_test_checks import test_checks
+from calc.conductors import Clearing, k_values, line_checks, protective_conductor
+from calc.devices import OperatingTime, make_device
+from calc.disconnection import disconnection, earth_path, touch_voltage
 from calc.inputs import CircuitInput, read_input
 from calc.limits import max_disconnection_time
-from calc.margin import margin_steps
-from calc.steps import CAUTIONS, FAIL, INCOMPLETE, PASS, Step, StepThunk
+from calc.steps import CAUTIONS, Step, StepThunk
+from calc.verdict import PrimaryCause, plausibility, primary_cause, reasons
 from calc.version import __version__
 from calc.walk import (
     device_time_step,
-    disconnection_step,
     fault_current_step,
     limit_step,
     loop_impedance,
-    ra_step,
     rcd_step,
     system_step,
     zs_max_step,
@@ -28,7 +32,7 @@ from calc.walk import (
 
 @dataclass(frozen=True)
 class Assessment:
-    """A circuit's assessment: the headline figures, the verdicts and the steps in walk order."""
+    """A circuit's assessment: the headline figures, the checks, the verdict and the steps in walk order."""
 
     inputs: CircuitInput
     device: str
@@ -42,23 +46,43 @@ class Assessment:
     disconnection_time_s: float | None
     device_time_at_short_circuit_s: float | None
     zs_max_ohm: float | None
+    zs_limit_ohm: float | None
     zs_limit_at_test_temp_ohm: float | None
+    zs_at_operating_temp_ohm: float | None
     zs_rule_of_thumb_ohm: float | None
     zs_margin_ok: bool | None
     disconnection_ok: bool | None
+    earth_path_ok: bool | None
     touch_voltage_v: float | None
     touch_voltage_ok: bool | None
+    breaking_capacity_ok: bool | None
     k_line: float
     k_cpc: float
     line_withstand_time_s: float | None
     line_withstand_ok: bool | None
+    line_withstand_max_ok: bool | None
+    line_withstand_min_ok: bool | None
     cpc_proportional_min_mm2: float
     cpc_min_csa_mm2: float | None
     cpc_by_proportional_rule: bool
     cpc_adiabatic_ok: bool | None
     cpc_ok: bool | None
+    insulation_ok: bool | None
+    insulation_min_mohm: float | None
+    continuity_ok: bool | None
+    expected_r1r2_ohm: float | None
+    ring_ok: bool | None
+    ring_expected_r1r2_ohm: float | None
+    polarity_ok: bool | None
+    rcd_time_ok: bool | None
+    rcd_time_limit_1x_s: float | None
+    rcd_time_limit_5x_s: float | None
+    rcd_button_ok: bool | None
     verdict: str
     reasons: tuple[str, ...]
+    checks: tuple[Check, ...]
+    primary_cause: PrimaryCause | None
+    plausibility: tuple[str, ...]
     step_thunks: tuple[StepThunk, ...] = field(repr=False, compare=False)
 
     @cached_property
@@ -72,16 +96,19 @@ class Assessment:
             "calc_version": __version__,
             "verdict": self.verdict,
             "reasons": list(self.reasons),
+            "primary_cause": None if self.primary_cause is None else self.primary_cause.to_dict(),
         }
-        for name in _HEADLINE:
+        for name in HEADLINE:
             out[name] = getattr(self, name)
+        out["checks"] = [check.to_dict() for check in self.checks]
+        out["plausibility"] = list(self.plausibility)
         out["steps"] = [step.to_dict() for step in self.steps]
         out["cautions"] = list(CAUTIONS)
         out["inputs"] = self.inputs.to_dict()
         return out
 
 
-_HEADLINE = (
+HEADLINE = (
     "device",
     "zs_ohm",
     "zs_source",
@@ -93,43 +120,57 @@ _HEADLINE = (
     "disconnection_time_s",
     "device_time_at_short_circuit_s",
     "zs_max_ohm",
+    "zs_limit_ohm",
     "zs_limit_at_test_temp_ohm",
+    "zs_at_operating_temp_ohm",
     "zs_rule_of_thumb_ohm",
     "zs_margin_ok",
     "disconnection_ok",
+    "earth_path_ok",
     "touch_voltage_v",
     "touch_voltage_ok",
+    "breaking_capacity_ok",
     "k_line",
     "k_cpc",
     "line_withstand_time_s",
     "line_withstand_ok",
+    "line_withstand_max_ok",
+    "line_withstand_min_ok",
     "cpc_proportional_min_mm2",
     "cpc_min_csa_mm2",
     "cpc_by_proportional_rule",
     "cpc_adiabatic_ok",
     "cpc_ok",
+    "insulation_ok",
+    "insulation_min_mohm",
+    "continuity_ok",
+    "expected_r1r2_ohm",
+    "ring_ok",
+    "ring_expected_r1r2_ohm",
+    "polarity_ok",
+    "rcd_time_ok",
+    "rcd_time_limit_1x_s",
+    "rcd_time_limit_5x_s",
+    "rcd_button_ok",
 )
-
-
-def _overall(checks: dict[str, bool | None]) -> tuple[str, tuple[str, ...]]:
-    failed = tuple(f"{name}: fail" for name, ok in checks.items() if ok is False)
-    if failed:
-        return FAIL, failed
-    missing = tuple(f"{name}: not decided" for name, ok in checks.items() if ok is None)
-    if missing:
-        return INCOMPLETE, missing
-    return PASS, ()
+"""The headline keys of the JSON output, in order (`verdict`, `reasons`, `primary_cause`, `checks`,
+`plausibility`, `steps`, `cautions` and `inputs` follow)."""
 
 
 def assess(data: dict[str, Any]) -> Assessment:
     """Assess one circuit given as the calc JSON shape; raises InputError naming a bad field.
 
     The walk: supply, Zs, If and Isc (IEC 60364-4-41 411.4.4), maximum disconnection time (Table 41.1),
-    device and RCD times, maximum Zs, disconnection, TT touch voltage (411.5.3), the limit at the test
-    temperature, k values (IEC 60364-4-43 Table 43A, IEC 60364-5-54 Annex A), line withstand (434.5.2),
-    protective conductor (IEC 60364-5-54 543.1, Table 54.2).
+    device and RCD times, maximum Zs, disconnection at operating temperature, the circuit's own earth
+    path, TT touch voltage (411.5.3), breaking capacity (IEC 60364-4-43 434.5.1), k values (Table 43A,
+    IEC 60364-5-54 Annex A), the line conductor at both ends of its fault-current range (434.5.2), the
+    protective conductor (IEC 60364-5-54 543.1, Table 54.2), then the circuit's other tests.
     """
     return assess_input(read_input(data))
+
+
+def _ok(check: Check | None) -> bool | None:
+    return None if check is None else check.ok
 
 
 def assess_input(inp: CircuitInput) -> Assessment:
@@ -144,13 +185,13 @@ def assess_input(inp: CircuitInput) -> Assessment:
     )
     isc_a, isc_step = fault_current_step(
         "short-circuit-current",
-        "Short-circuit current",
+        "Short-circuit current at the circuit's end",
         "Isc",
         "Zsc",
         s.u0_v,
         s.cmin,
         inp.readings.zsc_ohm,
-        "Zsc not measured: the line check uses If",
+        "Zsc not measured",
     )
     steps += [if_step, isc_step]
     limit = max_disconnection_time(s.system, s.u0_v, inp.role, inp.device.rating_a, inp.final_circuit_max_a)
@@ -162,42 +203,45 @@ def assess_input(inp: CircuitInput) -> Assessment:
         steps.append(rcd_time_step)
     zs_max, zs_max_s = zs_max_step(inp, device, limit)
     steps.append(zs_max_s)
-    disc_ok, disc_time, disc_step = disconnection_step(limit, op, rcd_time, if_a)
-    steps.append(disc_step)
-    ra_ok, ra_v, ra_s = ra_step(inp, loop.zs_ohm)
-    if ra_s is not None:
-        steps.append(ra_s)
-    device_alone = (
-        op is not None and op.time_s is not None and limit.time_s is not None and op.time_s <= limit.time_s
-    )
-    margin, m_steps = margin_steps(inp, loop, zs_max, deciding=inp.rcd is None or device_alone)
-    steps += m_steps
     k_l, k_p, k_steps = k_values(inp)
+    disc, disc_step = disconnection(inp, loop, if_a, limit, op, rcd_time, zs_max, k_p)
+    steps.append(disc_step)
+    own, own_step = earth_path(inp, loop, disc.lim, k_p)
+    touch, touch_step = touch_voltage(inp, loop)
+    capacity, capacity_step = breaking_capacity(inp)
+    steps += [thunk for thunk in (own_step, touch_step) if thunk is not None]
+    steps.append(capacity_step)
     steps += k_steps
-    line, line_steps = line_withstand(inp, device, k_l, isc_a, if_a, rcd_time)
+    failed = disc.check.outcome == FAIL
+    earth = _earth_clearing(op, rcd_time, disc.cleared_by)
+    sc_time = device.time_at(isc_a).time_s if isc_a is not None else None
+    lines, line_steps = line_checks(inp, device, k_l, if_a, isc_a, earth, failed)
     steps += line_steps
-    cpc, cpc_steps = protective_conductor(inp, k_l, k_p, if_a, disc_time, op)
+    cpc, cpc_steps = protective_conductor(inp, k_l, k_p, if_a, earth, failed)
     steps += cpc_steps
-    checks = {"disconnection": disc_ok, "line conductor": line.ok, "protective conductor": cpc.ok}
-    if ra_s is not None:
-        checks["touch voltage"] = ra_ok
-    if m_steps and margin.ok is not None:
-        checks["Zs margin"] = margin.ok
-    verdict, reasons = _overall(checks)
-    steps.append(
-        lambda: Step(
-            "verdict",
-            "Verdict",
-            "all checks",
-            "; ".join(
-                f"{name} {'—' if ok is None else ('pass' if ok else 'fail')}" for name, ok in checks.items()
-            ),
-            verdict,
-            "",
-            verdict,
-            "; ".join(reasons),
+    others, other_steps = test_checks(inp)
+    steps += other_steps
+    checks = (
+        tuple(
+            c
+            for c in (disc.check, own, touch, capacity, lines.largest, lines.smallest, cpc.fault, cpc.minimum)
+            if c is not None
         )
+        + others.checks()
     )
+    verdict = overall(checks)
+    cause = primary_cause(checks)
+    why = reasons(checks)
+    steps.append(lambda: _verdict_step(verdict, checks, cause))
+    judgement = disc.judgement
+    hot = judgement.hot if judgement is not None else None
+    limit_at_test = None
+    if hot is not None and disc.lim is not None:
+        ze = hot.ze_ohm or 0.0
+        limit_at_test = ze + (disc.lim.ohm - ze) / hot.factor
+    margin_ok = None
+    if judgement is not None and judgement.outcome != NOT_SHOWN:
+        margin_ok = judgement.outcome == PASS
     return Assessment(
         inputs=inp,
         device=device.label,
@@ -208,25 +252,73 @@ def assess_input(inp: CircuitInput) -> Assessment:
         max_disconnection_time_s=limit.time_s,
         device_time_s=op.time_s if op else None,
         rcd_time_s=rcd_time,
-        disconnection_time_s=disc_time,
-        device_time_at_short_circuit_s=line.device_time_s if isc_a is not None else None,
+        disconnection_time_s=disc.clearing_time_s,
+        device_time_at_short_circuit_s=sc_time,
         zs_max_ohm=zs_max,
-        zs_limit_at_test_temp_ohm=margin.limit_at_test_ohm,
-        zs_rule_of_thumb_ohm=margin.rule_of_thumb_ohm,
-        zs_margin_ok=margin.ok,
-        disconnection_ok=disc_ok,
-        touch_voltage_v=ra_v,
-        touch_voltage_ok=ra_ok,
+        zs_limit_ohm=disc.lim.ohm if disc.lim is not None else None,
+        zs_limit_at_test_temp_ohm=limit_at_test,
+        zs_at_operating_temp_ohm=hot.ohm if hot is not None else None,
+        zs_rule_of_thumb_ohm=judgement.rule_ohm if judgement is not None else None,
+        zs_margin_ok=margin_ok,
+        disconnection_ok=disc.check.ok,
+        earth_path_ok=_ok(own),
+        touch_voltage_v=touch.figure if touch is not None else None,
+        touch_voltage_ok=_ok(touch),
+        breaking_capacity_ok=capacity.ok,
         k_line=k_l.k,
         k_cpc=k_p.k,
-        line_withstand_time_s=line.withstand_time_s,
-        line_withstand_ok=line.ok,
+        line_withstand_time_s=lines.deciding.withstand_s if lines.deciding is not None else None,
+        line_withstand_ok=lines.ok,
+        line_withstand_max_ok=lines.largest.ok,
+        line_withstand_min_ok=lines.smallest.ok,
         cpc_proportional_min_mm2=cpc.proportional_min_mm2,
         cpc_min_csa_mm2=cpc.min_csa_mm2,
         cpc_by_proportional_rule=cpc.by_rule,
         cpc_adiabatic_ok=cpc.adiabatic_ok,
         cpc_ok=cpc.ok,
+        insulation_ok=others.insulation.ok,
+        insulation_min_mohm=others.insulation_min_mohm,
+        continuity_ok=others.continuity.ok,
+        expected_r1r2_ohm=others.expected_r1r2_ohm,
+        ring_ok=_ok(others.ring),
+        ring_expected_r1r2_ohm=others.ring_expected_r1r2_ohm,
+        polarity_ok=others.polarity.ok,
+        rcd_time_ok=_ok(others.rcd_time),
+        rcd_time_limit_1x_s=others.rcd_time_limit_1x_s,
+        rcd_time_limit_5x_s=others.rcd_time_limit_5x_s,
+        rcd_button_ok=_ok(others.rcd_button),
         verdict=verdict,
-        reasons=reasons,
+        reasons=why,
+        checks=checks,
+        primary_cause=cause,
+        plausibility=plausibility(inp, if_a, isc_a),
         step_thunks=tuple(steps),
     )
+
+
+def _earth_clearing(op: OperatingTime | None, rcd_time_s: float | None, by: str) -> Clearing | None:
+    """How the earth fault is actually cleared: by the RCD where it is faster, else by the device."""
+    if by == "RCD" and rcd_time_s is not None:
+        return Clearing(
+            OperatingTime(rcd_time_s, "upper-bound", "the RCD clears the earth fault first"), "RCD"
+        )
+    if op is None:
+        return None
+    return Clearing(op, "device")
+
+
+def _verdict_step(verdict: str, checks: tuple[Check, ...], cause: PrimaryCause | None) -> Step:
+    words = {PASS: "pass", FAIL: "fail", NOT_SHOWN: "not shown"}
+    return Step(
+        "verdict",
+        "Verdict",
+        "pass only when every check passes",
+        "; ".join(f"{c.title} {words[c.outcome]}" for c in checks),
+        verdict,
+        "",
+        verdict,
+        cause.text if cause is not None else "every check passes",
+    )
+
+
+__all__ = ["HEADLINE", "Assessment", "assess", "assess_input"]

@@ -73,6 +73,8 @@ def _read_json(name: str, stdin: TextIO) -> Any:
         ) from None
     except RecursionError:
         raise InputError("input", "JSON nested too deeply") from None
+    except ValueError:  # e.g. an integer of thousands of digits (int_max_str_digits)
+        raise InputError("input", "a number has too many digits to be a reading") from None
 
 
 def device_from_text(text: str, points: Sequence[str] | None) -> dict[str, Any]:

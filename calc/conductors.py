@@ -1,47 +1,56 @@
-"""Conductor checks of the walk: k values, line conductor withstand (adiabatic), protective conductor
-by proportion, by the adiabatic minimum size and by the minimum sizes for a separate conductor."""
+"""Conductor checks of the walk: k values, the line conductor at both ends of its fault-current range
+(IEC 60364-4-43 434.5.2), and the protective conductor by proportion (IEC 60364-5-54 Table 54.2), by
+the adiabatic size at the earth fault current (543.1.2) and by the minimum size of a separate conductor
+(543.1.3)."""
 
 from __future__ import annotations
 
 from typing import NamedTuple
 
-from calc.devices import BEYOND_CURVE, UPPER_BOUND, Device, OperatingTime
+from calc import labels, tables
+from calc.adiabatic import OUTSIDE, Withstand, min_csa_mm2, withstand
+from calc.checks import FAIL, NOT_SHOWN, PASS, Check, judged, worse
+from calc.devices import Device, OperatingTime
 from calc.errors import InputError
-from calc.formulas import (
-    adiabatic_energy_limit_a2s,
-    adiabatic_min_csa_from_energy_mm2,
-    adiabatic_min_csa_mm2,
-    adiabatic_withstand_time_s,
-    proportional_cpc_csa_mm2,
-)
+from calc.formulas import proportional_cpc_csa_mm2
 from calc.inputs import CircuitInput
 from calc.kvalues import KValue, k_line, k_protective
-from calc.steps import CHECK, FAIL, INCOMPLETE, INFO, PASS, Step, StepThunk, fmt, verdict_of
+from calc.steps import INFO, Step, StepThunk, fmt
 
-ADIABATIC_MIN_TIME_S = 0.1
-ADIABATIC_MAX_TIME_S = 5.0
-"""IEC 60364-4-43 434.5.2: t = (kS/I)² holds from 0.1 s to 5 s; below 0.1 s compare I²t with k²S²."""
 SEPARATE_MIN_MM2 = {"copper": (2.5, 4.0), "aluminium": (16.0, 16.0)}
 """IEC 60364-5-54 543.1.3: a protective conductor not part of a cable, with / without mechanical
 protection."""
+LINE_SOURCE = "IEC 60364-4-43 434.5.2"
+CPC_SOURCE = "IEC 60364-5-54 543.1"
 _EPS = 1e-9
+
+
+def cpc_table(inp: CircuitInput) -> str:
+    """The k table row of the protective conductor: a separate conductor bunched with cables takes the
+    row of a core of a cable (IEC 60364-5-54 Table A.54.3), one not bunched Table A.54.2."""
+    if inp.cpc.arrangement == "separate" and inp.cpc.bunched:
+        return "in-cable"
+    return inp.cpc.arrangement or "in-cable"
 
 
 def k_values(inp: CircuitInput) -> tuple[KValue, KValue, list[StepThunk]]:
     """k of the line and of the protective conductor, from the tables, as steps."""
     line = k_line(inp.line.material, inp.line.insulation, inp.line.csa_mm2)
-    cpc = k_protective(inp.cpc.material, inp.cpc.arrangement or "in-cable", inp.cpc.insulation)
+    arrangement = cpc_table(inp)
+    cpc = k_protective(inp.cpc.material, arrangement, inp.cpc.insulation)
     if cpc is None:
+        field = "circuit.cpc.bunched" if arrangement != inp.cpc.arrangement else "circuit.cpc.arrangement"
         raise InputError(
-            "circuit.cpc.arrangement",
-            f"no tabulated k for {inp.cpc.material} as {inp.cpc.arrangement} of a {inp.cpc.insulation} cable",
+            field,
+            f"no tabulated k for {inp.cpc.material} {labels.arrangement(inp.cpc, bunched_note=True)} "
+            f"with {labels.insulation(inp.cpc.insulation)} insulation",
         )
     steps = [
         lambda: Step(
             "k-line",
             "k of the line conductor",
             "k from the table",
-            f"{inp.line.material}, {inp.line.insulation}, {fmt(line.theta_i_c)} → "
+            f"{inp.line.material}, {labels.insulation(inp.line.insulation)}, {fmt(line.theta_i_c)} → "
             f"{fmt(line.theta_f_c)} °C: k = {fmt(line.k)}",
             line.k,
             "A·s½/mm²",
@@ -52,195 +61,280 @@ def k_values(inp: CircuitInput) -> tuple[KValue, KValue, list[StepThunk]]:
             "k-cpc",
             "k of the protective conductor",
             "k from the table",
-            f"{inp.cpc.material}, {inp.cpc.arrangement}, {fmt(cpc.theta_i_c)} → {fmt(cpc.theta_f_c)} °C: "
+            f"{inp.cpc.material}, {labels.arrangement(inp.cpc, bunched_note=True)}, "
+            f"{labels.insulation(inp.cpc.insulation)}, {fmt(cpc.theta_i_c)} → {fmt(cpc.theta_f_c)} °C: "
             f"k = {fmt(cpc.k)}",
             cpc.k,
             "A·s½/mm²",
             INFO,
-            cpc.source + (" (value from memory)" if cpc.from_memory else ""),
+            cpc.source,
         ),
     ]
     return line, cpc, steps
 
 
-def _fast(op: OperatingTime) -> bool:
-    return op.time_s is not None and op.time_s <= ADIABATIC_MIN_TIME_S + _EPS
+class Clearing(NamedTuple):
+    """How an earth fault is cleared: the operating time (an upper bound) and by what ("device", "RCD")."""
+
+    op: OperatingTime
+    by: str
 
 
-class LineWithstand(NamedTuple):
-    """Result of the line conductor check."""
+class FaultCase(NamedTuple):
+    """One fault the line conductor must survive: its current, how it is cleared, and a name."""
 
-    current_a: float | None
-    withstand_time_s: float | None
-    device_time_s: float | None
-    ok: bool | None
+    name: str
+    current_a: float
+    op: OperatingTime
+    by: str
 
 
-def line_withstand(
+def _case_check(check_id: str, title: str, case: FaultCase, result: Withstand, follows: str | None) -> Check:
+    outcome = result.outcome
+    needs = result.needs
+    follows_from = None
+    if result.mode == OUTSIDE and follows is not None:
+        follows_from, needs = follows, "follows from the disconnection failure"
+    why = f"{case.name}, {fmt(case.current_a)} A cleared by the {case.by}: {result.why}"
+    return Check(
+        check_id,
+        title,
+        outcome,
+        result.figure,
+        result.limit,
+        result.unit,
+        result.at_most,
+        why,
+        needs,
+        LINE_SOURCE,
+        follows_from,
+        case.current_a,
+        result.clearing_s,
+    )
+
+
+class LineChecks(NamedTuple):
+    """The line conductor at its largest and its smallest fault current."""
+
+    largest: Check
+    smallest: Check
+    deciding: Withstand | None
+
+    @property
+    def ok(self) -> bool | None:
+        return worse(self.largest, self.smallest).ok
+
+
+def _smallest_cases(
+    inp: CircuitInput, device: Device, if_a: float | None, isc_a: float | None, earth: Clearing | None
+) -> tuple[list[FaultCase], str]:
+    """The faults at the circuit's far end: line–neutral (cleared by the overcurrent device alone, never
+    an RCD) and line–earth (cleared by the faster of device and RCD). Without Zsc the earth fault current
+    stands in for the line–neutral one in TN systems where the protective conductor's resistance is at
+    least the line's (the neutral is then no worse), else the case is not shown."""
+    cases: list[FaultCase] = []
+    if if_a is not None and earth is not None:
+        cases.append(FaultCase("earth fault at the circuit's end", if_a, earth.op, earth.by))
+    if isc_a is not None:
+        cases.append(
+            FaultCase("line–neutral fault at the circuit's end", isc_a, device.time_at(isc_a), "device")
+        )
+        return cases, ""
+    stands_in = inp.supply.system != "TT" and _cpc_resistance_at_least_line(inp)
+    if if_a is not None and stands_in:
+        cases.append(
+            FaultCase(
+                "line–neutral fault at the circuit's end (If stands in: no Zsc)",
+                if_a,
+                device.time_at(if_a),
+                "device",
+            )
+        )
+        return cases, ""
+    return (
+        cases,
+        "measure Zsc at the circuit's end: a line–neutral fault is cleared by the overcurrent device alone",
+    )
+
+
+def _cpc_resistance_at_least_line(inp: CircuitInput) -> bool:
+    materials = tables.load("materials")
+    r_line = materials[inp.line.material]["rho20_ohm_mm"] / inp.line.csa_mm2
+    r_cpc = materials[inp.cpc.material]["rho20_ohm_mm"] / inp.cpc.csa_mm2
+    return r_cpc + _EPS >= r_line
+
+
+def line_checks(
     inp: CircuitInput,
     device: Device,
     k: KValue,
-    isc_a: float | None,
     if_a: float | None,
-    rcd_time_s: float | None = None,
-) -> tuple[LineWithstand, list[StepThunk]]:
-    """Line conductor withstand, t = (kS/I)² against the device time (IEC 60364-4-43 434.5.2).
-
-    Checked at Isc when Zsc was measured; otherwise at the earth fault current If, which an RCD also
-    clears, so there the faster of the device and the RCD counts.
-    """
-    current = isc_a if isc_a is not None else if_a
-    symbol = "Isc" if isc_a is not None else "If"
+    isc_a: float | None,
+    earth: Clearing | None,
+    disconnection_failed: bool,
+) -> tuple[LineChecks, list[StepThunk]]:
+    """Line conductor withstand (IEC 60364-4-43 434.5.2) at both ends of its fault-current range: the
+    largest current its device sees (the prospective fault current at the board, cleared by the device),
+    and the smallest (faults at the circuit's end; for fuses and other time-graded devices the harder
+    case)."""
     s = inp.line.csa_mm2
-    title = "Line conductor withstand"
-    formula = f"t = (k · S / {symbol})² ≥ device time"
-    if current is None:
-        return LineWithstand(None, None, None, None), [
-            lambda: Step(
-                "line-withstand",
-                title,
-                formula,
-                "no fault current",
-                None,
-                "s",
-                INCOMPLETE,
-                "measure Zsc or Zs",
-            )
-        ]
-    op = device.time_at(current)
-    if isc_a is None and rcd_time_s is not None and (op.time_s is None or rcd_time_s < op.time_s):
-        op = OperatingTime(rcd_time_s, UPPER_BOUND, "the earth fault is cleared by the RCD first")
-    op_time = op.time_s
-    note_current = "" if isc_a is not None else "Zsc not measured: checked at the earth fault current; "
-    withstand = adiabatic_withstand_time_s(k.k, s, current)
-    energy = adiabatic_energy_limit_a2s(k.k, s)
-    if op_time is None:
-        ok: bool | None = None if op.status == BEYOND_CURVE else False
-        mode = "none"
-    elif _fast(op) and inp.let_through_a2s is not None:
-        ok, mode = inp.let_through_a2s <= energy, "energy"
-    elif _fast(op):
-        ok, mode = withstand >= ADIABATIC_MIN_TIME_S, "fast"
+    follows = "disconnection" if disconnection_failed else None
+    lt = inp.let_through
+    title_max = "Line conductor at the largest fault current"
+    pfc = inp.supply.pfc_a
+    if pfc is None:
+        largest = Check(
+            "line-withstand-max",
+            title_max,
+            NOT_SHOWN,
+            source=LINE_SOURCE,
+            why="the prospective fault current at the board is not known",
+            needs="enter the prospective fault current (PFC) at the board",
+        )
+        result_max = None
     else:
-        ok, mode = withstand + _EPS >= op_time, "time"
-
-    def time_step() -> Step:
-        bound = "< " if op.status == "instantaneous" else "≤ "
-        shown = f"t {bound}{fmt(op_time)} s" if op_time is not None else "not known to operate"
-        return Step(
-            "device-time-at-short-circuit",
-            f"Device time at {symbol}",
-            f"t = device time at {symbol}",
-            f"at {fmt(current)} A: {shown}",
-            op_time,
-            "s",
-            INCOMPLETE if op.status == BEYOND_CURVE else INFO,
-            op.note,
+        case = FaultCase("prospective fault at the board", pfc, device.time_at(pfc), "device")
+        result_max = withstand(k.k, s, pfc, case.op, lt)
+        largest = _case_check("line-withstand-max", title_max, case, result_max, None)
+    title_min = "Line conductor at the smallest fault current"
+    cases, missing = _smallest_cases(inp, device, if_a, isc_a, earth)
+    results = [withstand(k.k, s, case.current_a, case.op, lt) for case in cases]
+    checks = [
+        _case_check("line-withstand-min", title_min, c, r, follows)
+        for c, r in zip(cases, results, strict=True)
+    ]
+    if missing:
+        checks.append(
+            Check(
+                "line-withstand-min",
+                title_min,
+                NOT_SHOWN,
+                source=LINE_SOURCE,
+                why="no line–neutral loop impedance",
+                needs=missing,
+            )
         )
-
-    def check_step() -> Step:
-        base = f"t = ({fmt(k.k)} × {fmt(s)} / {fmt(current)})² = {fmt(withstand)} s"
-        sign = "≥" if ok else "<"
-        if mode == "none":
-            return Step(
-                "line-withstand",
-                title,
-                formula,
-                base + "; the device is not known to clear this current",
-                withstand,
-                "s",
-                verdict_of(ok),
-                note_current + op.note,
+    if not checks:
+        checks.append(
+            Check(
+                "line-withstand-min",
+                title_min,
+                NOT_SHOWN,
+                source=LINE_SOURCE,
+                why="no fault current",
+                needs="measure Zs, or Ze and R1+R2",
             )
-        if mode == "energy":
-            let_through = inp.let_through_a2s or 0.0
-            return Step(
-                "line-withstand",
-                title,
-                "I²t (device) ≤ k² · S²",
-                f"k²S² = ({fmt(k.k)} × {fmt(s)})² = {fmt(energy)} A²s; let-through "
-                f"{fmt(let_through)} A²s {'≤' if ok else '>'} {fmt(energy)} A²s",
-                energy,
-                "A²s",
-                verdict_of(ok),
-                note_current + "device clears in under 0.1 s: let-through energy "
-                "from the maker compared (IEC 60364-4-43 434.5.2)",
-            )
-        if mode == "fast":
-            return Step(
-                "line-withstand",
-                title,
-                formula,
-                f"{base} {sign} 0.1 s",
-                withstand,
-                "s",
-                verdict_of(ok),
-                note_current + "device clears in under 0.1 s: 0.1 s used; enter "
-                "the maker's let-through I²t for the energy check",
-            )
-        device_s = op_time or 0.0
-        note = note_current + (
-            f"margin {fmt(withstand - device_s)} s" if ok else f"short by {fmt(device_s - withstand)} s"
         )
-        if device_s > ADIABATIC_MAX_TIME_S:
-            note += "; beyond 5 s the adiabatic method no longer applies (IEC 60364-4-43 434.5.2)"
+    smallest = checks[0]
+    for other in checks[1:]:
+        smallest = worse(smallest, other)
+    deciding = next((r for c, r in zip(checks, results, strict=False) if c is smallest), result_max)
+    steps = [_line_step(largest, k, s), _line_step(smallest, k, s)]
+    return LineChecks(largest, smallest, deciding), steps
+
+
+def _line_step(check: Check, k: KValue, s: float) -> StepThunk:
+    def step() -> Step:
+        if check.unit == "A²s":
+            formula = "I²t (let-through) ≤ k² · S²"
+        else:
+            formula = "t = (k · S / I)² ≥ clearing time"
+        working = check.why
+        if check.current_a is not None and check.unit != "A²s":
+            withstand_s = (k.k * s / check.current_a) ** 2
+            working = (
+                f"t = ({fmt(k.k)} × {fmt(s)} / {fmt(check.current_a)})² = {fmt(withstand_s)} s; " + working
+            )
         return Step(
-            "line-withstand",
-            title,
+            check.id,
+            check.title,
             formula,
-            f"{base} {sign} {fmt(device_s)} s",
-            withstand,
-            "s",
-            verdict_of(ok),
-            note,
+            working,
+            check.figure,
+            check.unit,
+            check.outcome,
+            check.needs or check.source,
         )
 
-    return LineWithstand(current, withstand, op_time, ok), [time_step, check_step]
+    return step
 
 
-class CpcResult(NamedTuple):
-    """Result of the protective conductor checks."""
+class CpcChecks(NamedTuple):
+    """The protective conductor: size for the fault, and a separate conductor's minimum size."""
 
+    fault: Check
+    minimum: Check | None
     proportional_min_mm2: float
     by_rule: bool
     min_csa_mm2: float | None
     adiabatic_ok: bool | None
-    separate_ok: bool | None
-    ok: bool | None
+
+    @property
+    def ok(self) -> bool | None:
+        return self.fault.ok if self.minimum is None else worse(self.fault, self.minimum).ok
 
 
-def _separate_step(inp: CircuitInput) -> tuple[bool | None, StepThunk | None]:
+def _separate_minimum(inp: CircuitInput) -> Check | None:
     if inp.cpc.arrangement != "separate":
-        return None, None
+        return None
+    title = "Separate protective conductor size"
+    source = "IEC 60364-5-54 543.1.3"
     sizes = SEPARATE_MIN_MM2.get(inp.cpc.material)
     s = inp.cpc.csa_mm2
     if sizes is None:
-        return None, lambda: Step(
-            "cpc-separate",
-            "Separate protective conductor",
-            "minimum size",
-            f"no minimum tabulated here for {inp.cpc.material}",
+        return Check(
+            "cpc-minimum-size",
+            title,
+            NOT_SHOWN,
+            s,
             None,
             "mm²",
-            INFO,
-            "",
+            False,
+            f"no minimum tabulated here for {inp.cpc.material}",
+            "check the rules in force",
+            source,
         )
     protected, unprotected = sizes
-    if s + _EPS >= unprotected:
-        ok, verdict, note = True, PASS, "meets the size without mechanical protection"
-    elif s + _EPS >= protected:
-        ok, verdict, note = True, CHECK, "acceptable only with mechanical protection"
-    else:
-        ok, verdict, note = False, FAIL, "below the minimum size"
-    return ok, lambda: Step(
-        "cpc-separate",
-        "Separate protective conductor",
-        f"S ≥ {fmt(protected)} mm² protected, ≥ {fmt(unprotected)} mm² unprotected",
-        f"S = {fmt(s)} mm²",
+    need = protected if inp.cpc.protected else unprotected
+    if inp.cpc.protected is None and s + _EPS < unprotected:
+        if s + _EPS < protected:
+            return Check(
+                "cpc-minimum-size",
+                title,
+                FAIL,
+                s,
+                protected,
+                "mm²",
+                False,
+                f"{fmt(s)} mm² is below {fmt(protected)} mm², the least even with mechanical protection",
+                "",
+                source,
+            )
+        return Check(
+            "cpc-minimum-size",
+            title,
+            NOT_SHOWN,
+            s,
+            unprotected,
+            "mm²",
+            False,
+            f"{fmt(s)} mm² is enough only with mechanical protection",
+            f"say whether it is mechanically protected (else at least {fmt(unprotected)} mm²)",
+            source,
+        )
+    ok = s + _EPS >= need
+    return Check(
+        "cpc-minimum-size",
+        title,
+        judged(ok),
         s,
+        need,
         "mm²",
-        verdict,
-        note + " (IEC 60364-5-54 543.1.3)",
+        False,
+        f"{fmt(s)} mm² {'≥' if ok else '<'} {fmt(need)} mm² "
+        f"({'with' if need == protected else 'without'} mechanical protection)",
+        "",
+        source,
     )
 
 
@@ -249,118 +343,149 @@ def protective_conductor(
     k_l: KValue,
     k_p: KValue,
     if_a: float | None,
-    disconnection_time_s: float | None,
-    op: OperatingTime | None,
-) -> tuple[CpcResult, list[StepThunk]]:
-    """Protective conductor: Table 54.2 proportion, adiabatic minimum S = √(I²t)/k (543.1.2) at the
-    earth fault current and the disconnection time, and the minimum sizes of a separate conductor."""
+    earth: Clearing | None,
+    disconnection_failed: bool,
+) -> tuple[CpcChecks, list[StepThunk]]:
+    """Protective conductor: Table 54.2 proportion, or the adiabatic minimum S = √(If² · t)/k (543.1.2)
+    at the earth fault current with the time that actually clears it; and a separate conductor's
+    minimum size (543.1.3)."""
     s = inp.cpc.csa_mm2
     same = inp.cpc.material == inp.line.material
-    rule_min = proportional_cpc_csa_mm2(
-        inp.line.csa_mm2, k_l.k if not same else 1.0, k_p.k if not same else 1.0
-    )
+    rule_min = proportional_cpc_csa_mm2(inp.line.csa_mm2, 1.0 if same else k_l.k, 1.0 if same else k_p.k)
     by_rule = s + _EPS >= rule_min
-    steps: list[StepThunk] = [
-        lambda: Step(
-            "cpc-proportional",
-            "Protective conductor by proportion",
-            "S ≤ 16 → S; 16 < S ≤ 35 → 16; S > 35 → S/2" + ("" if same else ", × k1/k2"),
-            f"line {fmt(inp.line.csa_mm2)} mm²"
-            f"{'' if same else f' × k1/k2 = × {fmt(k_l.k)}/{fmt(k_p.k)}'} → at least {fmt(rule_min)} mm²; "
-            f"CPC {fmt(s)} mm²",
+    title = "Protective conductor"
+    minimum = _separate_minimum(inp)
+    min_csa = None
+    adiabatic_ok: bool | None = None
+    result: Withstand | None = None
+    if if_a is not None and earth is not None:
+        result = withstand(k_p.k, s, if_a, earth.op, inp.let_through)
+        min_csa = min_csa_mm2(k_p.k, if_a, earth.op, inp.let_through)
+        adiabatic_ok = None if result.outcome == NOT_SHOWN else result.outcome == PASS
+    if by_rule:
+        fault = Check(
+            "cpc",
+            title,
+            PASS,
+            s,
             rule_min,
             "mm²",
-            PASS if by_rule else INFO,
-            "IEC 60364-5-54 Table 54.2" + ("" if by_rule else "; not met: the adiabatic check decides"),
+            False,
+            f"{fmt(s)} mm² ≥ {fmt(rule_min)} mm² by proportion to the line conductor (Table 54.2)",
+            source="IEC 60364-5-54 Table 54.2",
         )
-    ]
-    min_csa, adiabatic_ok = _adiabatic(inp, k_p, if_a, disconnection_time_s, op, steps, by_rule)
-    separate_ok, separate_step = _separate_step(inp)
-    if separate_step is not None:
-        steps.append(separate_step)
-    if by_rule or adiabatic_ok:
-        ok: bool | None = separate_ok is not False
-    elif adiabatic_ok is None:
-        ok = None
-    else:
-        ok = False
-    steps.append(
-        lambda: Step(
+    elif result is None:
+        fault = Check(
             "cpc",
-            "Protective conductor",
-            "proportion or adiabatic, and minimum size",
-            f"proportion {'met' if by_rule else 'not met'}; adiabatic "
-            f"{ {True: 'met', False: 'not met', None: 'not decided'}[adiabatic_ok] }",
+            title,
+            NOT_SHOWN,
             s,
+            rule_min,
             "mm²",
-            verdict_of(ok),
-            "IEC 60364-5-54 543.1",
+            False,
+            f"{fmt(s)} mm² is below the proportion ({fmt(rule_min)} mm²) and there is no fault current",
+            "measure Zs, or Ze and R1+R2",
+            CPC_SOURCE,
         )
-    )
-    return CpcResult(rule_min, by_rule, min_csa, adiabatic_ok, separate_ok, ok), steps
-
-
-def _adiabatic(
-    inp: CircuitInput,
-    k: KValue,
-    if_a: float | None,
-    time_s: float | None,
-    op: OperatingTime | None,
-    steps: list[StepThunk],
-    by_rule: bool,
-) -> tuple[float | None, bool | None]:
-    s = inp.cpc.csa_mm2
-    title = "Protective conductor, adiabatic"
-    if if_a is None or time_s is None:
+    elif result.mode == OUTSIDE:
+        follows = "disconnection" if disconnection_failed else None
+        fault = Check(
+            "cpc",
+            title,
+            NOT_SHOWN,
+            s,
+            rule_min,
+            "mm²",
+            False,
+            f"below the proportion ({fmt(rule_min)} mm²); {result.why}",
+            "follows from the disconnection failure" if follows else result.needs,
+            CPC_SOURCE,
+            follows,
+            if_a,
+            result.clearing_s,
+        )
+    else:
+        limit = min_csa if min_csa is not None else rule_min
+        needs = result.needs
+        why = f"at If = {fmt(if_a or 0.0)} A: {result.why}"
+        if result.outcome == FAIL and min_csa is not None:
+            why += f"; at least {fmt(min_csa)} mm² needed"
+        fault = Check(
+            "cpc",
+            title,
+            result.outcome,
+            s,
+            limit,
+            "mm²",
+            False,
+            why,
+            needs,
+            CPC_SOURCE,
+            None,
+            if_a,
+            result.clearing_s,
+        )
+    steps = [_proportion_step(inp, k_l, k_p, rule_min, by_rule, same), _fault_step(fault, k_p, if_a, result)]
+    if minimum is not None:
         steps.append(
             lambda: Step(
-                "cpc-adiabatic",
-                title,
-                "S = √(If² · t) / k",
-                "no fault current or no clearing time",
-                None,
+                minimum.id,
+                minimum.title,
+                "S ≥ 2.5 mm² protected, ≥ 4 mm² unprotected (copper)",
+                minimum.why,
+                s,
                 "mm²",
-                INCOMPLETE,
-                "not known to clear" if if_a is not None else "",
+                minimum.outcome,
+                minimum.needs or minimum.source,
             )
         )
-        return None, None
-    let_through = inp.let_through_a2s
-    use_energy = (
-        time_s <= ADIABATIC_MIN_TIME_S + _EPS and op is not None and _fast(op) and let_through is not None
-    )
-    used = max(time_s, ADIABATIC_MIN_TIME_S)
-    if use_energy and let_through is not None:
-        min_csa = adiabatic_min_csa_from_energy_mm2(let_through, k.k)
-    else:
-        min_csa = adiabatic_min_csa_mm2(if_a, used, k.k)
-    ok = s + _EPS >= min_csa
+    return CpcChecks(fault, minimum, rule_min, by_rule, min_csa, adiabatic_ok), steps
 
+
+def _proportion_step(
+    inp: CircuitInput, k_l: KValue, k_p: KValue, rule_min: float, by_rule: bool, same: bool
+) -> StepThunk:
+    s = inp.cpc.csa_mm2
+    return lambda: Step(
+        "cpc-proportional",
+        "Protective conductor by proportion",
+        "S ≤ 16 → S; 16 < S ≤ 35 → 16; S > 35 → S/2" + ("" if same else ", × k1/k2"),
+        f"line {fmt(inp.line.csa_mm2)} mm²"
+        f"{'' if same else f' × k1/k2 = × {fmt(k_l.k)}/{fmt(k_p.k)}'} → at least {fmt(rule_min)} mm²; "
+        f"CPC {fmt(s)} mm²",
+        rule_min,
+        "mm²",
+        PASS if by_rule else INFO,
+        "IEC 60364-5-54 Table 54.2" + ("" if by_rule else "; not met: the adiabatic check decides"),
+    )
+
+
+def _fault_step(fault: Check, k_p: KValue, if_a: float | None, result: Withstand | None) -> StepThunk:
     def step() -> Step:
-        note = "IEC 60364-5-54 543.1.2"
-        if use_energy:
-            formula = "S = √(I²t let-through) / k"
-            working = f"S = √{fmt(let_through or 0.0)} / {fmt(k.k)} = {fmt(min_csa)} mm²"
-            note += "; device clears in under 0.1 s: maker's let-through energy used"
-        else:
-            formula = "S = √(If² · t) / k"
-            working = f"S = √({fmt(if_a)}² × {fmt(used)}) / {fmt(k.k)} = {fmt(min_csa)} mm²"
-            if used != time_s:
-                note += "; clears in under 0.1 s: 0.1 s used (enter the maker's let-through I²t)"
-            if used > ADIABATIC_MAX_TIME_S:
-                note += "; beyond 5 s the adiabatic method no longer applies"
-        if not ok and by_rule:
-            note += "; not met, but the proportion is"
+        working = fault.why
+        formula = "S ≥ √(If² · t) / k"
+        if result is not None and result.mode == "energy":
+            formula = "S ≥ √(I²t let-through) / k"
+        elif (
+            result is not None
+            and result.clearing_s is not None
+            and if_a is not None
+            and result.mode != OUTSIDE
+        ):
+            used = max(result.clearing_s, 0.1)
+            working = (
+                f"S = √({fmt(if_a)}² × {fmt(used)}) / {fmt(k_p.k)} = "
+                f"{fmt((if_a * if_a * used) ** 0.5 / k_p.k)} mm²; " + working
+            )
         return Step(
-            "cpc-adiabatic",
-            title,
+            "cpc",
+            fault.title,
             formula,
-            f"{working}; CPC {fmt(s)} mm² {'≥' if ok else '<'} {fmt(min_csa)} mm²",
-            min_csa,
+            working,
+            fault.limit,
             "mm²",
-            PASS if ok else (INFO if by_rule else FAIL),
-            note,
+            fault.outcome,
+            fault.needs or fault.source,
         )
 
-    steps.append(step)
-    return min_csa, ok
+    return step

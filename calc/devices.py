@@ -19,13 +19,16 @@ UPPER_BOUND = "upper-bound"
 INTERPOLATED = "interpolated"
 NOT_OPERATING = "not-operating"
 BEYOND_CURVE = "beyond-curve"
+BELOW_CURVE = "below-curve"
+OUTSIDE_DATA = (BEYOND_CURVE, BELOW_CURVE)
+"""A maker's chart says nothing outside its points: a current there is not decided either way."""
 
 
 class OperatingTime(NamedTuple):
     """A device's operating time at one current.
 
     `time_s` is an upper bound of the operating time, or None when the device is not known to operate
-    (`status` NOT_OPERATING) or the current lies beyond the data entered (`status` BEYOND_CURVE).
+    (`status` NOT_OPERATING) or the current lies outside the data entered (BEYOND_CURVE, BELOW_CURVE).
     """
 
     time_s: float | None
@@ -179,10 +182,17 @@ class PointsDevice:
         first_i, first_t = self.points[0]
         last_i, last_t = self.points[-1]
         if current_a < first_i:
+            if self.standard:
+                return OperatingTime(
+                    None,
+                    NOT_OPERATING,
+                    f"below {first_i:.3g} A the {self.source} does not show the device operating",
+                )
             return OperatingTime(
                 None,
-                NOT_OPERATING,
-                f"below {first_i:.3g} A the {self.source} does not show the device operating",
+                BELOW_CURVE,
+                f"below the first point entered ({first_i:.4g} A); add points at lower currents from "
+                "the maker's chart (never extrapolated)",
             )
         if current_a > last_i:
             if self.standard:
@@ -251,7 +261,7 @@ def fuse_gg(rating_a: float) -> PointsDevice:
 
 def make_device(spec: DeviceSpec) -> Device:
     """The time-current model for a checked device description."""
-    if spec.kind == "mcb" and spec.curve is not None and spec.rating_a is not None:
+    if spec.kind in ("mcb", "rcbo") and spec.curve is not None and spec.rating_a is not None:
         return mcb(spec.curve, spec.rating_a)
     if spec.kind == "fuse-gg" and spec.rating_a is not None:
         return fuse_gg(spec.rating_a)

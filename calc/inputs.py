@@ -1,4 +1,4 @@
-"""One circuit's inputs: read from the JSON shape, checked field by field, into frozen dataclasses.
+"""One circuit's inputs: read from the JSON shape, checked field by field, into typed records.
 
 Every check raises InputError with the dotted field path (`measured.zs`, `circuit.line.csa`), so the
 edge can tell a person exactly which field is wrong.
@@ -7,106 +7,52 @@ edge can tell a person exactly which field is wrong.
 from __future__ import annotations
 
 from collections.abc import Mapping
-from dataclasses import dataclass
 from typing import Any, NamedTuple
 
 from calc import tables
+from calc.circuit_tests import CircuitTests, read_tests
 from calc.errors import InputError
-from calc.units import (
-    AREA,
-    CURRENT,
-    ENERGY,
-    IMPEDANCE,
-    RATIO,
-    TEMPERATURE,
-    TIME,
-    VOLTAGE,
-    Kind,
-    parse_quantity,
+from calc.fields import (
+    check_known,
+    parse_value,
+    read_choice,
+    read_flag,
+    read_number,
+    read_required,
+    read_section,
 )
 
 SYSTEMS = ("TN-S", "TN-C-S", "TT")
 ROLES = ("final", "distribution")
-DEVICE_KINDS = ("mcb", "fuse-gg", "curve")
+DEVICE_KINDS = ("mcb", "rcbo", "fuse-gg", "curve")
+BREAKER_KINDS = ("mcb", "rcbo")
 CURVES = ("B", "C", "D")
 LINE_MATERIALS = ("copper", "aluminium")
 CPC_MATERIALS = ("copper", "aluminium", "steel")
 INSULATIONS = ("thermoplastic-70", "thermoplastic-90", "thermosetting-90", "rubber-60")
 ARRANGEMENTS = ("in-cable", "separate", "armour")
 RCD_TYPES = ("general", "s")
+RCD_WAVEFORMS = ("AC", "A", "F", "B")
+"""The RCD's type letter for the residual currents it detects (IEC 60755, IEC 61008-1 / IEC 61009-1):
+recorded, not used in the arithmetic."""
+SEPARATE_CPC_INSULATION = "thermoplastic-70"
+"""A separate protective conductor whose insulation is not given is taken as 70 °C thermoplastic
+(PVC): of the insulations in IEC 60364-5-54 Table A.54.2 it has the lowest k, so the check errs safe."""
 DEFAULT_U0_V = 230.0
 """Nominal voltage to earth when none is given (IEC 60038 230/400 V systems)."""
 DEFAULT_CMIN = 0.95
 """Minimum voltage factor when none is given (IEC 60909-0 Table 1, 100 V to 1000 V)."""
 
 
-@dataclass(frozen=True)
-class FieldSpec:
-    """How one numeric field is read: its kind of quantity and its allowed range (base units)."""
-
-    kind: Kind
-    low: float
-    high: float
-    low_inclusive: bool = False
-    positive: bool = True
-
-
-_Z = (1e-4, 1e5)
-"""Credible loop impedances: from 0.1 mΩ to 100 kΩ (an RA in TT can be hundreds of ohms)."""
-FIELDS: dict[str, FieldSpec] = {
-    "supply.u0": FieldSpec(VOLTAGE, 50.0, 1000.0),
-    "supply.cmin": FieldSpec(RATIO, 0.5, 1.1, low_inclusive=True),
-    "supply.ze": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
-    "supply.pfc": FieldSpec(CURRENT, 1e-3, 1e6, low_inclusive=True),
-    "circuit.device.rating": FieldSpec(CURRENT, 0.0, 10000.0),
-    "circuit.device.points.current": FieldSpec(CURRENT, 1e-3, 1e7, low_inclusive=True),
-    "circuit.device.points.time": FieldSpec(TIME, 1e-4, 1e6, low_inclusive=True),
-    "circuit.let_through_i2t": FieldSpec(ENERGY, 1e-3, 1e12, low_inclusive=True),
-    "circuit.rcd.idn": FieldSpec(CURRENT, 1e-3, 10.0, low_inclusive=True),
-    "circuit.line.csa": FieldSpec(AREA, 0.1, 5000.0, low_inclusive=True),
-    "circuit.cpc.csa": FieldSpec(AREA, 0.1, 5000.0, low_inclusive=True),
-    "measured.zs": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
-    "measured.zsc": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
-    "measured.r1r2": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
-    "measured.ze": FieldSpec(IMPEDANCE, *_Z, low_inclusive=True),
-    "measured.test_temp_c": FieldSpec(TEMPERATURE, -40.0, 80.0, low_inclusive=True, positive=False),
-    "settings.final_circuit_max_a": FieldSpec(CURRENT, 0.0, 10000.0),
-}
-
-
-def parse_value(field: str, value: object) -> float:
-    """Parse one numeric field by its dotted path into a float in base units (Ω, A, V, s, mm², °C).
-
-    Raises InputError naming the field when the value is not a number, has a unit of another kind, or
-    lies outside the field's range (impedances, currents and sizes must be greater than zero).
-    """
-    spec = FIELDS.get(field)
-    if spec is None:
-        raise InputError(field, "is not a numeric field")
-    if type(value) is float or type(value) is int:  # the common case, checked in one comparison
-        inside_low = spec.low <= value if spec.low_inclusive else spec.low < value
-        if inside_low and value <= spec.high and (value > 0 or not spec.positive):
-            return float(value)
-    number = parse_quantity(field, value, spec.kind)
-    if spec.positive and number <= 0:
-        raise InputError(field, "must be greater than zero")
-    below = number < spec.low if spec.low_inclusive else number <= spec.low
-    if below:
-        bound = "at least" if spec.low_inclusive else "greater than"
-        raise InputError(field, f"must be {bound} {spec.low:g} {spec.kind.symbol}".rstrip())
-    if number > spec.high:
-        raise InputError(field, f"must be at most {spec.high:g} {spec.kind.symbol}".rstrip())
-    return number
-
-
 class Supply(NamedTuple):
-    """The supply at the origin: earthing system, nominal voltage to earth, voltage factor, readings."""
+    """The supply at the board: earthing system, nominal voltage to earth, voltage factor, readings."""
 
     system: str
     u0_v: float
     cmin: float
     ze_ohm: float | None
     pfc_a: float | None
+    ra_ohm: float | None = None
 
 
 class DeviceSpec(NamedTuple):
@@ -116,26 +62,42 @@ class DeviceSpec(NamedTuple):
     curve: str | None
     rating_a: float | None
     points: tuple[tuple[float, float], ...] | None
+    breaking_capacity_a: float | None = None
+
+
+class LetThrough(NamedTuple):
+    """The maker's let-through energy I²t and the prospective current it is stated at (None: not
+    recorded)."""
+
+    energy_a2s: float
+    at_current_a: float | None
 
 
 class Rcd(NamedTuple):
-    """A residual current device: rated residual operating current and type (general or S)."""
+    """A residual current device: IΔn, delay type (general or S), type letter, and whether it gives
+    additional protection (IEC 60364-4-41 415.1)."""
 
     idn_a: float
     type: str
+    waveform: str | None = None
+    additional: bool | None = None
 
 
 class Conductor(NamedTuple):
-    """A line or protective conductor: size, material and the cable's insulation or arrangement."""
+    """A line or protective conductor: size, material, insulation, and for a protective conductor its
+    arrangement, whether a separate one is bunched with cables and mechanically protected."""
 
     csa_mm2: float
     material: str
     insulation: str
     arrangement: str | None
+    bunched: bool | None = None
+    protected: bool | None = None
 
 
 class Readings(NamedTuple):
-    """What was measured on the circuit; any reading may be missing."""
+    """The loop readings of the circuit; any may be missing. θt is the conductors' temperature at the
+    test."""
 
     zs_ohm: float | None
     zsc_ohm: float | None
@@ -150,12 +112,16 @@ class CircuitInput(NamedTuple):
     supply: Supply
     role: str
     device: DeviceSpec
-    let_through_a2s: float | None
+    let_through: LetThrough | None
     rcd: Rcd | None
     line: Conductor
     cpc: Conductor
     readings: Readings
     final_circuit_max_a: float
+    tests: CircuitTests = CircuitTests()
+    length_m: float | None = None
+    selv: bool = False
+    ring: bool = False
 
     def to_dict(self) -> dict[str, Any]:
         """The normalised input in the JSON shape `read_input` accepts (numbers in base units)."""
@@ -166,6 +132,18 @@ class CircuitInput(NamedTuple):
             device["rating"] = self.device.rating_a
         if self.device.points is not None:
             device["points"] = [[i, t] for i, t in self.device.points]
+        if self.device.breaking_capacity_a is not None:
+            device["breaking_capacity"] = self.device.breaking_capacity_a
+        cpc: dict[str, Any] = {
+            "csa": self.cpc.csa_mm2,
+            "material": self.cpc.material,
+            "arrangement": self.cpc.arrangement,
+            "insulation": self.cpc.insulation,
+        }
+        if self.cpc.bunched is not None:
+            cpc["bunched"] = self.cpc.bunched
+        if self.cpc.protected is not None:
+            cpc["protected"] = self.cpc.protected
         circuit: dict[str, Any] = {
             "role": self.role,
             "device": device,
@@ -174,112 +152,70 @@ class CircuitInput(NamedTuple):
                 "material": self.line.material,
                 "insulation": self.line.insulation,
             },
-            "cpc": {
-                "csa": self.cpc.csa_mm2,
-                "material": self.cpc.material,
-                "arrangement": self.cpc.arrangement,
-            },
+            "cpc": cpc,
         }
-        if self.let_through_a2s is not None:
-            circuit["let_through_i2t"] = self.let_through_a2s
+        if self.let_through is not None:
+            circuit["let_through_i2t"] = self.let_through.energy_a2s
+            if self.let_through.at_current_a is not None:
+                circuit["let_through_at"] = self.let_through.at_current_a
         if self.rcd is not None:
-            circuit["rcd"] = {"idn": self.rcd.idn_a, "type": self.rcd.type}
+            rcd: dict[str, Any] = {"idn": self.rcd.idn_a, "type": self.rcd.type}
+            if self.rcd.waveform is not None:
+                rcd["waveform"] = self.rcd.waveform
+            if self.rcd.additional is not None:
+                rcd["additional"] = self.rcd.additional
+            circuit["rcd"] = rcd
+        if self.length_m is not None:
+            circuit["length_m"] = self.length_m
+        if self.selv:
+            circuit["selv"] = True
+        if self.ring:
+            circuit["ring"] = True
         supply = {
             "system": self.supply.system,
             "u0": self.supply.u0_v,
             "cmin": self.supply.cmin,
             "ze": self.supply.ze_ohm,
             "pfc": self.supply.pfc_a,
+            "ra": self.supply.ra_ohm,
         }
         r = self.readings
-        measured = {
+        measured: dict[str, Any] = {
             "zs": r.zs_ohm,
             "zsc": r.zsc_ohm,
             "r1r2": r.r1r2_ohm,
             "ze": r.ze_ohm,
             "test_temp_c": r.test_temp_c,
         }
+        measured = {k: v for k, v in measured.items() if v is not None}
+        measured.update(self.tests.to_dict())
         return {
             "supply": {k: v for k, v in supply.items() if v is not None},
             "circuit": circuit,
-            "measured": {k: v for k, v in measured.items() if v is not None},
+            "measured": measured,
             "settings": {"final_circuit_max_a": self.final_circuit_max_a},
         }
 
 
-def _section(data: Mapping[str, Any], name: str, path: str, required: bool) -> Mapping[str, Any]:
-    value = data.get(name)
-    field = f"{path}{name}"
-    if value is None:
-        if required:
-            raise InputError(field, "is required")
-        return {}
-    if not isinstance(value, dict):
-        raise InputError(field, "must be an object")
-    return value
-
-
-def _only(section: Mapping[str, Any], path: str, allowed: tuple[str, ...]) -> None:
-    for key in section:
-        if key not in allowed:
-            raise InputError(f"{path}.{key}" if path else str(key), "is not a known field")
-
-
-def _number(
-    section: Mapping[str, Any], path: str, name: str, default: float | None = None, required: bool = False
-) -> float | None:
-    field = f"{path}.{name}"
-    value = section.get(name)
-    if value is None or (isinstance(value, str) and not value.strip() and not required):
-        if required:
-            raise InputError(field, "is required")
-        return default
-    return parse_value(field, value)
-
-
-def _required_number(section: Mapping[str, Any], path: str, name: str) -> float:
-    number = _number(section, path, name, required=True)
-    if number is None:
-        raise InputError(f"{path}.{name}", "is required")
-    return number
-
-
-def _choice(
-    section: Mapping[str, Any], path: str, name: str, choices: tuple[str, ...], default: str | None = None
-) -> str:
-    field = f"{path}.{name}"
-    value = section.get(name)
-    if value is None:
-        if default is None:
-            raise InputError(field, f"is required (one of {', '.join(choices)})")
-        return default
-    if value in choices:
-        return value
-    if not isinstance(value, str):
-        raise InputError(field, f"must be one of {', '.join(choices)}")
-    for choice in choices:
-        if value.strip().lower() == choice.lower():
-            return choice
-    shown = value if len(value) <= 20 else value[:19] + "…"
-    raise InputError(field, f'"{shown}" is not one of {", ".join(choices)}')
-
-
-def read_device(section: Mapping[str, Any]) -> DeviceSpec:
+def read_device(data: Mapping[str, Any]) -> DeviceSpec:
+    """The device description: a breaker or RCBO (IEC 60898-1 curve and rating), a gG fuse (rating with
+    data here) or a maker's curve (points); with its rated breaking capacity when given."""
     path = "circuit.device"
-    _only(section, path, ("kind", "curve", "rating", "points"))
-    kind = _choice(section, path, "kind", DEVICE_KINDS)
-    if kind == "mcb":
-        curve = _choice(section, path, "curve", CURVES)
-        rating = _required_number(section, path, "rating")
+    check_known(data, path, ("kind", "curve", "rating", "points", "breaking_capacity"))
+    kind = read_choice(data, path, "kind", DEVICE_KINDS)
+    capacity = read_number(data, path, "breaking_capacity")
+    if kind in BREAKER_KINDS:
+        curve = read_choice(data, path, "curve", CURVES)
+        rating = read_required(data, path, "rating")
         ratings = tables.load("mcb")["ratings_a"]
         if rating not in ratings:
             raise InputError(
                 f"{path}.rating",
                 f"{rating:g} A is not a rating of IEC 60898-1 (one of {', '.join(str(r) for r in ratings)})",
             )
-        return DeviceSpec("mcb", curve, rating, None)
+        return DeviceSpec(kind, curve, rating, None, capacity)
     if kind == "fuse-gg":
-        rating = _required_number(section, path, "rating")
+        rating = read_required(data, path, "rating")
         ratings = [row["in_a"] for row in tables.load("fuse_gg")["rating"]]
         if rating not in ratings:
             raise InputError(
@@ -287,9 +223,9 @@ def read_device(section: Mapping[str, Any]) -> DeviceSpec:
                 f"{rating:g} A has no gG data here "
                 f"(one of {', '.join(str(r) for r in ratings)}); enter its curve points",
             )
-        return DeviceSpec("fuse-gg", None, rating, None)
-    rating = _number(section, path, "rating")
-    return DeviceSpec("curve", None, rating, read_points(section.get("points")))
+        return DeviceSpec("fuse-gg", None, rating, None, capacity)
+    rating = read_number(data, path, "rating")
+    return DeviceSpec("curve", None, rating, read_points(data.get("points")), capacity)
 
 
 def read_points(points: object) -> tuple[tuple[float, float], ...]:
@@ -324,22 +260,65 @@ def read_points(points: object) -> tuple[tuple[float, float], ...]:
     return tuple(parsed)
 
 
-def _conductor(circuit: Mapping[str, Any], name: str) -> Conductor:
-    path = f"circuit.{name}"
-    section = _section(circuit, name, "circuit.", required=True)
-    csa = _required_number(section, path, "csa")
-    if name == "line":
-        _only(section, path, ("csa", "material", "insulation"))
-        material = _choice(section, path, "material", LINE_MATERIALS, "copper")
-        insulation = _choice(section, path, "insulation", INSULATIONS, "thermoplastic-70")
-        return Conductor(csa, material, insulation, None)
-    _only(section, path, ("csa", "material", "arrangement", "insulation"))
-    material = _choice(section, path, "material", CPC_MATERIALS, "copper")
-    arrangement = _choice(section, path, "arrangement", ARRANGEMENTS, "in-cable")
+def _line(circuit: Mapping[str, Any]) -> Conductor:
+    path = "circuit.line"
+    data = read_section(circuit, "line", "circuit.", required=True)
+    check_known(data, path, ("csa", "material", "insulation"))
+    csa = read_required(data, path, "csa")
+    material = read_choice(data, path, "material", LINE_MATERIALS, "copper")
+    insulation = read_choice(data, path, "insulation", INSULATIONS, "thermoplastic-70")
+    return Conductor(csa, material, insulation, None)
+
+
+def _cpc(circuit: Mapping[str, Any], line: Conductor) -> Conductor:
+    """The protective conductor. A core of the cable and an armour share the cable's insulation; a
+    separate conductor has its own (70 °C thermoplastic when not given) and is taken as bunched with
+    cables unless said otherwise (IEC 60364-5-54 Table A.54.3 then applies, the safer k)."""
+    path = "circuit.cpc"
+    data = read_section(circuit, "cpc", "circuit.", required=True)
+    check_known(data, path, ("csa", "material", "arrangement", "insulation", "bunched", "protected"))
+    csa = read_required(data, path, "csa")
+    material = read_choice(data, path, "material", CPC_MATERIALS, "copper")
+    arrangement = read_choice(data, path, "arrangement", ARRANGEMENTS, "in-cable")
     if material == "steel" and arrangement == "in-cable":
         raise InputError(f"{path}.material", "steel is not a core of a cable (use armour or separate)")
-    insulation = _choice(section, path, "insulation", INSULATIONS, "") if "insulation" in section else ""
-    return Conductor(csa, material, insulation, arrangement)
+    bunched = read_flag(data, path, "bunched")
+    protected = read_flag(data, path, "protected")
+    if arrangement != "separate":
+        for name, given in (("bunched", bunched), ("protected", protected)):
+            if given is not None:
+                raise InputError(f"{path}.{name}", "applies only to a separate protective conductor")
+        insulation = read_choice(data, path, "insulation", INSULATIONS, line.insulation)
+        return Conductor(csa, material, insulation, arrangement)
+    insulation = read_choice(data, path, "insulation", INSULATIONS, SEPARATE_CPC_INSULATION)
+    return Conductor(csa, material, insulation, arrangement, True if bunched is None else bunched, protected)
+
+
+def _let_through(circuit: Mapping[str, Any]) -> LetThrough | None:
+    energy = read_number(circuit, "circuit", "let_through_i2t")
+    at_current = read_number(circuit, "circuit", "let_through_at")
+    if energy is None:
+        if at_current is not None:
+            raise InputError("circuit.let_through_at", "is given without circuit.let_through_i2t")
+        return None
+    return LetThrough(energy, at_current)
+
+
+def _rcd(circuit: Mapping[str, Any], device: DeviceSpec) -> Rcd | None:
+    path = "circuit.rcd"
+    data = read_section(circuit, "rcd", "circuit.", required=False)
+    if not data:
+        if device.kind == "rcbo":
+            raise InputError("circuit.rcd", "is required for an RCBO (its IΔn)")
+        return None
+    check_known(data, path, ("idn", "type", "waveform", "additional"))
+    waveform = data.get("waveform")
+    return Rcd(
+        read_required(data, path, "idn"),
+        read_choice(data, path, "type", RCD_TYPES, "general"),
+        None if waveform is None else read_choice(data, path, "waveform", RCD_WAVEFORMS),
+        read_flag(data, path, "additional"),
+    )
 
 
 def read_input(data: object) -> CircuitInput:
@@ -349,34 +328,62 @@ def read_input(data: object) -> CircuitInput:
     """
     if not isinstance(data, dict):
         raise InputError("input", "must be a JSON object")
-    _only(data, "", ("supply", "circuit", "measured", "settings", "meta"))
-    s = _section(data, "supply", "", required=True)
-    _only(s, "supply", ("system", "u0", "cmin", "ze", "pfc"))
-    system = _choice(s, "supply", "system", SYSTEMS)
-    u0 = _number(s, "supply", "u0") or DEFAULT_U0_V
-    cmin = _number(s, "supply", "cmin") or DEFAULT_CMIN
-    supply = Supply(system, u0, cmin, _number(s, "supply", "ze"), _number(s, "supply", "pfc"))
-    c = _section(data, "circuit", "", required=True)
-    _only(c, "circuit", ("role", "device", "let_through_i2t", "rcd", "line", "cpc"))
-    role = _choice(c, "circuit", "role", ROLES, "final")
-    device = read_device(_section(c, "device", "circuit.", required=True))
-    rcd_section = _section(c, "rcd", "circuit.", required=False)
-    rcd = None
-    if rcd_section:
-        _only(rcd_section, "circuit.rcd", ("idn", "type"))
-        idn = _required_number(rcd_section, "circuit.rcd", "idn")
-        rcd = Rcd(idn, _choice(rcd_section, "circuit.rcd", "type", RCD_TYPES, "general"))
-    line = _conductor(c, "line")
-    cpc = _conductor(c, "cpc")
-    if not cpc.insulation:
-        cpc = Conductor(cpc.csa_mm2, cpc.material, line.insulation, cpc.arrangement)
-    m = _section(data, "measured", "", required=False)
-    _only(m, "measured", ("zs", "zsc", "r1r2", "ze", "test_temp_c"))
-    readings = Readings(*(_number(m, "measured", n) for n in ("zs", "zsc", "r1r2", "ze", "test_temp_c")))
-    st = _section(data, "settings", "", required=False)
-    _only(st, "settings", ("final_circuit_max_a",))
+    check_known(data, "", ("supply", "circuit", "measured", "settings", "meta"))
+    s = read_section(data, "supply", "", required=True)
+    check_known(s, "supply", ("system", "u0", "cmin", "ze", "pfc", "ra"))
+    system = read_choice(s, "supply", "system", SYSTEMS)
+    u0 = read_number(s, "supply", "u0") or DEFAULT_U0_V
+    cmin = read_number(s, "supply", "cmin") or DEFAULT_CMIN
+    supply = Supply(
+        system,
+        u0,
+        cmin,
+        read_number(s, "supply", "ze"),
+        read_number(s, "supply", "pfc"),
+        read_number(s, "supply", "ra"),
+    )
+    c = read_section(data, "circuit", "", required=True)
+    check_known(
+        c,
+        "circuit",
+        (
+            "role",
+            "device",
+            "let_through_i2t",
+            "let_through_at",
+            "rcd",
+            "line",
+            "cpc",
+            "length_m",
+            "selv",
+            "ring",
+        ),
+    )
+    role = read_choice(c, "circuit", "role", ROLES, "final")
+    device = read_device(read_section(c, "device", "circuit.", required=True))
+    rcd = _rcd(c, device)
+    line = _line(c)
+    cpc = _cpc(c, line)
+    m = read_section(data, "measured", "", required=False)
+    loop = ("zs", "zsc", "r1r2", "ze", "test_temp_c")
+    tests = read_tests(m, loop)
+    readings = Readings(*(read_number(m, "measured", n) for n in loop))
+    st = read_section(data, "settings", "", required=False)
+    check_known(st, "settings", ("final_circuit_max_a",))
     default_scope = float(tables.load("disconnection_times")["final_circuit_max_a_default"])
-    scope = _number(st, "settings", "final_circuit_max_a") or default_scope
+    scope = read_number(st, "settings", "final_circuit_max_a") or default_scope
     return CircuitInput(
-        supply, role, device, _number(c, "circuit", "let_through_i2t"), rcd, line, cpc, readings, scope
+        supply,
+        role,
+        device,
+        _let_through(c),
+        rcd,
+        line,
+        cpc,
+        readings,
+        scope,
+        tests,
+        read_number(c, "circuit", "length_m"),
+        bool(read_flag(c, "circuit", "selv")),
+        bool(read_flag(c, "circuit", "ring")) or tests.ring is not None,
     )

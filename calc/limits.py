@@ -51,8 +51,8 @@ def max_disconnection_time(
 def rcd_break_time_s(rcd_type: str, residual_current_a: float, idn_a: float) -> float | None:
     """Maximum break time of an RCD at a residual current, or None below IΔn.
 
-    IEC 61008-1 / IEC 61009-1 Table 1 (from memory): the time for the largest tabulated multiple of IΔn
-    that the current reaches.
+    IEC 61008-1 / IEC 61009-1 Table 1: the time for the largest tabulated multiple of IΔn that the
+    current reaches.
     """
     row = tables.load("rcd")[rcd_type]
     multiple = residual_current_a / idn_a
@@ -61,6 +61,16 @@ def rcd_break_time_s(rcd_type: str, residual_current_a: float, idn_a: float) -> 
         if multiple >= m:
             best = t
     return best
+
+
+def rcd_multiple_for_time(rcd_type: str, time_s: float) -> float | None:
+    """The smallest tabulated multiple of IΔn at which an RCD is certain to break within `time_s`, or
+    None (IEC 61008-1 / IEC 61009-1 Table 1)."""
+    row = tables.load("rcd")[rcd_type]
+    for multiple, limit in zip(row["multiples"], row["max_time_s"], strict=True):
+        if limit <= time_s:
+            return float(multiple)
+    return None
 
 
 def touch_voltage_limit_v() -> float:

@@ -9,12 +9,11 @@ from collections.abc import Callable
 from dataclasses import dataclass
 from typing import Any
 
-PASS = "pass"
-FAIL = "fail"
-INCOMPLETE = "incomplete"
-CHECK = "check"
+from calc.checks import FAIL, NOT_SHOWN, PASS
+
 INFO = "info"
-STEP_VERDICTS = (PASS, FAIL, INCOMPLETE, CHECK, INFO)
+STEP_VERDICTS = (PASS, FAIL, NOT_SHOWN, INFO)
+"""A step's mark: a check's outcome, or `info` for a step that only works out a figure."""
 
 CAUTIONS = (
     "These results assist a competent person; they do not replace the rules in force, "
@@ -66,7 +65,7 @@ def fmt(x: float) -> str:
 
 
 def verdict_of(ok: bool | None) -> str:
-    """The step verdict for a check that passed, failed or could not be made."""
+    """The step verdict for a check that passed, failed or could not be decided."""
     if ok is None:
-        return INCOMPLETE
+        return NOT_SHOWN
     return PASS if ok else FAIL

@@ -15,4 +15,14 @@ def load(name: str) -> dict[str, Any]:
     return tomllib.loads(text)
 
 
-TABLE_NAMES = ("materials", "k_line", "k_protective", "disconnection_times", "mcb", "fuse_gg", "rcd")
+TABLE_NAMES = (
+    "materials",
+    "k_line",
+    "k_protective",
+    "disconnection_times",
+    "mcb",
+    "fuse_gg",
+    "rcd",
+    "insulation",
+    "conductor_resistance",
+)

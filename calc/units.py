@@ -36,9 +36,14 @@ TIME = Kind("time", "second", "s")
 ENERGY = Kind("let-through energy", "ampere ** 2 * second", "A²s")
 RATIO = Kind("factor", "dimensionless", "")
 TEMPERATURE = Kind("temperature", "degC", "°C")
+INSULATION = Kind("insulation resistance", "megaohm", "MΩ")
+LENGTH = Kind("length", "meter", "m")
 
 _NUMBER = r"[+-]?(?:\d+(?:[.,]\d*)?|[.,]\d+)(?:[eE][+-]?\d+)?"
 _SPLIT = re.compile(rf"^\s*({_NUMBER})\s*(.*?)\s*$")
+_GROUPED = re.compile(r"^\s*[+-]?(?:[1-9]\d{0,2}(?:,\d{3})+(?!\d)|\d*,\d{3},)")
+"""A comma before exactly three digits after a non-zero whole part ("45,000", "1,500 A", "1,500,000")
+reads both as a thousands separator and as a decimal comma: refused. "0,845" and "0,84" are decimals."""
 _TEMPERATURE_UNITS = frozenset({"", "°c", "ºc", "c", "degc", "deg c", "celsius", "°"})
 
 
@@ -71,7 +76,10 @@ def parse_quantity(field: str, value: object, kind: Kind) -> float:
     if isinstance(value, bool) or value is None:
         raise InputError(field, "must be a number or a value with a unit")
     if isinstance(value, int | float):
-        number = float(value)
+        try:
+            number = float(value)
+        except OverflowError:
+            raise InputError(field, "is too large to be a reading") from None
         if not math.isfinite(number):
             raise InputError(field, "must be a finite number")
         return number
@@ -83,10 +91,19 @@ def parse_quantity(field: str, value: object, kind: Kind) -> float:
 def _parse_text(field: str, text: str, kind: Kind) -> float:
     if not text.strip():
         raise InputError(field, "is empty")
+    if _GROUPED.match(text):
+        raise InputError(
+            field,
+            f'"{_shorten(text.strip())}" is ambiguous: a comma before three digits may be a thousands '
+            "separator; type the number without separators (e.g. 45000) or with a decimal point",
+        )
     match = _SPLIT.match(text)
     if match is None:
         raise InputError(field, f'"{_shorten(text)}" is not a number')
-    number = float(match.group(1).replace(",", "."))
+    try:
+        number = float(match.group(1).replace(",", "."))
+    except OverflowError:
+        raise InputError(field, "is too large to be a reading") from None
     if not math.isfinite(number):
         raise InputError(field, "must be a finite number")
     unit = match.group(2)

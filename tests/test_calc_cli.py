@@ -29,6 +29,7 @@ def test_assess_from_stdin_prints_json():
     assert result.returncode == 0, result.stderr
     out = json.loads(result.stdout)
     assert out["verdict"] == "pass"
+    assert {check["outcome"] for check in out["checks"]} == {"pass"}
     assert result.stderr == ""
 
 
@@ -59,6 +60,10 @@ def test_text_output_shows_the_working_and_cautions():
         ({"circuit": {"device": {"kind": "curve", "points": [[100, 1], [200, 2]]}}}, "circuit.device.points"),
         ({"circuit": {"line": {"csa": 0}}}, "circuit.line.csa"),
         ({"supply": {"u0": 230}}, "supply.system"),
+        ({"supply": {"system": "TN-S", "cmin": 1.1}}, "supply.cmin"),
+        ({"circuit": {"let_through_i2t": "45,000"}}, "circuit.let_through_i2t"),
+        ({"measured": {"zs": int("9" * 400)}}, "measured.zs"),
+        ({"measured": {"zs": "9" * 400}}, "measured.zs"),
     ],
 )
 def test_invalid_input_one_line_exit_2(change, field):
@@ -87,6 +92,7 @@ def test_invalid_input_one_line_exit_2(change, field):
         (("limits", "--device", "Z99"), None),
         (("limits", "--device", "curve"), None),
         (("limits", "--device", "B33"), None),
+        (("assess", "-"), '{"measured": {"zs": ' + "9" * 5000 + "}}"),
     ],
 )
 def test_bad_usage_is_one_line(args_stdin):

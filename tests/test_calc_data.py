@@ -55,3 +55,27 @@ def test_k_tables_positive():
             assert row["theta_i_c"] < row["theta_f_large_c"] <= row["theta_f_c"], insulation
             assert row["copper"] >= row["copper_large"] > 0
             assert row["aluminium"] >= row["aluminium_large"] > 0
+
+
+def test_conductor_resistances_sorted_and_falling():
+    # IEC 60228 Tables 1 and 2: a larger conductor has the lower resistance.
+    for material in ("copper", "aluminium"):
+        row = tables.load("conductor_resistance")[material]
+        assert row["csa_mm2"] == sorted(row["csa_mm2"])
+        assert row["ohm_per_km"] == sorted(row["ohm_per_km"], reverse=True)
+        assert len(row["csa_mm2"]) == len(row["ohm_per_km"])
+
+
+def test_insulation_rows_ordered():
+    # IEC 60364-6 Table 6.1 (from memory): test voltage and minimum rise with the circuit's voltage.
+    data = tables.load("insulation")
+    assert data["memory"] is True
+    rows = [r for r in data["row"] if not r["selv"]]
+    assert [r["nominal_max_v"] for r in rows] == sorted(r["nominal_max_v"] for r in rows)
+    assert [r["test_voltage_v"] for r in data["row"]] == [250, 500, 1000]
+
+
+def test_type_s_rcd_windows():
+    # IEC 61008-1 Table 1: a type S waits at least its minimum and breaks within its maximum.
+    row = tables.load("rcd")["s"]
+    assert all(lo < hi for lo, hi in zip(row["min_time_s"], row["max_time_s"], strict=True))

@@ -6,7 +6,7 @@ import pytest
 
 from calc import InputError, device_curve, tables
 from calc.cli import limits
-from calc.devices import BEYOND_CURVE, NOT_OPERATING, fuse_gg, make_device, mcb
+from calc.devices import BELOW_CURVE, BEYOND_CURVE, NOT_OPERATING, fuse_gg, make_device, mcb
 from calc.inputs import read_device
 
 U0, CMIN = 230.0, 0.95
@@ -111,8 +111,9 @@ def test_curve_device_interpolates_on_log_log_axes():
 
 
 def test_curve_device_is_never_extrapolated():
+    # A maker's chart says nothing outside its points, at either end.
     device = make_device(read_device({"kind": "curve", "points": [[100, 10], [1000, 0.1]]}))
-    assert device.time_at(99).status == NOT_OPERATING
+    assert device.time_at(99).status == BELOW_CURVE
     assert device.time_at(99).time_s is None
     assert device.time_at(1001).status == BEYOND_CURVE
     assert device.time_at(1001).time_s is None
@@ -165,3 +166,14 @@ def test_every_device_curve_in_the_data_is_monotonic(device):
     times = [model.time_at(i).time_s for i in currents]
     known = [t for t in times if t is not None]
     assert known == sorted(known, reverse=True)
+
+
+def test_gg_fuse_below_its_conventional_fusing_current_does_not_operate():
+    # IEC 60269-1 Table 2 (from memory): a 32 A gG fuse need not operate below 1.6 In = 51.2 A.
+    assert fuse_gg(32).time_at(50).status == NOT_OPERATING
+
+
+def test_rcbo_has_the_breaker_model():
+    # An RCBO's overcurrent part follows IEC 60898-1 (IEC 61009-1 refers to the same characteristics).
+    spec = read_device({"kind": "rcbo", "curve": "B", "rating": 32})
+    assert make_device(spec) == mcb("B", 32)

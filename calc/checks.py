@@ -1,0 +1,110 @@
+"""A check of the walk and its outcome: pass, fail, or not shown.
+
+*Not shown* means the evidence does not decide the check either way; the check then says what would
+(`needs`). A check carries the figure that decided it and the limit it was held against, so every
+surface (screen, PDF, CSV, JSON) shows the same judgement with the same numbers.
+"""
+
+from __future__ import annotations
+
+from typing import Any, NamedTuple
+
+PASS = "pass"
+FAIL = "fail"
+NOT_SHOWN = "not-shown"
+OUTCOMES = (PASS, FAIL, NOT_SHOWN)
+OUTCOME_WORDS = {PASS: "pass", FAIL: "fail", NOT_SHOWN: "not shown"}
+
+
+class Check(NamedTuple):
+    """One check: its outcome, the deciding figure against its limit, and why or what is needed."""
+
+    id: str
+    title: str
+    outcome: str
+    figure: float | None = None
+    limit: float | None = None
+    unit: str = ""
+    at_most: bool = True
+    """True: the figure must be at or below the limit (Zs, a time); False: at or above (a size)."""
+    why: str = ""
+    """One line a person reads: the figure against the limit, or what the evidence shows."""
+    needs: str = ""
+    """For a check not shown: what would decide it (a reading to enter, a difference to resolve)."""
+    source: str = ""
+    follows_from: str | None = None
+    """The id of the check whose failure this one follows from (its own outcome is then not shown)."""
+    current_a: float | None = None
+    time_s: float | None = None
+
+    @property
+    def ok(self) -> bool | None:
+        """True for pass, False for fail, None for not shown (the `*_ok` keys of the output)."""
+        return None if self.outcome == NOT_SHOWN else self.outcome == PASS
+
+    @property
+    def margin_pct(self) -> float | None:
+        """How far the figure sits inside its limit, in per cent of the limit (negative: beyond); None
+        for a check not shown, whose figure decides nothing."""
+        if self.outcome == NOT_SHOWN or self.figure is None or self.limit is None or self.limit <= 0:
+            return None
+        share = (self.limit - self.figure) if self.at_most else (self.figure - self.limit)
+        return 100.0 * share / self.limit
+
+    def to_dict(self) -> dict[str, Any]:
+        """The check as JSON-ready data."""
+        pct = self.margin_pct
+        return {
+            "id": self.id,
+            "title": self.title,
+            "outcome": self.outcome,
+            "ok": self.ok,
+            "figure": self.figure,
+            "limit": self.limit,
+            "unit": self.unit,
+            "relation": "≤" if self.at_most else "≥",
+            "margin_pct": None if pct is None else round(pct, 3),
+            "margin": margin_text(pct),
+            "why": self.why,
+            "needs": self.needs,
+            "source": self.source,
+            "follows_from": self.follows_from,
+            "current_a": self.current_a,
+            "time_s": self.time_s,
+        }
+
+
+def margin_text(pct: float | None) -> str:
+    """One wording for every margin: "12 % inside the limit", "30 % beyond the limit"."""
+    if pct is None:
+        return ""
+    size = abs(pct)
+    amount = "more than 1000" if size > 1000 else f"{size:.0f}" if size >= 1 else f"{size:.1f}"
+    return f"{amount} % {'inside' if pct >= 0 else 'beyond'} the limit"
+
+
+def judged(ok: bool) -> str:
+    """The outcome of a check the evidence decides."""
+    return PASS if ok else FAIL
+
+
+def overall(checks: tuple[Check, ...]) -> str:
+    """The circuit verdict: pass only when every check passes; fail when any fails on evidence;
+    otherwise not shown."""
+    outcomes = {check.outcome for check in checks}
+    if FAIL in outcomes:
+        return FAIL
+    if not checks or NOT_SHOWN in outcomes:
+        return NOT_SHOWN
+    return PASS
+
+
+def worse(first: Check, second: Check) -> Check:
+    """The check that weighs more against the circuit: fail, then not shown, then the smaller margin."""
+    rank = {FAIL: 0, NOT_SHOWN: 1, PASS: 2}
+    if rank[first.outcome] != rank[second.outcome]:
+        return first if rank[first.outcome] < rank[second.outcome] else second
+    a, b = first.margin_pct, second.margin_pct
+    if a is None:
+        return second if b is not None else first
+    return first if b is None or a <= b else second
