@@ -12,7 +12,7 @@ from __future__ import annotations
 import math
 from typing import NamedTuple
 
-from calc.checks import NOT_SHOWN, PASS, judged
+from calc.checks import NOT_SHOWN, PASS, Text, judged
 from calc.devices import OUTSIDE_DATA, OperatingTime
 from calc.formulas import adiabatic_energy_limit_a2s, adiabatic_withstand_time_s
 from calc.inputs import LetThrough
@@ -47,8 +47,8 @@ class Withstand(NamedTuple):
     limit: float | None
     unit: str
     at_most: bool
-    why: str
-    needs: str
+    why: Text
+    needs: Text
 
 
 def let_through_applies(let_through: LetThrough | None, current_a: float) -> bool:
@@ -87,8 +87,8 @@ def withstand(
         limit: float | None,
         unit: str,
         at_most: bool,
-        why: str,
-        needs: str = "",
+        why: Text,
+        needs: Text = "",
     ) -> Withstand:
         return Withstand(
             outcome, mode, current_a, clearing, withstand_s, energy, figure, limit, unit, at_most, why, needs
@@ -104,7 +104,7 @@ def withstand(
                 "s",
                 False,
                 op.note,
-                f"add points around {fmt(current_a)} A from the maker's chart",
+                lambda: f"add points around {fmt(current_a)} A from the maker's chart",
             )
         return make(
             NOT_SHOWN,
@@ -113,7 +113,7 @@ def withstand(
             None,
             "s",
             False,
-            f"the device is not known to operate at {fmt(current_a)} A",
+            lambda: f"the device is not known to operate at {fmt(current_a)} A",
         )
     if clearing > MAX_TIME_S + _EPS:
         return make(
@@ -123,8 +123,10 @@ def withstand(
             None,
             "s",
             False,
-            f"the device is only certain to clear {fmt(current_a)} A within {fmt(clearing)} s, beyond "
-            f"the adiabatic method's {fmt(MAX_TIME_S)} s (IEC 60364-4-43 434.5.2)",
+            lambda: (
+                f"the device is only certain to clear {fmt(current_a)} A within {fmt(clearing or 0.0)} s, "
+                f"beyond the adiabatic method's {fmt(MAX_TIME_S)} s (IEC 60364-4-43 434.5.2)"
+            ),
             "a lower loop impedance, or the maker's curve showing a faster time",
         )
     if clearing > MIN_TIME_S + _EPS:
@@ -136,7 +138,10 @@ def withstand(
             clearing,
             "s",
             False,
-            f"withstands {fmt(withstand_s)} s {'≥' if ok else '<'} cleared within {fmt(clearing)} s",
+            lambda: (
+                f"withstands {fmt(withstand_s)} s {'≥' if ok else '<'} cleared within "
+                f"{fmt(clearing or 0.0)} s"
+            ),
         )
     if withstand_s + _EPS >= MIN_TIME_S:
         return make(
@@ -146,7 +151,7 @@ def withstand(
             MIN_TIME_S,
             "s",
             False,
-            f"withstands {fmt(withstand_s)} s ≥ 0.1 s, and the device clears within 0.1 s",
+            lambda: f"withstands {fmt(withstand_s)} s ≥ 0.1 s, and the device clears within 0.1 s",
         )
     if let_through is not None and let_through_applies(let_through, current_a):
         ok = let_through.energy_a2s <= energy
@@ -157,8 +162,10 @@ def withstand(
             energy,
             "A²s",
             True,
-            f"let-through {fmt(let_through.energy_a2s)} A²s (stated at "
-            f"{fmt(let_through.at_current_a or 0.0)} A) {'≤' if ok else '>'} k²S² {fmt(energy)} A²s",
+            lambda: (
+                f"let-through {fmt(let_through.energy_a2s)} A²s (stated at "
+                f"{fmt(let_through.at_current_a or 0.0)} A) {'≤' if ok else '>'} k²S² {fmt(energy)} A²s"
+            ),
         )
     return make(
         NOT_SHOWN,
@@ -167,8 +174,8 @@ def withstand(
         MIN_TIME_S,
         "s",
         False,
-        f"withstands {fmt(withstand_s)} s < 0.1 s: the bound proves nothing below 0.1 s",
-        let_through_needs(let_through, current_a),
+        lambda: f"withstands {fmt(withstand_s)} s < 0.1 s: the bound proves nothing below 0.1 s",
+        lambda: let_through_needs(let_through, current_a),
     )
 
 

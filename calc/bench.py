@@ -12,24 +12,38 @@ from collections.abc import Callable
 from calc import assess
 
 NUMBERS = {
-    "supply": {"system": "TN-C-S", "u0": 230, "cmin": 0.95, "ze": 0.35},
+    "supply": {"system": "TN-C-S", "u0": 230, "cmin": 0.95, "ze": 0.35, "pfc": 800},
     "circuit": {
         "role": "final",
-        "device": {"kind": "mcb", "curve": "B", "rating": 32},
+        "device": {"kind": "mcb", "curve": "B", "rating": 32, "breaking_capacity": 6000},
         "line": {"csa": 2.5, "material": "copper", "insulation": "thermoplastic-70"},
         "cpc": {"csa": 1.5, "material": "copper", "arrangement": "in-cable"},
     },
-    "measured": {"zs": 0.62, "zsc": 0.41, "r1r2": 0.3, "test_temp_c": 20},
+    "measured": {
+        "zs": 0.62,
+        "zsc": 0.41,
+        "r1r2": 0.3,
+        "test_temp_c": 20,
+        "insulation": {"test_voltage": 500, "line_line": 200, "line_earth": 150},
+        "polarity": True,
+    },
 }
 STRINGS = {
-    "supply": {"system": "TN-C-S", "u0": "230 V", "cmin": "0.95", "ze": "350 mΩ"},
+    "supply": {"system": "TN-C-S", "u0": "230 V", "cmin": "0.95", "ze": "350 mΩ", "pfc": "0.8 kA"},
     "circuit": {
         "role": "final",
-        "device": {"kind": "mcb", "curve": "B", "rating": "32 A"},
+        "device": {"kind": "mcb", "curve": "B", "rating": "32 A", "breaking_capacity": "6 kA"},
         "line": {"csa": "2.5mm2", "material": "copper", "insulation": "thermoplastic-70"},
         "cpc": {"csa": "1.5 mm²", "material": "copper", "arrangement": "in-cable"},
     },
-    "measured": {"zs": "620 mΩ", "zsc": "0.41 ohm", "r1r2": "0.3 Ω", "test_temp_c": "20 °C"},
+    "measured": {
+        "zs": "620 mΩ",
+        "zsc": "0.41 ohm",
+        "r1r2": "0.3 Ω",
+        "test_temp_c": "20 °C",
+        "insulation": {"test_voltage": "500 V", "line_line": ">999", "line_earth": "150 MΩ"},
+        "polarity": True,
+    },
 }
 
 

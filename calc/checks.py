@@ -7,7 +7,8 @@ surface (screen, PDF, CSV, JSON) shows the same judgement with the same numbers.
 
 from __future__ import annotations
 
-from typing import Any, NamedTuple
+from collections.abc import Callable
+from typing import Any
 
 PASS = "pass"
 FAIL = "fail"
@@ -16,26 +17,80 @@ OUTCOMES = (PASS, FAIL, NOT_SHOWN)
 OUTCOME_WORDS = {PASS: "pass", FAIL: "fail", NOT_SHOWN: "not shown"}
 
 
-class Check(NamedTuple):
+Text = str | Callable[[], str]
+"""A sentence, or a function that writes it when first read (the walk decides every outcome first and
+writes the words only for what someone reads)."""
+
+
+def text(value: Text) -> str:
+    """The sentence of a `Text`."""
+    return value if isinstance(value, str) else value()
+
+
+class Check:
     """One check: its outcome, the deciding figure against its limit, and why or what is needed."""
 
-    id: str
-    title: str
-    outcome: str
-    figure: float | None = None
-    limit: float | None = None
-    unit: str = ""
-    at_most: bool = True
-    """True: the figure must be at or below the limit (Zs, a time); False: at or above (a size)."""
-    why: str = ""
-    """One line a person reads: the figure against the limit, or what the evidence shows."""
-    needs: str = ""
-    """For a check not shown: what would decide it (a reading to enter, a difference to resolve)."""
-    source: str = ""
-    follows_from: str | None = None
-    """The id of the check whose failure this one follows from (its own outcome is then not shown)."""
-    current_a: float | None = None
-    time_s: float | None = None
+    __slots__ = (
+        "id",
+        "title",
+        "outcome",
+        "figure",
+        "limit",
+        "unit",
+        "at_most",
+        "_why",
+        "_needs",
+        "source",
+        "follows_from",
+        "current_a",
+        "time_s",
+    )
+
+    def __init__(
+        self,
+        id: str,
+        title: str,
+        outcome: str,
+        figure: float | None = None,
+        limit: float | None = None,
+        unit: str = "",
+        at_most: bool = True,
+        why: Text = "",
+        needs: Text = "",
+        source: str = "",
+        follows_from: str | None = None,
+        current_a: float | None = None,
+        time_s: float | None = None,
+    ) -> None:
+        self.id = id
+        self.title = title
+        self.outcome = outcome
+        self.figure = figure
+        self.limit = limit
+        self.unit = unit
+        self.at_most = at_most
+        """True: the figure must be at or below the limit (Zs, a time); False: at or above (a size)."""
+        self._why = why
+        self._needs = needs
+        self.source = source
+        self.follows_from = follows_from
+        """The id of the check whose failure this one follows from (its own outcome is then not shown)."""
+        self.current_a = current_a
+        self.time_s = time_s
+
+    @property
+    def why(self) -> str:
+        """One line a person reads: the figure against the limit, or what the evidence shows."""
+        if not isinstance(self._why, str):
+            self._why = self._why()
+        return self._why
+
+    @property
+    def needs(self) -> str:
+        """For a check not shown: what would decide it (a reading to enter, a difference to resolve)."""
+        if not isinstance(self._needs, str):
+            self._needs = self._needs()
+        return self._needs
 
     @property
     def ok(self) -> bool | None:
@@ -50,6 +105,9 @@ class Check(NamedTuple):
             return None
         share = (self.limit - self.figure) if self.at_most else (self.figure - self.limit)
         return 100.0 * share / self.limit
+
+    def __repr__(self) -> str:
+        return f"Check({self.id!r}, {self.outcome!r}, figure={self.figure!r}, limit={self.limit!r})"
 
     def to_dict(self) -> dict[str, Any]:
         """The check as JSON-ready data."""

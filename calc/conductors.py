@@ -9,7 +9,7 @@ from typing import NamedTuple
 
 from calc import labels, tables
 from calc.adiabatic import OUTSIDE, Withstand, min_csa_mm2, withstand
-from calc.checks import FAIL, NOT_SHOWN, PASS, Check, judged, worse
+from calc.checks import FAIL, NOT_SHOWN, PASS, Check, judged, text, worse
 from calc.devices import Device, OperatingTime
 from calc.errors import InputError
 from calc.formulas import proportional_cpc_csa_mm2
@@ -95,7 +95,10 @@ def _case_check(check_id: str, title: str, case: FaultCase, result: Withstand, f
     follows_from = None
     if result.mode == OUTSIDE and follows is not None:
         follows_from, needs = follows, "follows from the disconnection failure"
-    why = f"{case.name}, {fmt(case.current_a)} A cleared by the {case.by}: {result.why}"
+
+    def why() -> str:
+        return f"{case.name}, {fmt(case.current_a)} A cleared by the {case.by}: {text(result.why)}"
+
     return Check(
         check_id,
         title,
@@ -389,16 +392,17 @@ def protective_conductor(
         )
     elif result.mode == OUTSIDE:
         follows = "disconnection" if disconnection_failed else None
+        outside = result
         fault = Check(
             "cpc",
             title,
             NOT_SHOWN,
-            s,
-            rule_min,
+            None,
+            None,
             "mm²",
             False,
-            f"below the proportion ({fmt(rule_min)} mm²); {result.why}",
-            "follows from the disconnection failure" if follows else result.needs,
+            lambda: f"below the proportion ({fmt(rule_min)} mm²); {text(outside.why)}",
+            "follows from the disconnection failure" if follows else outside.needs,
             CPC_SOURCE,
             follows,
             if_a,
@@ -407,9 +411,14 @@ def protective_conductor(
     else:
         limit = min_csa if min_csa is not None else rule_min
         needs = result.needs
-        why = f"at If = {fmt(if_a or 0.0)} A: {result.why}"
-        if result.outcome == FAIL and min_csa is not None:
-            why += f"; at least {fmt(min_csa)} mm² needed"
+        decided = result
+
+        def why() -> str:
+            words = f"at If = {fmt(if_a or 0.0)} A: {text(decided.why)}"
+            if decided.outcome == FAIL and min_csa is not None:
+                words += f"; at least {fmt(min_csa)} mm² needed"
+            return words
+
         fault = Check(
             "cpc",
             title,

@@ -226,7 +226,7 @@ def disconnection(
         judgement.figure,
         judgement.limit,
         "Ω",
-        why=_loop_why(judgement, lim, "Zs"),
+        why=lambda: _loop_why(judgement, lim, "Zs"),
         needs=(
             f"enter the test temperature to decide: Zs {fmt(zs)} Ω is within the {fmt(lim.ohm)} Ω "
             f"allowed but above 0.8 × {fmt(lim.ohm)} = {fmt(judgement.rule_ohm)} Ω"

@@ -1,3 +1,3 @@
 """The calculation core's version, recorded with every assessment."""
 
-__version__ = "0.1.0"
+__version__ = "0.2.0"
