@@ -16,7 +16,7 @@ from calc.checks import NOT_SHOWN, PASS, Text, judged
 from calc.devices import OUTSIDE_DATA, OperatingTime
 from calc.formulas import adiabatic_energy_limit_a2s, adiabatic_withstand_time_s
 from calc.inputs import LetThrough
-from calc.steps import fmt
+from calc.numbers import fmt
 
 MIN_TIME_S = 0.1
 MAX_TIME_S = 5.0

@@ -5,7 +5,8 @@ from __future__ import annotations
 
 from calc.checks import NOT_SHOWN, Check, judged
 from calc.inputs import CircuitInput
-from calc.steps import Step, StepThunk, fmt
+from calc.numbers import fmt
+from calc.steps import Step, StepThunk
 
 SOURCE = "IEC 60364-4-43 434.5.1"
 

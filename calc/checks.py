@@ -10,6 +10,8 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
+from calc.numbers import fmt
+
 PASS = "pass"
 FAIL = "fail"
 NOT_SHOWN = "not-shown"
@@ -106,6 +108,16 @@ class Check:
         share = (self.limit - self.figure) if self.at_most else (self.figure - self.limit)
         return 100.0 * share / self.limit
 
+    @property
+    def deciding(self) -> str:
+        """The deciding figure against its limit in words, "0.62 Ω against ≤ 1.093 Ω" (empty without
+        both); the one wording every surface prints."""
+        if self.figure is None or self.limit is None:
+            return ""
+        unit = f" {self.unit}" if self.unit else ""
+        relation = "≤" if self.at_most else "≥"
+        return f"{fmt(self.figure)}{unit} against {relation} {fmt(self.limit)}{unit}"
+
     def __repr__(self) -> str:
         return f"Check({self.id!r}, {self.outcome!r}, figure={self.figure!r}, limit={self.limit!r})"
 
@@ -123,6 +135,7 @@ class Check:
             "relation": "≤" if self.at_most else "≥",
             "margin_pct": None if pct is None else round(pct, 3),
             "margin": margin_text(pct),
+            "deciding": self.deciding,
             "why": self.why,
             "needs": self.needs,
             "source": self.source,

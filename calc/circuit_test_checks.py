@@ -15,7 +15,8 @@ from calc.circuit_tests import Bounded
 from calc.formulas import resistance_ratio
 from calc.inputs import CircuitInput, Conductor
 from calc.kvalues import beta_c
-from calc.steps import Step, StepThunk, fmt
+from calc.numbers import fmt
+from calc.steps import Step, StepThunk
 
 CONTINUITY_TOLERANCE_OHM = 0.05
 CONTINUITY_TOLERANCE_FRACTION = 0.20

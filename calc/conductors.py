@@ -15,7 +15,8 @@ from calc.errors import InputError
 from calc.formulas import proportional_cpc_csa_mm2
 from calc.inputs import CircuitInput
 from calc.kvalues import KValue, k_line, k_protective
-from calc.steps import INFO, Step, StepThunk, fmt
+from calc.numbers import fmt
+from calc.steps import INFO, Step, StepThunk
 
 SEPARATE_MIN_MM2 = {"copper": (2.5, 4.0), "aluminium": (16.0, 16.0)}
 """IEC 60364-5-54 543.1.3: a protective conductor not part of a cable, with / without mechanical

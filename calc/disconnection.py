@@ -13,7 +13,8 @@ from calc.formulas import max_loop_impedance_ohm, resistance_ratio, touch_voltag
 from calc.inputs import CircuitInput, Conductor
 from calc.kvalues import KValue, beta_c, operating_temperature_c
 from calc.limits import TimeLimit, rcd_multiple_for_time, touch_voltage_limit_v
-from calc.steps import Step, StepThunk, fmt
+from calc.numbers import fmt
+from calc.steps import Step, StepThunk
 from calc.walk import Loop
 
 RULE_OF_THUMB_FACTOR = 0.8

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 from calc.assessment import Assessment
 from calc.checks import OUTCOME_WORDS, margin_text
-from calc.steps import CAUTIONS, fmt
+from calc.numbers import fmt
+from calc.steps import CAUTIONS
 
 _MARK = {"pass": "PASS", "fail": "FAIL", "not-shown": "NOT SHOWN", "info": ""}
 

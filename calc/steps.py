@@ -55,15 +55,6 @@ StepThunk = Callable[[], "Step"]
 text only when someone reads the steps (the app, the PDF, the JSON), which keeps bulk checks fast."""
 
 
-def fmt(x: float) -> str:
-    """A number for people: four significant figures, no exponent for everyday magnitudes."""
-    if 1e-3 <= x < 1e4 or -1e4 < x <= -1e-3 or x == 0:
-        return f"{x:.4g}"
-    if x >= 1e4 or x <= -1e4:
-        return f"{x:.0f}"
-    return f"{x:.3g}"
-
-
 def verdict_of(ok: bool | None) -> str:
     """The step verdict for a check that passed, failed or could not be decided."""
     if ok is None:

@@ -7,7 +7,7 @@ from typing import Any, NamedTuple
 
 from calc.checks import FAIL, NOT_SHOWN, OUTCOME_WORDS, Check, overall
 from calc.inputs import CircuitInput
-from calc.steps import fmt
+from calc.numbers import fmt
 
 PRIORITY = (
     "polarity",

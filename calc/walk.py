@@ -10,7 +10,8 @@ from calc.devices import OUTSIDE_DATA, Device, OperatingTime
 from calc.formulas import fault_current_a, max_loop_impedance_ohm
 from calc.inputs import CircuitInput
 from calc.limits import TimeLimit, rcd_break_time_s
-from calc.steps import INFO, NOT_SHOWN, Step, StepThunk, fmt
+from calc.numbers import fmt
+from calc.steps import INFO, NOT_SHOWN, Step, StepThunk
 
 ZS_AGREEMENT_OHM = 0.05
 ZS_AGREEMENT_FRACTION = 0.10

@@ -50,6 +50,7 @@ CHECK_KEYS = {
     "follows_from",
     "current_a",
     "time_s",
+    "deciding",
 }
 
 

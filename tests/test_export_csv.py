@@ -105,14 +105,16 @@ def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> 
     assert first["Board"] == "DB-1" and first["Circuit"] == "1"
     assert float(first["Zs measured (Ω)"]) == pytest.approx(0.71)
     assert float(first["If (A)"]) == pytest.approx(230 * 0.95 / 0.71)
-    assert first["Verdict"] == "pass"
+    assert first["Disconnection: outcome"] == "pass"
+    assert first["Disconnection: deciding figure"].endswith("Ω")
+    assert first["Verdict"] == "not-shown" and first["Primary cause"]
     assert first["Updated by"] == "Rosa Quennell"
     submain = next(row for row in rows if row["Description"].startswith("Sub-main"))
     assert submain["Library device"].startswith("Workshop incomer 100 A")
     assert submain["Device"] == "curve" and submain["In (A)"] == "100.0"
     assert "competent person" in first["Cautions"]
     verdicts = {row["Verdict"] for row in rows}
-    assert {"pass", "fail", "incomplete"} <= verdicts
+    assert {"fail", "not-shown"} <= verdicts
 
 
 def test_milliohms_typed_are_written_in_ohms(store_job: tuple[Store, int]) -> None:

@@ -100,7 +100,7 @@ def test_readings_are_kept_as_typed_beside_their_values(store_job: tuple[Store, 
     assert odd["fields"]["zs"]["raw"] == "abc"
     assert odd["fields"]["zs"]["value"] is None and odd["fields"]["zs"]["error"]
     assert odd["fields"]["test_temp_c"] == {"raw": "-5 °C", "value": -5.0, "error": None}
-    assert odd["verdict"] == "incomplete"
+    assert odd["verdict"] == "not-shown"
     first = doc["boards"][0]["circuits"][1]
     assert first["fields"]["zs"] == {"raw": "710 mΩ", "value": 0.71, "error": None}
     steps = first["assessment"]["steps"]

@@ -20,6 +20,7 @@ from mobile_app.store import (
     UnknownFieldError,
 )
 from mobile_app.store.core import Core, default_data_dir
+from mobile_app.store.schema import SCHEMA_VERSION
 from mobile_app.store.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
 from mobile_app.store.errors import InvalidValueError
 from mobile_app.store.library import Library
@@ -65,7 +66,7 @@ def test_open_sets_wal_foreign_keys_and_schema_version(store: Store, tmp_path: P
     assert store.path == tmp_path / "boardside.sqlite"
     assert conn.execute("PRAGMA journal_mode").fetchone() == ("wal",)
     assert conn.execute("PRAGMA foreign_keys").fetchone() == (1,)
-    assert conn.execute("PRAGMA user_version").fetchone() == (4,)
+    assert conn.execute("PRAGMA user_version").fetchone() == (SCHEMA_VERSION,)
     assert store.recovered is None and store.backup_path is None
 
 
@@ -105,7 +106,9 @@ def test_circuit_save_reassesses_and_bumps_the_version(store: Store) -> None:
     circuit_id = make_circuit(store)
     circuit = store.circuits.get(circuit_id)
     assert set(circuit["fields"]) == set(CIRCUIT_FIELDS)
-    assert circuit["verdict"] == "pass"
+    checks = {c["id"]: c["outcome"] for c in circuit["assessment"]["checks"]}
+    assert checks["disconnection"] == "pass"
+    assert circuit["verdict"] == "not-shown"  # polarity and insulation are not recorded here
     assert circuit["assessment"]["earth_fault_current_a"] == pytest.approx(230 * 0.95 / 0.62)
     assert circuit["calc_version"]
     saved = store.circuits.set_field(circuit_id, "zs", "1.9 Ω", expected_version=circuit["version"])
@@ -119,10 +122,10 @@ def test_circuit_save_reassesses_and_bumps_the_version(store: Store) -> None:
     }
 
 
-def test_an_invalid_reading_is_kept_and_makes_the_circuit_incomplete(store: Store) -> None:
+def test_an_invalid_reading_is_kept_and_leaves_the_circuit_not_shown(store: Store) -> None:
     circuit_id = make_circuit(store)
     saved = store.circuits.set_field(circuit_id, "zs", "0.6.2")
-    assert saved["verdict"] == "incomplete" and saved["error"]
+    assert saved["verdict"] == "not-shown" and saved["error"]
     circuit = store.circuits.get(circuit_id)
     assert circuit["fields"]["zs"] == {"raw": "0.6.2", "value": None, "error": saved["error"]}
     assert circuit["assessment"] is None
@@ -182,7 +185,7 @@ def test_a_new_circuit_copies_device_and_cables_but_not_readings(store: Store) -
     assert second["fields"]["device_rating"]["raw"] == "32"
     assert second["fields"]["cpc_csa"]["raw"] == "1.5"
     assert second["fields"]["zs"]["raw"] == ""
-    assert second["verdict"] == "incomplete"
+    assert second["verdict"] == "not-shown"
     assert [c["number"] for c in store.circuits.of_board(board_id)] == ["1", "2"]
 
 
@@ -194,7 +197,7 @@ def test_list_jobs_counts_verdicts_and_searches(store: Store) -> None:
     store.circuits.set_field(failing, "zs", "5")
     other = store.jobs.create({"client_ref": "100%_sure", "site_address": "Quay"})
     (row,) = store.jobs.all("T-1")
-    assert (row["circuits"], row["failing"], row["incomplete"]) == (3, 1, 1)
+    assert (row["circuits"], row["failing"], row["not_shown"]) == (3, 1, 2)
     assert [j["id"] for j in store.jobs.all("%_")] == [other]
     assert [j["id"] for j in store.jobs.all("quay")] == [other]
     assert len(store.jobs.all()) == 2
@@ -274,11 +277,11 @@ def test_people_never_show_the_pin_hash(store: Store) -> None:
         store.people.add("Bo", "boss")
 
 
-def test_demo_job_has_mixed_devices_failures_and_one_incomplete(store: Store) -> None:
+def test_demo_job_has_mixed_devices_and_failures(store: Store) -> None:
     job_id = create_demo_job(store)
     (row,) = store.jobs.all()
     assert row["id"] == job_id and row["circuits"] >= 20
-    assert row["failing"] >= 3 and row["incomplete"] == 1
+    assert row["failing"] >= 3 and row["not_shown"] >= 1
     circuits = [
         store.circuits.get(c["id"])
         for b in store.boards.of_job(job_id)

@@ -162,7 +162,7 @@ def test_status_filter(store) -> None:
 def test_review_summary_counts(store) -> None:
     job_id = ensure_demo(store)
     summary = ReviewState(store, job_id).summary()
-    assert summary.startswith("22 circuits · ") and "failing" in summary and "incomplete" in summary
+    assert summary.startswith("22 circuits · ") and "failing" in summary and "not shown" in summary
 
 
 def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) -> None:
@@ -201,6 +201,6 @@ def test_changing_the_final_circuit_scope_reassesses_draft_jobs(tmp_path) -> Non
             store.circuits.set_field(circuit, name, raw)
         settings = SettingsState(store)
         settings.set("final_circuit_max_a", "32")
-        assert store.circuits.get(circuit)["verdict"] == "pass"
+        assert store.circuits.get(circuit)["assessment"]["disconnection_ok"] is True
         settings.set("final_circuit_max_a", "63")
         assert store.circuits.get(circuit)["verdict"] == "fail"

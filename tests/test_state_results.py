@@ -25,40 +25,55 @@ def walk(tmp_path: Path):
         yield walk
 
 
-def test_incomplete_without_zs(walk: Walk) -> None:
+def test_not_shown_without_zs(walk: Walk) -> None:
     panel = walk.results()
-    assert panel.verdict == "incomplete"
-    assert panel.mark.word == "INCOMPLETE"
+    assert panel.verdict == "not-shown"
+    assert panel.mark.word == "NOT SHOWN"
     assert panel.cautions == CAUTIONS
+    disconnection = next(row for row in panel.checks if row.id == "disconnection")
+    assert disconnection.needs == "measure Zs, or Ze and R1+R2"
 
 
-def test_pass_lists_cards_in_walk_order_with_working(walk: Walk) -> None:
+def test_cards_in_walk_order_with_working(walk: Walk) -> None:
     walk.set_field("zs", "0.62")
     panel = walk.results()
-    assert panel.verdict == "pass"
-    assert panel.headline == "All checks pass"
     ids = [card.id for card in panel.cards]
     assert ids[:3] == ["supply", "zs", "earth-fault-current"]
     assert ids[-1] == "verdict"
-    assert all(card.mark.word for card in panel.cards)
+    assert all(card.mark.word for card in panel.cards if card.verdict != "info")
+    assert all(not card.mark.word for card in panel.cards if card.verdict == "info")
     assert any("0.62" in card.working for card in panel.cards)
     assert len(panel.cautions) == 3
 
 
-def test_margins_name_limits(walk: Walk) -> None:
+def test_each_check_shows_the_figure_that_decided_it(walk: Walk) -> None:
+    # B32: Zs max 1.366 Ω (IEC 60898-1, 0.4 s, Cmin 0.95); with no test temperature the 0.8 figure
+    # (published guidance) shows the pass: 0.62 Ω against ≤ 1.093 Ω.
     walk.set_field("zs", "0.62")
-    margins = {m.label: m for m in walk.results().margins}
-    zs = margins["Zs against its maximum"]
-    assert zs.ok and zs.actual == "0.62 Ω" and zs.limit == "1.37 Ω"  # B32 1.37 Ω: REFERENCE.md (IEC 60898-1)
-    assert zs.text == "55 % inside the limit"
+    row = next(r for r in walk.results().checks if r.id == "disconnection")
+    assert row.outcome == "pass" and row.mark.word == "PASS"
+    assert row.figure == "0.62 Ω against ≤ 1.093 Ω"
+    assert row.margin == "43 % inside the limit"
 
 
-def test_fail_when_zs_too_high(walk: Walk) -> None:
+def test_a_fail_names_its_cause_and_no_check_is_ticked_beside_it(walk: Walk) -> None:
     walk.set_field("zs", "2.0")
     panel = walk.results()
     assert panel.verdict == "fail"
     assert panel.mark.word == "FAIL"
-    assert not {m.label: m for m in panel.margins}["Zs against its maximum"].ok
+    assert panel.headline.startswith("Fails: Disconnection: Zs 2 Ω is above the 1.366 Ω allowed")
+    assert panel.cause is not None and panel.cause.remedies
+    row = next(r for r in panel.checks if r.id == "disconnection")
+    assert row.mark.word == "FAIL" and row.margin.endswith("beyond the limit")
+
+
+def test_an_open_check_reads_not_shown_with_what_would_decide_it(walk: Walk) -> None:
+    # C-type question from the field: 1.2 Ω on a B32 is within 1.366 Ω but above 0.8 × 1.366 Ω.
+    walk.set_field("zs", "1.2")
+    row = next(r for r in walk.results().checks if r.id == "disconnection")
+    assert row.mark.word == "NOT SHOWN"
+    assert row.needs.startswith("enter the test temperature to decide")
+    assert row.margin == ""
 
 
 def test_chart_has_every_line_on_log_axes(walk: Walk) -> None:
@@ -85,7 +100,8 @@ def test_withstand_line_is_k2s2_over_i2() -> None:
 
 def test_marks_have_words_not_colour_alone() -> None:
     assert verdict_mark("pass").word == "PASS" and verdict_mark("fail").icon == "CANCEL"
-    assert verdict_mark(None).word == "INCOMPLETE"
+    assert verdict_mark(None).word == "NOT SHOWN"
+    assert verdict_mark("incomplete").word == "NOT SHOWN"  # saved by calc 0.1
 
 
 def test_quantity_format() -> None:
@@ -95,44 +111,9 @@ def test_quantity_format() -> None:
     assert format_quantity(None, "s") == "—"
 
 
-def test_far_beyond_a_limit_reads_as_a_multiple() -> None:
-    from mobile_app.state.results import margins_of
-
-    (margin,) = margins_of({"device_time_s": 60.0, "max_disconnection_time_s": 0.4})
-    assert margin.text == "150.0 × the limit" and not margin.ok
-
-
-def test_headline_names_the_checks_that_fail() -> None:
+def test_headline_is_the_primary_cause() -> None:
     from mobile_app.state.results import headline
 
-    assert headline("pass", []) == "All checks pass"
-    assert headline("fail", ["disconnection: fail", "protective conductor: fail"]) == (
-        "At least one check fails: disconnection, protective conductor"
-    )
-    assert headline("incomplete", ["line conductor: not decided"]) == (
-        "Not enough to decide yet: line conductor"
-    )
-
-
-def test_margins_follow_what_decides_the_verdict() -> None:
-    # An RCD clearing in 0.04 s decides disconnection, not the breaker's 60 s; a CPC that meets the
-    # proportional rule (IEC 60364-5-54 Table 54.2) is measured against it, not the adiabatic size.
-    from mobile_app.state.results import margins_of
-
-    margins = {
-        m.label: m
-        for m in margins_of(
-            {
-                "device_time_s": 60.0,
-                "disconnection_time_s": 0.04,
-                "max_disconnection_time_s": 0.2,
-                "cpc_by_proportional_rule": True,
-                "cpc_adiabatic_ok": False,
-                "cpc_proportional_min_mm2": 2.5,
-                "cpc_min_csa_mm2": 15.8,
-                "inputs": {"circuit": {"cpc": {"csa": 2.5}}},
-            }
-        )
-    }
-    assert margins["Disconnection time"].ok
-    assert margins["CPC size against the proportional rule"].ok
+    assert headline("pass", None) == "Every check passes"
+    assert headline("fail", {"text": "Disconnection: Zs too high"}) == "Fails: Disconnection: Zs too high"
+    assert headline("not-shown", {"text": "Polarity: not recorded"}) == "Not shown yet: Polarity: not recorded"

@@ -10,15 +10,10 @@ from mobile_app.state.results import StepCard
 
 def step_card(card: StepCard) -> ft.Card:
     """Card of one step in walk order."""
-    lines: list[ft.Control] = [
-        ft.Row(
-            [
-                ft.Text(card.title, size=16, weight=ft.FontWeight.BOLD, expand=True),
-                verdict_badge(card.mark, size=13),
-            ],
-            vertical_alignment=ft.CrossAxisAlignment.START,
-        ),
-    ]
+    top: list[ft.Control] = [ft.Text(card.title, size=16, weight=ft.FontWeight.BOLD, expand=True)]
+    if card.mark.word:  # a step that only works out a figure carries no mark
+        top.append(verdict_badge(card.mark, size=13))
+    lines: list[ft.Control] = [ft.Row(top, vertical_alignment=ft.CrossAxisAlignment.START)]
     if card.formula:
         lines.append(ft.Text(card.formula, size=15, font_family="monospace"))
     if card.working:

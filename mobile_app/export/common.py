@@ -14,17 +14,19 @@ from calc import CAUTIONS
 from mobile_app.store.errors import StoreError
 
 __all__ = [
-    "CAUTIONS", "BundleCheckError", "BundleExistsError", "ExportError", "field_text", "format_number",
-    "format_value", "person_label", "verdict_label",
+    "CAUTIONS", "BundleCheckError", "BundleExistsError", "ExportError", "check_line", "field_text",
+    "format_number", "format_value", "person_label", "verdict_label",
 ]
 
 VERDICT_LABELS: dict[str, str] = {
     "pass": "PASS",
     "fail": "FAIL",
-    "incomplete": "INCOMPLETE",
-    "check": "CHECK",
-    "info": "INFO",
+    "not-shown": "NOT SHOWN",
+    "incomplete": "NOT SHOWN",
+    "check": "NOT SHOWN",
+    "info": "",
 }
+"""Printed words of the outcomes (calc 0.1's "incomplete" and "check" read as not shown)."""
 
 
 class ExportError(StoreError):
@@ -116,3 +118,17 @@ def field_text(fields: dict[str, Any], name: str) -> str:
         return str(raw)
     value = field.get("value")
     return "" if value is None else str(value)
+
+
+def check_line(check: dict[str, Any]) -> str:
+    """A check as one printed line: mark, title, the deciding figure with its margin, why, and what
+    would decide it — the same words the screen shows."""
+    parts = [f"{verdict_label(check.get('outcome'))} {check.get('title', '')}"]
+    if check.get("deciding"):
+        margin = f" ({check['margin']})" if check.get("margin") else ""
+        parts.append(f"{check['deciding']}{margin}")
+    if check.get("why"):
+        parts.append(str(check["why"]))
+    if check.get("needs"):
+        parts.append(f"to decide: {check['needs']}")
+    return " — ".join(parts)

@@ -45,6 +45,24 @@ _INPUT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("Test temperature (°C)", "test_temp_c"),
 )
 
+CHECK_TITLES: tuple[tuple[str, str], ...] = (
+    ("disconnection", "Disconnection"),
+    ("earth-path", "Own earth path"),
+    ("touch-voltage", "Touch voltage"),
+    ("breaking-capacity", "Breaking capacity"),
+    ("line-withstand-max", "Line at largest fault current"),
+    ("line-withstand-min", "Line at smallest fault current"),
+    ("cpc", "Protective conductor"),
+    ("cpc-minimum-size", "Separate CPC size"),
+    ("insulation", "Insulation"),
+    ("continuity", "Continuity"),
+    ("ring", "Ring"),
+    ("polarity", "Polarity"),
+    ("rcd-time", "RCD time"),
+    ("rcd-button", "RCD button"),
+)
+"""Every check calc makes, in walk order: three columns each (outcome, deciding figure, margin)."""
+
 # (header with unit, assessment key)
 _RESULT_COLUMNS: tuple[tuple[str, str], ...] = (
     ("Zs used (Ω)", "zs_ohm"),
@@ -153,6 +171,15 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
     def result(key: str) -> Callable[[Row, Circuit], Any]:
         return lambda _context, circuit: (circuit.get("assessment") or {}).get(key)
 
+    def check_field(check_id: str, key: str) -> Callable[[Row, Circuit], Any]:
+        def fill(_context: Row, circuit: Circuit) -> Any:
+            for check in (circuit.get("assessment") or {}).get("checks") or ():
+                if isinstance(check, dict) and check.get("id") == check_id:
+                    return check.get(key) or None
+            return None
+
+        return fill
+
     columns: list[tuple[str, Callable[[Row, Circuit], Any]]] = [
         ("Job", job_key("job_id")),
         ("Client reference", job_key("client_ref")),
@@ -164,7 +191,15 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
     ]
     columns += [(header, input_field(name)) for header, name in _INPUT_COLUMNS]
     columns += [(header, result(key)) for header, key in _RESULT_COLUMNS]
+    for check_id, title in CHECK_TITLES:
+        columns += [
+            (f"{title}: outcome", check_field(check_id, "outcome")),
+            (f"{title}: deciding figure", check_field(check_id, "deciding")),
+            (f"{title}: margin", check_field(check_id, "margin")),
+        ]
     columns += [
+        ("Primary cause", lambda _context, circuit: ((circuit.get("assessment") or {}).get("primary_cause")
+                                                     or {}).get("text")),
         ("Verdict", lambda _context, circuit: circuit.get("verdict")),
         ("Calc version", lambda _context, circuit: circuit.get("calc_version")),
         ("Updated at", lambda _context, circuit: circuit.get("updated_at")),

@@ -97,16 +97,24 @@ Every reading and setting is kept exactly as typed beside what it means:
   `rcd_idn` (A), `rcd_type` (`general` or `s`), `line_csa` (mm²), `line_material`, `line_insulation`,
   `cpc_csa` (mm²), `cpc_material`, `cpc_arrangement` (`in-cable`, `separate` or `armour`), `zs` (Ω),
   `zsc` (Ω), `r1r2` (Ω), `ze` (Ω), `test_temp_c` (°C).
-- `verdict`: `pass`, `fail` or `incomplete` (`null` before the first assessment).
+- `verdict`: `pass`, `fail` or `not-shown` (`null` before the first assessment; exports of calc 0.1 wrote
+  `incomplete`, read on import as `not-shown`).
 - `assessment`: the calculation core's output (below), or `null`.
 - `calc_version`: version of the calculation core that made this assessment.
-- `assessment_error`: why the core could not assess the circuit (verdict `incomplete`), else `null`.
+- `assessment_error`: why the core could not assess the circuit (verdict `not-shown`), else `null`.
 - `updated_at`, `updated_by`: when the circuit last changed, and the id of the person who changed it
   (their name and role are in `people`).
 
 ### `assessment`
 The calculation core's output as it made it; a value's name carries its unit:
-- `verdict`, `reasons`: the overall verdict and the checks that decided it (`"disconnection: fail"`).
+- `verdict`, `reasons`: the overall verdict (`pass` only when every check passes, `fail` when one fails
+  on evidence, else `not-shown`) and the checks that did not pass (`"Disconnection: fail"`).
+- `checks`: every check with its `outcome` (`pass`, `fail`, `not-shown`), `ok`, the deciding `figure`
+  and the `limit` it was held against with their `unit`, `relation` (`≤` or `≥`), `margin_pct`,
+  `margin` and `deciding` (the same words on every surface), `why`, `needs` (what would decide a check
+  not shown), `source`, `follows_from`, `current_a` and `time_s` (what the check used), `id` and `title`.
+- `primary_cause`: the one check to read first: `check`, `outcome`, `text`, `remedies`, `follows`.
+- `plausibility`: notes on valid but unusual readings.
 - `calc_version`, `inputs`: the core's version and the normalised inputs it worked from.
 - `device`: the protective device in short (`"B32"`).
 - `zs_ohm`, `zs_source`: the Zs used (Ω) and where it came from (`"measured"` or `"Ze + (R1+R2)"`).
@@ -116,9 +124,15 @@ The calculation core's output as it made it; a value's name carries its unit:
 - `rcd_time_s`, `disconnection_time_s`: the RCD's time, and the time that clears the fault (s).
 - `zs_max_ohm`: the largest Zs that still meets the allowed time (Ω);
   `zs_limit_at_test_temp_ohm`: that limit corrected to the test temperature (Ω);
-  `zs_rule_of_thumb_ohm`: 0.8 × Zs max (Ω, common practice); `zs_margin_ok`: Zs within it.
-- `disconnection_ok`, `line_withstand_ok`, `cpc_ok`, `cpc_adiabatic_ok`, `touch_voltage_ok`: each
-  check's outcome (`true`, `false` or `null` when it could not be made).
+  `zs_rule_of_thumb_ohm`: 0.8 × Zs max (Ω, published guidance, a sufficient check only);
+  `zs_margin_ok`: the reading meets the limit at operating temperature (`null` when not shown).
+- `disconnection_ok`, `earth_path_ok`, `breaking_capacity_ok`, `line_withstand_ok`,
+  `line_withstand_max_ok`, `line_withstand_min_ok`, `cpc_ok`, `cpc_adiabatic_ok`, `touch_voltage_ok`,
+  `insulation_ok`, `continuity_ok`, `ring_ok`, `polarity_ok`, `rcd_time_ok`, `rcd_button_ok`: each
+  check's outcome (`true`, `false`, or `null` when it is not shown).
+- `zs_limit_ohm` (the largest Zs the device or the RCD allows, Ω), `zs_at_operating_temp_ohm`,
+  `insulation_min_mohm` (MΩ), `expected_r1r2_ohm`, `ring_expected_r1r2_ohm` (Ω),
+  `rcd_time_limit_1x_s`, `rcd_time_limit_5x_s` (s): the figures of the newer checks.
 - `touch_voltage_v`: RA·IΔn for a TT circuit relying on an RCD (V).
 - `k_line`, `k_cpc`: k of the line and protective conductors (A·s½/mm²).
 - `line_withstand_time_s`: t = k²S²/I², how long the line conductor survives the fault (s).
@@ -127,7 +141,7 @@ The calculation core's output as it made it; a value's name carries its unit:
 - `cpc_min_csa_mm2`: S = √(I²t)/k, the smallest protective conductor that survives the fault (mm²).
 - `cautions`: the cautions, as the core gives them.
 - `steps`: the working in walk order, each with `id`, `title`, `formula`, `working` (the formula with
-  the numbers), `value`, `unit`, `verdict` (`pass`, `fail`, `incomplete`, `check` or `info`), `note`.
+  the numbers), `value`, `unit`, `verdict` (`pass`, `fail`, `not-shown` or `info`), `note`.
 
 Keys the core adds in a later version are kept as they are.
 

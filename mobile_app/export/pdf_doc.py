@@ -14,6 +14,7 @@ from fpdf import FPDF
 
 from mobile_app.export.common import (
     CAUTIONS,
+    check_line,
     field_text,
     format_value,
     person_label,
@@ -34,6 +35,7 @@ from mobile_app.export.pdf_layout import (
 _VERDICT_COLOURS: dict[str, tuple[int, int, int]] = {
     "pass": (20, 100, 40),
     "fail": (170, 20, 20),
+    "not-shown": (150, 90, 0),
     "incomplete": (150, 90, 0),
     "check": (150, 90, 0),
 }
@@ -166,7 +168,7 @@ def _job_header(pdf: FPDF, doc: dict[str, Any]) -> None:
     failed = sum(1 for c in circuits if c.get("verdict") == "fail")
     use_font(pdf, "B", 10)
     paragraph(pdf, 6, f"{len(circuits)} circuits: {passed} pass, {failed} fail, "
-                      f"{len(circuits) - passed - failed} incomplete or not assessed")
+                      f"{len(circuits) - passed - failed} not shown")
     use_font(pdf, "", 9)
 
 
@@ -249,9 +251,19 @@ def _working(pdf: FPDF, board: dict[str, Any], circuit: dict[str, Any]) -> None:
     paragraph(pdf, 5, _one_line(f"Board {board.get('designation')} · circuit "
                                 f"{circuit.get('number')}{description}"))
     pdf.set_text_color(*_VERDICT_COLOURS.get(verdict or "", BLACK))
-    paragraph(pdf, 5, f"Verdict: {verdict_label(verdict)}")
+    assessment = circuit.get("assessment") or {}
+    cause = assessment.get("primary_cause") or {}
+    paragraph(pdf, 5, f"Verdict: {verdict_label(verdict)}"
+              + (f" — {_one_line(cause.get('text'))}" if cause.get("text") else ""))
     pdf.set_text_color(*BLACK)
-    steps = (circuit.get("assessment") or {}).get("steps") or []
+    use_font(pdf, "", 8.5)
+    for remedy in cause.get("remedies") or ():
+        paragraph(pdf, 4, f"Remedy: {_one_line(remedy)}", indent_mm=4)
+    for check in assessment.get("checks") or ():
+        pdf.set_text_color(*_VERDICT_COLOURS.get(check.get("outcome") or "", BLACK))
+        paragraph(pdf, 4, _one_line(check_line(check)), indent_mm=4)
+    pdf.set_text_color(*BLACK)
+    steps = assessment.get("steps") or []
     use_font(pdf, "", 8.5)
     if not steps:
         reason = _one_line(circuit.get("assessment_error")) or "readings or circuit details are missing"

@@ -9,7 +9,7 @@ from mobile_app.state.chart import ChartModel, ChartSeries, chart_for
 from mobile_app.state.fields import STEPS, Choice, FieldSpec, specs_for_step
 from mobile_app.state.jobs import JobRow, JobScreen, JobsList
 from mobile_app.state.library import CurveDraft
-from mobile_app.state.results import Margin, ResultsPanel, StepCard, results_panel
+from mobile_app.state.results import Cause, CheckRow, ResultsPanel, StepCard, results_panel
 from mobile_app.state.review import ReviewState
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.text import CAUTIONS, format_quantity, verdict_mark
@@ -18,8 +18,10 @@ from mobile_app.state.walk import FieldView, Walk
 __all__ = [
     "CAUTIONS",
     "STEPS",
+    "Cause",
     "ChartModel",
     "ChartSeries",
+    "CheckRow",
     "Choice",
     "CurveDraft",
     "FieldSpec",
@@ -27,7 +29,6 @@ __all__ = [
     "JobRow",
     "JobScreen",
     "JobsList",
-    "Margin",
     "ResultsPanel",
     "ReviewState",
     "SettingsState",

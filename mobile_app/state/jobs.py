@@ -23,16 +23,16 @@ class JobRow:
     status_word: str
     circuits: int
     failing: int
-    incomplete: int
+    not_shown: int
 
     @property
     def summary(self) -> str:
-        """`8 circuits · 2 failing · 1 incomplete`."""
+        """`8 circuits · 2 failing · 1 not shown`."""
         parts = [f"{self.circuits} circuit" + ("" if self.circuits == 1 else "s")]
         if self.failing:
             parts.append(f"{self.failing} failing")
-        if self.incomplete:
-            parts.append(f"{self.incomplete} incomplete")
+        if self.not_shown:
+            parts.append(f"{self.not_shown} not shown")
         return " · ".join(parts)
 
 
@@ -63,7 +63,7 @@ class JobsList:
                 status_word=status_word(job.get("status")),
                 circuits=int(job.get("circuits") or 0),
                 failing=int(job.get("failing") or 0),
-                incomplete=int(job.get("incomplete") or 0),
+                not_shown=int(job.get("not_shown") or 0),
             )
             for job in self.store.jobs.all(self.search.strip())
         ]
@@ -189,7 +189,7 @@ class JobScreen:
                     id=int(c["id"]),
                     number=str(c.get("number") or ""),
                     description=str(c.get("description") or ""),
-                    verdict=c.get("verdict") or "incomplete",
+                    verdict=c.get("verdict") or "not-shown",
                     mark=verdict_mark(c.get("verdict")),
                 )
                 for c in self.store.circuits.of_board(board["id"])

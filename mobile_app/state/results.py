@@ -1,4 +1,5 @@
-"""The results panel: overall verdict, one card per calc step, margins, cautions and the picture."""
+"""The results panel: the verdict and its primary cause, every check with the figure that decided it,
+one card per calc step, cautions and the picture."""
 
 from __future__ import annotations
 
@@ -6,7 +7,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.state.chart import ChartModel, chart_for
-from mobile_app.state.text import CAUTIONS, VerdictMark, format_quantity, verdict_mark
+from mobile_app.state.text import CAUTIONS, OLD_WORDS, VerdictMark, format_quantity, verdict_mark
 
 
 @dataclass(frozen=True)
@@ -24,14 +25,29 @@ class StepCard:
 
 
 @dataclass(frozen=True)
-class Margin:
-    """How far a measured or computed figure sits from its limit."""
+class CheckRow:
+    """One check as shown: its mark, the figure that decided it against its limit, why, and what
+    would decide it when it is not shown. Every surface (screen, PDF, CSV, JSON) shows the same."""
 
-    label: str
-    actual: str
-    limit: str
+    id: str
+    title: str
+    outcome: str
+    mark: VerdictMark
+    why: str
+    figure: str
+    margin: str
+    needs: str
+    follows_from: str | None
+
+
+@dataclass(frozen=True)
+class Cause:
+    """The one thing to read first: what it found, the remedies, and the checks that follow from it."""
+
+    check: str
     text: str
-    ok: bool
+    remedies: tuple[str, ...]
+    follows: tuple[str, ...]
 
 
 @dataclass(frozen=True)
@@ -41,8 +57,10 @@ class ResultsPanel:
     verdict: str
     mark: VerdictMark
     headline: str
+    cause: Cause | None
+    checks: tuple[CheckRow, ...]
     cards: tuple[StepCard, ...]
-    margins: tuple[Margin, ...]
+    notes: tuple[str, ...]
     cautions: tuple[str, ...]
     chart: ChartModel | None
     problem: str | None
@@ -52,57 +70,25 @@ def _num(value: Any) -> float | None:
     return float(value) if isinstance(value, int | float) and not isinstance(value, bool) else None
 
 
-def _margin(label: str, actual: float | None, limit: float | None, unit: str, upper: bool) -> Margin | None:
-    """`upper`: the actual figure must stay at or below the limit (else at or above it)."""
-    if actual is None or limit is None or limit <= 0:
-        return None
-    share = (limit - actual) / limit if upper else (actual - limit) / limit
-    ok = share >= 0
-    if abs(share) > 1:
-        text = f"{actual / limit:.1f} × the limit"
-    else:
-        text = f"{abs(share) * 100:.0f} % {'inside' if ok else 'beyond'} the limit"
-    return Margin(
-        label=label,
-        actual=format_quantity(actual, unit),
-        limit=format_quantity(limit, unit),
-        text=text,
-        ok=ok,
-    )
-
-
-def margins_of(assessment: dict[str, Any]) -> tuple[Margin, ...]:
-    """Margins to each limit that the assessment has figures for, in walk order."""
-    inputs = assessment.get("inputs") or {}
-    measured = inputs.get("measured") or {}
-    cpc = (inputs.get("circuit") or {}).get("cpc") or {}
-    zs = _num(assessment.get("zs_ohm")) or _num(measured.get("zs"))
-    # The time that clears the fault: the device's, or an RCD's where that is faster.
-    clearing = _num(assessment.get("disconnection_time_s"))
-    if clearing is None:
-        clearing = _num(assessment.get("device_time_s"))
-    # The CPC passes by the adiabatic size or by proportion: measure against the one that is met.
-    by_rule_only = assessment.get("cpc_by_proportional_rule") and assessment.get("cpc_adiabatic_ok") is False
-    cpc_label, cpc_min = (
-        ("CPC size against the proportional rule", _num(assessment.get("cpc_proportional_min_mm2")))
-        if by_rule_only
-        else ("CPC size against the minimum", _num(assessment.get("cpc_min_csa_mm2")))
-    )
-    candidates = (
-        _margin("Zs against its maximum", zs, _num(assessment.get("zs_max_ohm")), "Ω", upper=True),
-        _margin(
-            "Disconnection time", clearing, _num(assessment.get("max_disconnection_time_s")), "s", upper=True
-        ),
-        _margin(
-            "Line withstand time against clearing time",
-            _num(assessment.get("line_withstand_time_s")),
-            _num(assessment.get("device_time_at_short_circuit_s")),
-            "s",
-            upper=False,
-        ),
-        _margin(cpc_label, _num(cpc.get("csa")), cpc_min, "mm²", upper=False),
-    )
-    return tuple(m for m in candidates if m is not None)
+def check_rows(assessment: dict[str, Any]) -> tuple[CheckRow, ...]:
+    """The checks of an assessment as rows, in walk order."""
+    rows = []
+    for check in assessment.get("checks") or ():
+        outcome = str(check.get("outcome") or "not-shown")
+        rows.append(
+            CheckRow(
+                id=str(check.get("id", "")),
+                title=str(check.get("title", "")),
+                outcome=outcome,
+                mark=verdict_mark(outcome),
+                why=str(check.get("why") or ""),
+                figure=str(check.get("deciding") or ""),
+                margin=str(check.get("margin") or ""),
+                needs=str(check.get("needs") or ""),
+                follows_from=check.get("follows_from"),
+            )
+        )
+    return tuple(rows)
 
 
 def _card(step: dict[str, Any]) -> StepCard:
@@ -110,7 +96,7 @@ def _card(step: dict[str, Any]) -> StepCard:
     result = format_quantity(value, step.get("unit") or "") if value is not None else str(
         step.get("value") or "—"
     )
-    verdict = step.get("verdict") or "info"
+    verdict = OLD_WORDS.get(str(step.get("verdict")), step.get("verdict") or "info")
     return StepCard(
         id=str(step.get("id", "")),
         title=str(step.get("title", "")),
@@ -124,31 +110,45 @@ def _card(step: dict[str, Any]) -> StepCard:
 
 
 _HEADLINES = {
-    "pass": "All checks pass",
-    "fail": "At least one check fails",
-    "incomplete": "Not enough to decide yet",
+    "pass": "Every check passes",
+    "fail": "Fails",
+    "not-shown": "Not shown yet",
 }
 
 
-def headline(verdict: str, reasons: Any) -> str:
-    """The sentence under the verdict, naming the checks that fail or are not decided
-    (calc's `reasons`, e.g. "disconnection: fail")."""
-    text = _HEADLINES.get(verdict, _HEADLINES["incomplete"])
-    names = [str(reason).split(":")[0] for reason in reasons if str(reason).strip()]
-    return f"{text}: {', '.join(names)}" if names and verdict != "pass" else text
+def headline(verdict: str, cause: dict[str, Any] | None) -> str:
+    """The sentence under the verdict: the one primary cause (calc's `primary_cause`) when there is one."""
+    word = _HEADLINES.get(verdict, _HEADLINES["not-shown"])
+    if verdict == "pass" or not cause:
+        return word
+    return f"{word}: {cause.get('text', '')}"
+
+
+def _cause(cause: dict[str, Any] | None) -> Cause | None:
+    if not cause:
+        return None
+    return Cause(
+        check=str(cause.get("check", "")),
+        text=str(cause.get("text", "")),
+        remedies=tuple(str(r) for r in cause.get("remedies") or ()),
+        follows=tuple(str(f) for f in cause.get("follows") or ()),
+    )
 
 
 def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> ResultsPanel:
-    """The panel for a circuit as the store returned it (`store.circuits.get`) and its calc input."""
+    """The panel for a circuit as the store returned it (`circuits.get`) and its calc input."""
     assessment = circuit.get("assessment") or {}
-    verdict = assessment.get("verdict") or circuit.get("verdict") or "incomplete"
+    said = str(assessment.get("verdict") or circuit.get("verdict") or "not-shown")
+    verdict = OLD_WORDS.get(said, said)
     device = (calc_input.get("circuit") or {}).get("device") or {}
     return ResultsPanel(
         verdict=verdict,
         mark=verdict_mark(verdict),
-        headline=headline(verdict, assessment.get("reasons") or ()),
+        headline=headline(verdict, assessment.get("primary_cause")),
+        cause=_cause(assessment.get("primary_cause")),
+        checks=check_rows(assessment),
         cards=tuple(_card(step) for step in assessment.get("steps") or ()),
-        margins=margins_of(assessment) if assessment else (),
+        notes=tuple(str(note) for note in assessment.get("plausibility") or ()),
         cautions=CAUTIONS,
         chart=chart_for(device, assessment) if device else None,
         problem=circuit.get("assessment_error"),

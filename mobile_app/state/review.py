@@ -35,13 +35,13 @@ class ReviewState:
         return status_word(self.status)
 
     def summary(self) -> str:
-        """What a reviewer looks at first: `22 circuits · 3 failing · 1 incomplete`."""
+        """What a reviewer looks at first: `22 circuits · 3 failing · 1 not shown`."""
         for job in self.store.jobs.all():
             if int(job["id"]) == self.job_id:
-                circuits, failing, incomplete = (int(job.get(k) or 0) for k in
-                                                 ("circuits", "failing", "incomplete"))
+                circuits, failing, not_shown = (int(job.get(k) or 0) for k in
+                                                ("circuits", "failing", "not_shown"))
                 parts = [f"{circuits} circuit" + ("" if circuits == 1 else "s"),
-                         f"{failing} failing", f"{incomplete} incomplete"]
+                         f"{failing} failing", f"{not_shown} not shown"]
                 return " · ".join(parts)
         return ""
 

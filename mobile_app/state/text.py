@@ -22,15 +22,17 @@ class VerdictMark:
 _MARKS: dict[str, VerdictMark] = {
     "pass": VerdictMark("PASS", "CHECK_CIRCLE", "good"),
     "fail": VerdictMark("FAIL", "CANCEL", "bad"),
-    "incomplete": VerdictMark("INCOMPLETE", "HOURGLASS_EMPTY", "unknown"),
-    "check": VerdictMark("CHECK", "WARNING_AMBER", "warn"),
-    "info": VerdictMark("INFO", "INFO_OUTLINE", "neutral"),
+    "not-shown": VerdictMark("NOT SHOWN", "HELP_OUTLINE", "unknown"),
+    "info": VerdictMark("", "", "neutral"),
 }
+OLD_WORDS = {"incomplete": "not-shown", "check": "not-shown"}
+"""Verdict words of assessments saved by calc 0.1, read as now."""
 
 
 def verdict_mark(verdict: str | None) -> VerdictMark:
-    """The word, icon and tone for a verdict; unknown or missing verdicts read as incomplete."""
-    return _MARKS.get(verdict or "incomplete", _MARKS["incomplete"])
+    """The word, icon and tone for an outcome; unknown or missing ones read as not shown."""
+    word = OLD_WORDS.get(verdict or "", verdict or "not-shown")
+    return _MARKS.get(word, _MARKS["not-shown"])
 
 
 _STATUS_WORDS = {

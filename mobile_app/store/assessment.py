@@ -11,6 +11,9 @@ from typing import Any
 
 import calc
 
+NOT_SHOWN = "not-shown"
+"""The verdict of a circuit whose evidence decides nothing (calc's third outcome)."""
+
 _LINE = (("csa", "line_csa"), ("material", "line_material"), ("insulation", "line_insulation"))
 _CPC = (("csa", "cpc_csa"), ("material", "cpc_material"), ("arrangement", "cpc_arrangement"))
 _MEASURED = ("zs", "zsc", "r1r2", "ze", "test_temp_c")
@@ -109,13 +112,14 @@ def invalid_fields(rows: dict[str, dict[str, Any]], names: dict[str, tuple[str, 
 
 
 def assess(data: dict[str, Any], invalid: list[str]) -> Outcome:
-    """Run `calc.assess` on `data`; an invalid entry or a calc input error gives "incomplete"."""
+    """Run `calc.assess` on `data`; an invalid entry or a calc input error leaves the circuit "not-shown"
+    (the evidence decides nothing), with the reason kept."""
     if invalid:
-        return Outcome("incomplete", None, None, "invalid entries: " + ", ".join(invalid))
+        return Outcome(NOT_SHOWN, None, None, "invalid entries: " + ", ".join(invalid))
     try:
         result = calc.assess(data).to_dict()
     except calc.CalcError as error:
-        return Outcome("incomplete", None, calc.__version__, str(error))
+        return Outcome(NOT_SHOWN, None, calc.__version__, str(error))
     return Outcome(
         result["verdict"],
         json.dumps(result, ensure_ascii=False, separators=(",", ":")),

@@ -7,6 +7,7 @@ import json
 import sqlite3
 from typing import Any
 
+import calc
 from mobile_app.store.assessment import Outcome, assess, build_calc_input, invalid_fields
 from mobile_app.store.core import Core, now_iso
 from mobile_app.store.fields import CIRCUIT_FIELDS, READING_FIELDS, SUPPLY_FIELDS
@@ -198,3 +199,20 @@ class Circuits:
         job = self.core.row("job", job_id)
         for board in self.core.query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
             self.reassess_board(conn, job, board)
+
+    def reassess_stale_drafts(self) -> int:
+        """Reassess the circuits of draft jobs last assessed by another calc version (after an update
+        of the app), one job per transaction with an audit entry; returns how many jobs. Submitted and
+        approved jobs keep the assessment they were reviewed with."""
+        rows = self.core.query(
+            "SELECT DISTINCT j.id FROM jobs j JOIN boards b ON b.job_id = j.id"
+            " JOIN circuits c ON c.board_id = b.id WHERE j.status = 'draft'"
+            " AND c.calc_version IS NOT NULL AND c.calc_version != ?",
+            (calc.__version__,),
+        )
+        for row in rows:
+            with self.core.write() as conn:
+                self.reassess_job(conn, row["id"])
+                self.core.audit(conn, row["id"], None, "job", row["id"], "assessment", None,
+                                f"reassessed by calc {calc.__version__}")
+        return len(rows)

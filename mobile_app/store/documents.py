@@ -23,7 +23,9 @@ from mobile_app.store.rows import parse, triples
 DOCUMENT_SCHEMA = "boardside-job"
 DOCUMENT_SCHEMA_VERSION = 1
 STATUSES = ("draft", "submitted", "approved")
-VERDICTS = ("pass", "fail", "incomplete")
+VERDICTS = ("pass", "fail", "not-shown")
+OLD_VERDICTS = {"incomplete": "not-shown"}
+"""Verdict words of older exports and what they read as now."""
 
 
 class Documents:
@@ -325,11 +327,18 @@ def _exported_outcome(circuit: dict[str, Any]) -> Outcome:
     if assessment is not None and not isinstance(assessment, dict):
         raise DocumentError("a circuit's assessment must be an object or null")
     return Outcome(
-        _choice(circuit.get("verdict") or "incomplete", "circuit.verdict", VERDICTS),
+        _choice(_verdict_word(circuit.get("verdict")), "circuit.verdict", VERDICTS),
         None if assessment is None else json.dumps(assessment, ensure_ascii=False, separators=(",", ":")),
         _text(circuit.get("calc_version"), "circuit.calc_version"),
         _text(circuit.get("assessment_error"), "circuit.assessment_error"),
     )
+
+
+def _verdict_word(verdict: Any) -> Any:
+    """A circuit's verdict word from a document, older words read as now ("incomplete" → "not-shown")."""
+    if verdict is None:
+        return "not-shown"
+    return OLD_VERDICTS.get(verdict, verdict) if isinstance(verdict, str) else verdict
 
 
 def _outcome_columns(outcome: Outcome) -> dict[str, Any]:

@@ -59,7 +59,7 @@ class Jobs:
             " EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) AS superseded,"
             " COUNT(c.id) AS circuits,"
             " COALESCE(SUM(c.verdict = 'fail'), 0) AS failing,"
-            " COALESCE(SUM(c.verdict = 'incomplete'), 0) AS incomplete"
+            " COALESCE(SUM(c.verdict = 'not-shown'), 0) AS not_shown"
             " FROM jobs j LEFT JOIN boards b ON b.job_id = j.id LEFT JOIN circuits c"
             " ON c.board_id = b.id WHERE j.client_ref_raw LIKE :p ESCAPE '\\'"
             " OR j.site_address_raw LIKE :p ESCAPE '\\'"

@@ -149,11 +149,21 @@ def _m004(db: sqlite_utils.Database) -> None:
     db.execute("CREATE TABLE settings (key TEXT PRIMARY KEY, value TEXT NOT NULL)")
 
 
+def _m005(db: sqlite_utils.Database) -> None:
+    """Version 5: a circuit whose evidence decides nothing reads "not-shown" (calc 0.2), not "incomplete".
+
+    Draft jobs are reassessed by the new calc when the store opens; submitted and approved jobs keep
+    the assessment they were reviewed with, under the new word.
+    """
+    db.execute("UPDATE circuits SET verdict = 'not-shown' WHERE verdict = 'incomplete'")
+
+
 STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("001_jobs_boards_circuits", _m001),
     ("002_device_library", _m002),
     ("003_row_versions_review_revisions", _m003),
     ("004_pins_settings", _m004),
+    ("005_not_shown_verdict", _m005),
 )
 SCHEMA_VERSION = len(STEPS)
 

@@ -68,7 +68,8 @@ class Store:
         """Open (or create) the store in `data_dir` (None: the user's app-data folder).
 
         Checks the file (a non-SQLite or damaged file is moved aside and `recovered` says so), turns
-        on WAL and foreign keys, and runs pending migrations after taking a backup copy.
+        on WAL and foreign keys, runs pending migrations after taking a backup copy, and reassesses the
+        circuits of draft jobs last assessed by another calc version (reviewed jobs keep theirs).
         """
         folder = Path(data_dir) if data_dir is not None else default_data_dir()
         try:
@@ -86,7 +87,9 @@ class Store:
         except BaseException:
             conn.close()
             raise
-        return cls(path, db, recovered, backup_path)
+        store = cls(path, db, recovered, backup_path)
+        store.circuits.reassess_stale_drafts()
+        return store
 
     def close(self) -> None:
         """Close the connection (every save is already committed)."""
