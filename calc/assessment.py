@@ -5,7 +5,6 @@ working shown step by step."""
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from functools import cached_property
 from typing import Any
 
 from calc.capacity import breaking_capacity
@@ -30,9 +29,13 @@ from calc.walk import (
 )
 
 
-@dataclass(frozen=True)
+@dataclass(eq=False)
 class Assessment:
-    """A circuit's assessment: the headline figures, the checks, the verdict and the steps in walk order."""
+    """A circuit's assessment: the headline figures, the checks, the verdict and the steps in walk order.
+
+    Read-only by convention: it is not a frozen dataclass because setting fifty fields through a frozen
+    dataclass's `object.__setattr__` cost more than the rest of the walk (see README, benchmarks).
+    """
 
     inputs: CircuitInput
     device: str
@@ -84,11 +87,15 @@ class Assessment:
     primary_cause: PrimaryCause | None
     plausibility: tuple[str, ...]
     step_thunks: tuple[StepThunk, ...] = field(repr=False, compare=False)
+    _steps: tuple[Step, ...] | None = field(default=None, init=False, repr=False, compare=False)
 
-    @cached_property
+    @property
     def steps(self) -> tuple[Step, ...]:
-        """The steps in walk order, each with its formula, working, value, unit and verdict."""
-        return tuple(thunk() for thunk in self.step_thunks)
+        """The steps in walk order, each with its formula, working, value, unit and verdict (written
+        when first read)."""
+        if self._steps is None:
+            self._steps = tuple(thunk() for thunk in self.step_thunks)
+        return self._steps
 
     def to_dict(self) -> dict[str, Any]:
         """The assessment as JSON-ready data (the calc command line's output)."""

@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import bisect
 import math
+from functools import lru_cache
 from typing import NamedTuple
 
 from calc import tables
@@ -61,6 +62,7 @@ class TestChecks(NamedTuple):
         )
 
 
+@lru_cache(maxsize=32)
 def insulation_row(selv: bool, nominal_v: float) -> dict:
     """The row of IEC 60364-6 Table 6.1 for a circuit: SELV/PELV, or by nominal voltage."""
     rows = tables.load("insulation")["row"]
@@ -112,23 +114,26 @@ def insulation_check(inp: CircuitInput) -> tuple[Check, float | None]:
             needs=f"record a test at {fmt(need_v)} V d.c.",
             **base,
         ), lowest.value
-    shown = ", ".join(f"{name} {_bounded(r)} MΩ" for name, r in readings)
-    missing = "" if ins.line_line is not None else "; L–L not recorded"
     if lowest.value >= minimum:
         outcome = PASS
     elif lowest.above:
         outcome = NOT_SHOWN
     else:
         outcome = FAIL
-    sign = "≥" if outcome == PASS else "<"
+    def why() -> str:
+        shown = ", ".join(f"{name} {_bounded(r)} MΩ" for name, r in readings)
+        missing = "" if ins.line_line is not None else "; L–L not recorded"
+        sign = "≥" if outcome == PASS else "<"
+        volts = fmt(ins.test_voltage_v or 0.0)
+        return f"{shown} at {volts} V: lowest ({lowest_name}) {sign} {fmt(minimum)} MΩ{missing}"
+
     return Check(
         "insulation",
         title,
         outcome,
         lowest.value,
         minimum,
-        why=f"{shown} at {fmt(ins.test_voltage_v)} V: lowest ({lowest_name}) {sign} {fmt(minimum)} MΩ"
-        + missing,
+        why=why,
         needs="a reading the instrument can show below its range" if outcome == NOT_SHOWN else "",
         **base,
     ), lowest.value
