@@ -71,6 +71,50 @@ def median_us(func: Callable[[], object], repeats: int = 7, number: int = 2000) 
     return statistics.median(samples)
 
 
+def stages() -> list[tuple[str, Callable[[], object]]]:
+    """The walk cut into its stages, each runnable alone on the bench circuit, to show where the time
+    goes."""
+    from calc.assessment import assess_input
+    from calc.circuit_test_checks import test_checks
+    from calc.conductors import Clearing, k_values, line_checks, protective_conductor
+    from calc.devices import make_device
+    from calc.disconnection import disconnection
+    from calc.inputs import read_input
+    from calc.limits import max_disconnection_time
+    from calc.verdict import primary_cause, reasons
+    from calc.walk import device_time_step, fault_current_step, loop_impedance, zs_max_step
+
+    inp = read_input(NUMBERS)
+    s = inp.supply
+    device = make_device(inp.device)
+    loop, _ = loop_impedance(inp)
+    limit = max_disconnection_time(s.system, s.u0_v, inp.role, inp.device.rating_a, inp.final_circuit_max_a)
+    if_a, _ = fault_current_step("f", "f", "If", "Zs", s.u0_v, s.cmin, loop.zs_ohm, "")
+    op, _ = device_time_step("d", "d", device, "If", if_a)
+    zs_max, _ = zs_max_step(inp, device, limit)
+    k_l, k_p, _ = k_values(inp)
+    earth = Clearing(op, "device") if op is not None else None
+    checks = assess_input(inp).checks
+
+    def figures() -> None:
+        loop_impedance(inp)
+        fault_current_step("f", "f", "If", "Zs", s.u0_v, s.cmin, loop.zs_ohm, "")
+        fault_current_step("i", "i", "Isc", "Zsc", s.u0_v, s.cmin, inp.readings.zsc_ohm, "")
+        device_time_step("d", "d", device, "If", if_a)
+        zs_max_step(inp, device, limit)
+        k_values(inp)
+
+    return [
+        ("reading the input", lambda: read_input(NUMBERS)),
+        ("the walk's figures (Zs, If, Isc, times, Zs max, k)", figures),
+        ("disconnection", lambda: disconnection(inp, loop, if_a, limit, op, None, zs_max, k_p)),
+        ("line conductor, both ends", lambda: line_checks(inp, device, k_l, if_a, 500.0, earth, False)),
+        ("protective conductor", lambda: protective_conductor(inp, k_l, k_p, if_a, earth, False)),
+        ("the other tests", lambda: test_checks(inp)),
+        ("verdict, cause, reasons", lambda: (primary_cause(checks), reasons(checks))),
+    ]
+
+
 def main() -> None:
     assess(STRINGS)  # first call fills the unit caches, as in a running app
     base = median_us(bare_formulas, number=20000)
@@ -84,6 +128,9 @@ def main() -> None:
     )
     print(f"assess from unit strings      {strings:8.2f} µs  ({strings / base:5.1f}× bare; target ≤ 300 µs)")
     print(f"assess + to_dict from numbers {with_dict:8.2f} µs  ({with_dict / base:5.1f}× bare)")
+    print("where the time of one assess from numbers goes:")
+    for name, func in stages():
+        print(f"  {name:52} {median_us(func, number=1000):7.2f} µs")
 
 
 if __name__ == "__main__":
