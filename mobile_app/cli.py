@@ -1,8 +1,9 @@
 """Command line of the field app.
 
 `python -m mobile_app [--port P] [--data DIR] [--demo]` serves the app in web mode on 127.0.0.1.
-Subcommands: `demo`, `export`, `sync`, `package`. Each subcommand's work lives in its own module; this file
-only parses arguments and turns typed errors into one-line messages (exit 2).
+Subcommands: `demo`, `export`, `sync`, `package`, `office init|enrol`, `verify`. Each subcommand's work
+lives in its own module; this file only parses arguments and turns typed errors into one-line messages
+(exit 2).
 """
 
 from __future__ import annotations
@@ -40,6 +41,20 @@ def build_parser() -> argparse.ArgumentParser:
 
     sync = sub.add_parser("sync", help="send what waits in the outbox to the office folder")
     sync.add_argument("--data", type=Path, default=None, dest="sub_data")
+
+    office = sub.add_parser("office", help="the firm's key and enrolled supervisors")
+    office_sub = office.add_subparsers(dest="office_command", required=True, parser_class=_Parser)
+    init = office_sub.add_parser("init", help="make the firm's signing key in an office folder")
+    init.add_argument("--dir", type=Path, required=True, dest="office_dir")
+    enrol = office_sub.add_parser("enrol", help="enrol a supervisor: key pair, sealed key, roster entry")
+    enrol.add_argument("name")
+    enrol.add_argument("--dir", type=Path, required=True, dest="office_dir")
+    enrol.add_argument("--passphrase-file", type=Path, required=True)
+    enrol.add_argument("--days", type=int, default=365, help="days the enrolment is valid (default 365)")
+
+    verify = sub.add_parser("verify", help="check a bundle's approval against the office folder")
+    verify.add_argument("bundle", type=Path)
+    verify.add_argument("--office", type=Path, required=True)
     return parser
 
 
@@ -62,6 +77,16 @@ def main(argv: list[str] | None = None) -> int:
         from mobile_app.sync.cli import cli_sync
 
         return cli_sync(data_dir)
+    if args.command == "office":
+        from mobile_app.office.cli import cli_office_enrol, cli_office_init
+
+        if args.office_command == "init":
+            return cli_office_init(args.office_dir)
+        return cli_office_enrol(args.name, args.office_dir, args.passphrase_file, args.days)
+    if args.command == "verify":
+        from mobile_app.office.cli import cli_verify
+
+        return cli_verify(args.bundle, args.office)
     from mobile_app.main import serve
 
     return serve(port=args.port, data_dir=data_dir, demo=args.demo)

@@ -1,0 +1,89 @@
+"""What an approval covers in a job document: every reading, every outcome, the people and times.
+
+The document (EXPORT-FORMAT.md, "boardside-job") is cut into parts, each hashed on its own with
+`canonical_hash`, so that a check can say which part changed:
+
+- `job`: the job's fields, revision, reason, who recorded and submitted it and when;
+- `boards/<i>`: board i's fields (without its circuits);
+- `boards/<i>/circuits/<j>`: circuit j of board i: fields as typed, verdict, assessment, calc
+  version, when it last changed and by whom (by name), and the library device it uses (name, rating
+  and points, not its id).
+
+Left out: what the store numbers locally (ids, which an import renumbers), what approval itself
+sets (`status`, `approved_by`, `approved_at`: the approval carries its own), what each export
+sets (`exported_at`, `cautions`, the top-level `calc_version`), the audit trail (an approval commits
+to it through `audit_head` instead), and the `approval` and `roster_entry` an export adds.
+The document hash an approval signs is `canonical_hash` of the `{part: hash}` map.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+from mobile_app.signing.canonical import canonical_hash
+
+_JOB_LEFT_OUT = frozenset({"id", "status", "parent_job_id", "approved_by", "approved_at"})
+
+
+def _people(doc: dict[str, Any]) -> dict[Any, Any]:
+    return {p.get("id"): p.get("name") for p in doc.get("people") or [] if isinstance(p, dict)}
+
+
+def _library(doc: dict[str, Any]) -> dict[Any, dict[str, Any]]:
+    return {
+        d.get("id"): {k: v for k, v in d.items() if k != "id"}
+        for d in doc.get("library_devices") or []
+        if isinstance(d, dict)
+    }
+
+
+def _circuit(circuit: dict[str, Any], people: dict[Any, Any], library: dict[Any, Any]) -> dict[str, Any]:
+    fields = dict(circuit.get("fields") or {})
+    device_field = fields.pop("library_device_id", None) or {}
+    device_id = device_field.get("value") if isinstance(device_field, dict) else None
+    part = {k: v for k, v in circuit.items() if k not in ("id", "fields", "updated_by")}
+    part["fields"] = fields
+    part["updated_by"] = people.get(circuit.get("updated_by"))
+    part["library_device"] = library.get(device_id) if device_id is not None else None
+    return part
+
+
+def approved_parts(doc: dict[str, Any]) -> dict[str, str]:
+    """The `{part: canonical hash}` map of a job document (module docstring)."""
+    people, library = _people(doc), _library(doc)
+    job = doc.get("job") or {}
+    parts = {"job": canonical_hash({k: v for k, v in job.items() if k not in _JOB_LEFT_OUT})}
+    for i, board in enumerate(doc.get("boards") or []):
+        parts[f"boards/{i}"] = canonical_hash({k: v for k, v in board.items() if k not in ("id", "circuits")})
+        for j, circuit in enumerate(board.get("circuits") or []):
+            parts[f"boards/{i}/circuits/{j}"] = canonical_hash(_circuit(circuit, people, library))
+    return parts
+
+
+def document_hash(parts: dict[str, str]) -> str:
+    """The hash an approval signs: canonical_hash of the parts map."""
+    return canonical_hash(parts)
+
+
+def describe_part(doc: dict[str, Any], key: str) -> str:
+    """A part in words for a message: "the job", "board DB1", "board DB1 circuit 3"."""
+    pieces = key.split("/")
+    if pieces[0] != "boards":
+        return "the job"
+    boards = doc.get("boards") or []
+    board = boards[int(pieces[1])] if int(pieces[1]) < len(boards) else {}
+    words = f"board {board.get('designation') or int(pieces[1]) + 1}"
+    if len(pieces) < 4:
+        return words
+    circuits = board.get("circuits") or []
+    circuit = circuits[int(pieces[3])] if int(pieces[3]) < len(circuits) else {}
+    return f"{words} circuit {circuit.get('number') or int(pieces[3]) + 1}"
+
+
+def changed_parts(doc: dict[str, Any], approved: dict[str, str]) -> list[str]:
+    """The parts of `doc` whose hash differs from the approved map, with those added or removed,
+    in words (describe_part), in document order."""
+    now = approved_parts(doc)
+    keys = list(now) + [k for k in approved if k not in now]
+    return [describe_part(doc, k) + ("" if k in now else " (removed)")
+            for k in keys if now.get(k) != approved.get(k)]
