@@ -19,7 +19,7 @@ from typing import Any
 
 from mobile_app.signing import ed25519
 from mobile_app.signing.canonical import canonical_bytes, check_form
-from mobile_app.signing.errors import KeyFormatError, RosterError
+from mobile_app.signing.errors import KeyFormatError, NameRefusedError, RosterError
 from mobile_app.signing.names import normalise_name
 
 SCHEMA = "boardside-roster-entry"
@@ -105,7 +105,11 @@ def entry_from_dict(data: Any) -> RosterEntry:
     """Read the file form; KeyFormatError for anything this version does not read."""
     check_form(data, SCHEMA, SCHEMA_VERSION, "roster entry")
     name = data.get("name")
-    if not isinstance(name, str) or normalise_name(name) != name:
+    try:
+        normal = normalise_name(name)
+    except NameRefusedError as error:
+        raise KeyFormatError("roster entry", f"name is not in normal form ({error.problem})") from error
+    if normal != name:
         raise KeyFormatError("roster entry", "name is not in normal form")
     return RosterEntry(
         name=name,
