@@ -109,8 +109,7 @@ def _carried_entry(doc: dict[str, Any], firm_key: bytes) -> RosterEntry | None:
     return entry
 
 
-def _enrolled(doc: dict[str, Any], approval: Approval, office_dir: Path) -> None:
-    firm_key = firm_public_key(office_dir / ROSTER / FIRM_KEY)
+def _enrolled(doc: dict[str, Any], approval: Approval, office_dir: Path, firm_key: bytes) -> None:
     at = _approved_time(approval)
     listed = [e for e in roster_entries(office_dir / ROSTER, firm_key) if e.public_key == approval.public_key]
     if not listed:
@@ -133,8 +132,9 @@ def _enrolled(doc: dict[str, Any], approval: Approval, office_dir: Path) -> None
 def verify_bundle(bundle_dir: Path, office_dir: Path) -> Verified:
     """Check a bundle against the office folder (module docstring); NotVerifiedError if it fails,
     OfficeFolderError if the office folder has no firm key."""
+    firm_key = firm_public_key(office_dir / ROSTER / FIRM_KEY)
     doc = _document(bundle_dir)
     approval = _approval(doc)
     _unchanged(doc, approval)
-    _enrolled(doc, approval, office_dir)
+    _enrolled(doc, approval, office_dir, firm_key)
     return Verified(approval.supervisor, approval.approved_at)
