@@ -5,6 +5,7 @@ Nothing runs at import time; `serve` (called by `python -m mobile_app`) starts t
 
 from __future__ import annotations
 
+import asyncio
 import os
 import re
 import sys
@@ -147,7 +148,10 @@ def run_packaged() -> None:
 
 
 def serve(port: int, data_dir: Path | None, demo: bool) -> int:
-    """Serve the app on 127.0.0.1:`port` with no CDN; with `demo`, create the demo job first."""
+    """Serve the app on 127.0.0.1:`port` with no CDN; with `demo`, create the demo job first.
+
+    Flet's web app is wrapped in `LoopbackOnly`, so only this server's own page can drive it.
+    """
     from mobile_app.state.jobs import demo_if_empty
 
     try:
@@ -162,13 +166,26 @@ def serve(port: int, data_dir: Path | None, demo: bool) -> int:
             demo_if_empty(store)
         print(f"Boardside: open http://127.0.0.1:{port} in a browser (Ctrl+C stops); "
               f"jobs are kept in {store.path}", flush=True)
-        ft.run(
-            make_main(store),
-            view=ft.AppView.WEB_BROWSER,
-            host="127.0.0.1",
-            port=port,
-            no_cdn=True,
-            assets_dir=str(ASSETS_DIR),
-            name="",
-        )
+        app = ft.run(make_main(store), no_cdn=True, assets_dir=str(ASSETS_DIR), name="", export_asgi_app=True)
+        asyncio.run(_serve_guarded(app, port))
     return 0
+
+
+async def _serve_guarded(app: Any, port: int) -> None:
+    """Run Flet's ASGI app behind LoopbackOnly with uvicorn on 127.0.0.1 (as `ft.run` would, with its
+    WebSocket implementation), opening a browser where there is a display."""
+    import uvicorn
+    from flet.utils import open_in_browser
+    from flet.utils.platform_utils import is_linux_server
+
+    from mobile_app.web_guard import LoopbackOnly
+
+    config = uvicorn.Config(LoopbackOnly(app, port), host="127.0.0.1", port=port, log_level="warning",
+                            ws="websockets-sansio", timeout_graceful_shutdown=3)
+    server = uvicorn.Server(config)
+    task = asyncio.create_task(server.serve())
+    while not server.started and not task.done():
+        await asyncio.sleep(0.05)
+    if server.started and not is_linux_server():
+        open_in_browser(f"http://127.0.0.1:{port}")
+    await task
