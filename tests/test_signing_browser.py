@@ -176,4 +176,4 @@ def test_canonical_hashes_and_names_agree(site, result) -> None:
     _url, _pair, doc = site
     assert result["canonical"] == canonical_hash(doc)
     assert result["name"] == "Ines Okafor"
-    print(f"unlock in the browser (PBKDF2, 1,000,000 iterations): {result['unlock_s']:.2f} s")
+    print(f"unlock in the browser (PBKDF2, 2,000,000 iterations): {result['unlock_s']:.2f} s")

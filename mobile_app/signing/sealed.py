@@ -29,7 +29,7 @@ from mobile_app.signing.errors import KeyFormatError, WeakPassphraseError, Wrong
 
 SCHEMA = "boardside-sealed-key"
 SCHEMA_VERSION = 1
-KEY_ITERATIONS = 1_000_000
+KEY_ITERATIONS = 2_000_000
 MIN_PASSPHRASE_CHARS = 20
 MIN_DISTINCT_CHARS = 8
 
