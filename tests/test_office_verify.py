@@ -14,10 +14,10 @@ from typing import Any
 
 import pytest
 
-from mobile_app.records import Store
-from mobile_app.records.bundle import MANIFEST_NAME, write_bundle
-from mobile_app.records.demo import DEMO_PIN, create_demo_job
+from mobile_app.export.bundle import MANIFEST_NAME, write_bundle
 from mobile_app.signing import generate_key_pair, sealed_from_dict, sign_approval, unlock
+from mobile_app.store import Store
+from mobile_app.store.demo import DEMO_PIN, create_demo_job
 
 ROOT = Path(__file__).resolve().parents[1]
 PASSPHRASE = "copper earth loop ninety"
@@ -44,10 +44,10 @@ def office(tmp_path_factory: pytest.TempPathFactory) -> Path:
 def approved_doc(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
     store = Store.open(tmp_path_factory.mktemp("device"))
     job_id = create_demo_job(store)
-    people = {p["name"]: p["id"] for p in store.people()}
-    store.submit_for_review(job_id, people["Tomasz Brill"])
-    store.approve(job_id, people["Ines Okafor"], DEMO_PIN)
-    doc = store.job_document(job_id)
+    people = {p["name"]: p["id"] for p in store.people.all()}
+    store.review.submit(job_id, people["Tomasz Brill"])
+    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+    doc = store.documents.export(job_id)
     store.close()
     return doc
 

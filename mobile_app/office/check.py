@@ -50,8 +50,7 @@ class Verified:
 
 
 def _document(bundle_dir: Path) -> dict[str, Any]:
-    from mobile_app.records.bundle import read_bundle
-    from mobile_app.records.export_common import BundleCheckError
+    from mobile_app.export import BundleCheckError, read_bundle
 
     try:
         bundle = read_bundle(bundle_dir)
