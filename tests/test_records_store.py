@@ -24,7 +24,7 @@ from mobile_app.store.schema import SCHEMA_VERSION
 from mobile_app.store.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
 from mobile_app.store.errors import InvalidValueError
 from mobile_app.store.library import Library
-from mobile_app.store.schema import connect, migrate
+from mobile_app.store.schema import SCHEMA_VERSION, connect, migrate
 from mobile_app.store.settings import Settings
 
 ROOT = Path(__file__).resolve().parents[1]

@@ -16,6 +16,7 @@ from typing import Any
 import platformdirs
 import sqlite_utils
 
+from mobile_app.store import chain
 from mobile_app.store.errors import NotFoundError, ReadOnlyError, SaveError
 
 STORE_FILE = "boardside.sqlite"
@@ -155,22 +156,19 @@ class Core:
         field: str | None,
         old: Any,
         new: Any,
-    ) -> None:
-        """Record one change in the audit trail (inside the caller's transaction)."""
-        conn.execute(
-            "INSERT INTO audit (job_id, at, person_id, entity, entity_id, field, old, new)"
-            " VALUES (?, ?, ?, ?, ?, ?, ?, ?)",
-            (
-                job_id,
-                now_iso(),
-                by,
-                entity,
-                entity_id,
-                field,
-                None if old is None else str(old),
-                None if new is None else str(new),
-            ),
-        )
+    ) -> str:
+        """Record one change in the audit trail, chained to the one before (inside the caller's
+        transaction); return the entry's hash."""
+        return chain.append(conn, {
+            "job_id": job_id,
+            "at": now_iso(),
+            "person_id": by,
+            "entity": entity,
+            "entity_id": entity_id,
+            "field": field,
+            "old": None if old is None else str(old),
+            "new": None if new is None else str(new),
+        })
 
 
 def _savepoint(conn: sqlite3.Connection) -> Iterator[sqlite3.Connection]:

@@ -9,6 +9,7 @@ from collections.abc import Callable
 from typing import Any
 
 import calc
+from mobile_app.store import chain
 from mobile_app.store.assessment import Outcome
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
@@ -205,7 +206,7 @@ class Documents:
                 if _outcome_columns(outcome) != _outcome_columns(kept):
                     reassessed.append((circuit_id, kept, outcome))
         for entry in doc.get("audit") or []:
-            self.core.insert(conn, "audit", _audit_row(entry, job_id, ids, people))
+            chain.append(conn, _audit_row(entry, job_id, ids, people))
         note = f"{row['client_ref_raw']} revision {row['revision']}"
         self.core.audit(conn, job_id, None, "job", job_id, "imported", None, note)
         for circuit_id, kept, outcome in reassessed:

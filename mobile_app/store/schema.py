@@ -11,6 +11,7 @@ store is made in its place.
 from __future__ import annotations
 
 import datetime
+import json
 import sqlite3
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -19,6 +20,7 @@ from pathlib import Path
 import sqlite_utils
 from sqlite_utils import Migrations
 
+from mobile_app.store import chain
 from mobile_app.store.errors import MigrationError, StoreTooNewError
 
 SQLITE_HEADER = b"SQLite format 3\x00"
@@ -158,12 +160,29 @@ def _m005(db: sqlite_utils.Database) -> None:
     db.execute("UPDATE circuits SET verdict = 'not-shown' WHERE verdict = 'incomplete'")
 
 
+def _m006(db: sqlite_utils.Database) -> None:
+    """Version 6: signed approvals, enrolled supervisors' keys, and the audit trail as a hash chain.
+
+    Jobs approved before approvals were signed are listed in the setting `unsigned_approvals`, so
+    the integrity check tells them from jobs whose approval was removed later.
+    """
+    for column in ("public_key TEXT", "sealed_key TEXT", "roster_entry TEXT"):
+        db.execute(f"ALTER TABLE people ADD COLUMN {column}")
+    db.execute("ALTER TABLE jobs ADD COLUMN approval TEXT")
+    db.execute("ALTER TABLE audit ADD COLUMN hash TEXT")
+    chain.rehash_all(db.conn)
+    approved = [row[0] for row in db.conn.execute("SELECT id FROM jobs WHERE status = 'approved'")]
+    db.conn.execute("INSERT OR REPLACE INTO settings (key, value) VALUES ('unsigned_approvals', ?)",
+                    (json.dumps(approved),))
+
+
 STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("001_jobs_boards_circuits", _m001),
     ("002_device_library", _m002),
     ("003_row_versions_review_revisions", _m003),
     ("004_pins_settings", _m004),
     ("005_not_shown_verdict", _m005),
+    ("006_signed_approvals_audit_chain", _m006),
 )
 SCHEMA_VERSION = len(STEPS)
 
