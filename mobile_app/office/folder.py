@@ -38,14 +38,14 @@ from mobile_app.signing import (
     verify_entry,
 )
 from mobile_app.signing.canonical import check_form
-from mobile_app.signing.ed25519 import PUBLIC_KEY_BYTES, SEED_BYTES, key_from_hex, key_id
+from mobile_app.signing.ed25519 import SEED_BYTES, key_from_hex, key_id
+from mobile_app.signing.roster import firm_key_dict, firm_key_from_dict
 
 FIRM_SECRET = "firm-secret-key.json"
 ROSTER = "roster"
 FIRM_KEY = "firm-key.json"
 KEYS = "keys"
 FIRM_SECRET_SCHEMA = "boardside-firm-secret-key"
-FIRM_KEY_SCHEMA = "boardside-firm-key"
 DEFAULT_VALID_DAYS = 365
 
 
@@ -93,8 +93,7 @@ def init_office(folder: Path) -> bytes:
     if (folder / FIRM_SECRET).exists():
         raise OfficeFolderError(str(folder), f"{FIRM_SECRET} already exists: the firm has a key")
     firm = generate_key_pair()
-    public = {"schema": FIRM_KEY_SCHEMA, "schema_version": 1, "public_key": firm.public_key.hex(),
-              "key_id": key_id(firm.public_key)}
+    public = firm_key_dict(firm.public_key)
     _write_new(folder / FIRM_SECRET, {**public, "schema": FIRM_SECRET_SCHEMA, "seed": firm.seed.hex()},
                secret=True)
     _write_new(folder / ROSTER / FIRM_KEY, public)
@@ -116,10 +115,8 @@ def firm_key_pair(folder: Path) -> KeyPair:
 
 def firm_public_key(path: Path) -> bytes:
     """The firm's public key from a `firm-key.json` (what a device pins)."""
-    data = read_json(path)
     try:
-        check_form(data, FIRM_KEY_SCHEMA, 1, path.name)
-        return key_from_hex("firm key", data.get("public_key"), PUBLIC_KEY_BYTES)
+        return firm_key_from_dict(read_json(path))
     except SigningError as error:
         raise OfficeFolderError(str(path.parent), str(error)) from error
 

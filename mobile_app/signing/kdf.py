@@ -9,7 +9,9 @@ One stored, self-describing text form, read the same in the server and in the br
 interpreter has it (the server form) and the browser's WebCrypto (`crypto.subtle.deriveBits`,
 reached through Pyodide's `js` module) where it does not (Python in the browser has no
 `pbkdf2_hmac`). WebCrypto is asynchronous, so `derive` is a coroutine; everything else here is
-synchronous, so a store hands out parameters and compares results while its caller awaits `derive`.
+synchronous, so a store hands out parameters and compares results while its caller awaits `derive`
+(`derive_for` gives a `Derived` that the store's `resolve` accepts). Where Python has PBKDF2 the store
+may also be handed the text itself (`resolve` derives it then with `derive_now`).
 
 Text secrets are normalised to NFC and encoded as UTF-8 before derivation (RFC 8265 section 4.2,
 the OpaqueString profile's normalisation), so a passphrase typed on another device derives the same.
@@ -127,13 +129,35 @@ def backend_name() -> str:
     return "hashlib" if hasattr(hashlib, "pbkdf2_hmac") else "webcrypto"
 
 
+def derive_now(secret: str | bytes, params: KdfParams) -> bytes:
+    """The same derivation without waiting, where Python has PBKDF2 (the server form); in the browser
+    KeyFormatError: there the caller awaits `derive` and hands over a `Derived`."""
+    if backend_name() != "hashlib":
+        raise KeyFormatError("key derivation", "await derive() here and pass the derived key")
+    return hashlib.pbkdf2_hmac("sha256", secret_bytes(secret), params.salt, params.iterations, params.length)
+
+
+def resolve(secret: str | Derived, params: KdfParams) -> bytes:
+    """The derived key for `params`: a `Derived` made with these very parameters (KeyFormatError if
+    it was made with others), or a text secret derived now (`derive_now`)."""
+    if isinstance(secret, Derived):
+        if secret.params != params:
+            raise KeyFormatError("key derivation", "derived with other parameters than asked")
+        return secret.key
+    return derive_now(secret, params)
+
+
+async def derive_for(secret: str, params: KdfParams) -> Derived:
+    """`derive` wrapped with its parameters, as the store's `resolve` takes it."""
+    return Derived(params, await derive(secret, params))
+
+
 async def derive(secret: str | bytes, params: KdfParams) -> bytes:
     """PBKDF2-HMAC-SHA256 of `secret` with `params` (RFC 8018 5.2): Python's where it exists,
     else the browser's WebCrypto. The one place that asks which platform this is."""
-    data = secret_bytes(secret)
     if backend_name() == "hashlib":
-        return hashlib.pbkdf2_hmac("sha256", data, params.salt, params.iterations, params.length)
-    return await _webcrypto_pbkdf2(data, params)
+        return derive_now(secret, params)
+    return await _webcrypto_pbkdf2(secret_bytes(secret), params)
 
 
 async def _webcrypto_pbkdf2(data: bytes, params: KdfParams) -> bytes:

@@ -119,3 +119,18 @@ def entry_from_dict(data: Any) -> RosterEntry:
         firm_key=ed25519.key_from_hex("firm key", data.get("firm_key"), ed25519.PUBLIC_KEY_BYTES),
         signature=ed25519.key_from_hex("signature", data.get("signature"), ed25519.SIGNATURE_BYTES),
     )
+
+
+FIRM_KEY_SCHEMA = "boardside-firm-key"
+
+
+def firm_key_dict(public_key: bytes) -> dict[str, Any]:
+    """The firm's public key as the file `firm-key.json` holds it (what a device pins)."""
+    return {"schema": FIRM_KEY_SCHEMA, "schema_version": 1, "public_key": public_key.hex(),
+            "key_id": ed25519.key_id(public_key)}
+
+
+def firm_key_from_dict(data: Any) -> bytes:
+    """The public key in a `firm-key.json` form; KeyFormatError for anything else."""
+    check_form(data, FIRM_KEY_SCHEMA, 1, "firm key")
+    return ed25519.key_from_hex("firm key", data.get("public_key"), ed25519.PUBLIC_KEY_BYTES)

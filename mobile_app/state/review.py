@@ -5,8 +5,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
+from mobile_app.signing import kdf
 from mobile_app.state.text import status_word
 from mobile_app.store import LockedOutError, PinError, StoreError
+
+Secret = str | kdf.Derived
 
 
 @dataclass(frozen=True)
@@ -87,32 +90,57 @@ class ReviewState:
             return Outcome(False, f"Not submitted: {exc}")
         return Outcome(True, "Submitted for review")
 
-    def approve(self, supervisor_name: str, pin: str) -> Outcome:
-        """Approve as the named supervisor with their PIN."""
+    def approve(self, supervisor_name: str, secret: Secret) -> Outcome:
+        """Approve as the named supervisor: an enrolled supervisor's passphrase unlocks their key and
+        signs; a supervisor added on this device uses their PIN (an unverified approval).
+
+        The server form may pass the text; the browser build passes what `approve_async` derives.
+        """
         person = self._person(supervisor_name, "supervisor")
         if person is None:
             return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
-        if not pin.strip():
-            return Outcome(False, "Enter the supervisor's PIN")
+        if isinstance(secret, str) and not secret.strip():
+            return Outcome(False, "Enter the supervisor's PIN or passphrase")
         try:
-            self.store.review.approve(self.job_id, int(person["id"]), pin.strip())
+            self.store.review.approve(self.job_id, int(person["id"]),
+                                      secret.strip() if isinstance(secret, str) else secret)
         except LockedOutError as exc:
             return Outcome(False, f"Locked: {exc}")
         except PinError as exc:
             return Outcome(False, f"PIN not accepted: {exc}")
         except StoreError as exc:
             return Outcome(False, f"Not approved: {exc}")
-        return Outcome(True, f"Approved by {person['name']}")
+        note = "" if person.get("enrolled") else " (unverified: not enrolled by the office)"
+        return Outcome(True, f"Approved by {person['name']}{note}")
 
-    def return_to_draft(self, supervisor_name: str, comment: str) -> Outcome:
-        """Return the job to its recorder with a comment (the comment is required)."""
+    async def approve_async(self, supervisor_name: str, secret: str) -> Outcome:
+        """`approve`, deriving the key first without blocking (the browser's WebCrypto)."""
+        person = self._person(supervisor_name, "supervisor")
+        if person is None or not secret.strip():
+            return self.approve(supervisor_name, secret)
+        try:
+            params = self.store.people.key_params(int(person["id"]))
+        except StoreError as exc:
+            return Outcome(False, f"Not approved: {exc}")
+        return self.approve(supervisor_name, await kdf.derive_for(secret.strip(), params))
+
+    def return_to_draft(self, supervisor_name: str, comment: str, pin: Secret = "") -> Outcome:
+        """Return the job to its recorder with a comment (required), confirmed by the supervisor's
+        PIN (or passphrase)."""
         if not comment.strip():
             return Outcome(False, "Say what needs changing before returning the job")
         person = self._person(supervisor_name, "supervisor")
         if person is None:
             return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
+        if isinstance(pin, str) and not pin.strip():
+            return Outcome(False, "Enter the supervisor's PIN to return the job")
         try:
-            self.store.review.return_to_draft(self.job_id, int(person["id"]), comment.strip())
+            self.store.review.return_to_draft(self.job_id, int(person["id"]), comment.strip(),
+                                              pin.strip() if isinstance(pin, str) else pin)
+        except LockedOutError as exc:
+            return Outcome(False, f"Locked: {exc}")
+        except PinError as exc:
+            return Outcome(False, f"PIN not accepted: {exc}")
         except StoreError as exc:
             return Outcome(False, f"Not returned: {exc}")
         return Outcome(True, "Returned to draft with your comment")

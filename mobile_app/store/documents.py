@@ -9,7 +9,8 @@ from collections.abc import Callable
 from typing import Any
 
 import calc
-from mobile_app.store import chain
+from mobile_app.store import chain, imported
+from mobile_app.store.approvals import VERIFIED, ApprovalCheck, check_document
 from mobile_app.store.assessment import Outcome
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
@@ -18,15 +19,13 @@ from mobile_app.store.errors import DocumentError
 from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
 from mobile_app.store.jobs import Jobs
 from mobile_app.store.library import Library
-from mobile_app.store.people import ROLES, People
+from mobile_app.store.people import People
+from mobile_app.store.roster import Roster
 from mobile_app.store.rows import parse, triples
 
 DOCUMENT_SCHEMA = "boardside-job"
 DOCUMENT_SCHEMA_VERSION = 1
 STATUSES = ("draft", "submitted", "approved")
-VERDICTS = ("pass", "fail", "not-shown")
-OLD_VERDICTS = {"incomplete": "not-shown"}
-"""Verdict words of older exports and what they read as now."""
 
 
 class Documents:
@@ -40,6 +39,7 @@ class Documents:
         jobs: Jobs,
         boards: Boards,
         circuits: Circuits,
+        roster: Roster,
     ) -> None:
         self.core = core
         self.people = people
@@ -47,6 +47,7 @@ class Documents:
         self.jobs = jobs
         self.boards = boards
         self.circuits = circuits
+        self.roster = roster
 
     def export(self, job_id: int) -> dict[str, Any]:
         """The whole job (boards, circuits with fields as typed and assessments, library devices
@@ -150,7 +151,18 @@ class Documents:
                 if person_id in mentioned
             ],
             "audit": trail,
+            **self._approval_of(job_id, job["approved_by"]),
         }
+
+    def _approval_of(self, job_id: int, approver: int | None) -> dict[str, Any]:
+        """The job's signed approval and its approver's roster entry (None when there is none)."""
+        row = self.core.one("SELECT approval FROM jobs WHERE id = ?", (job_id,))
+        approval = None if row is None or row["approval"] is None else json.loads(row["approval"])
+        entry = None
+        if approval is not None and approver is not None:
+            person = self.people.get(approver)
+            entry = None if person["roster_entry"] is None else json.loads(person["roster_entry"])
+        return {"approval": approval, "roster_entry": entry}
 
     def import_(self, doc: dict[str, Any]) -> int:
         """Load a job document as a new job, in one transaction (a broken document imports nothing).
@@ -178,57 +190,76 @@ class Documents:
     def _import(self, conn: sqlite3.Connection, doc: dict[str, Any]) -> int:
         """The body of an import, inside its transaction; returns the new job's id."""
         job = doc["job"]
-        people = _PeopleMatcher(self.people, doc)
+        people = imported.PeopleMatcher(self.people, doc)
         library_ids = self._import_library(doc.get("library_devices") or [])
-        status = _choice(job.get("status", "draft"), "job.status", STATUSES)
-        typed = [parse("job", n, _raw(job["fields"], n), self.library) for n in JOB_FIELDS]
-        row = dict(triples(JOB_FIELDS, typed), **_review_columns(job, people), status=status)
-        row["parent_job_id"] = self._imported_parent(row, job.get("parent_job_id"))
+        status = imported.choice(job.get("status", "draft"), "job.status", STATUSES)
+        typed = [parse("job", n, imported.raw(job["fields"], n), self.library) for n in JOB_FIELDS]
+        row = dict(triples(JOB_FIELDS, typed), **imported.review_columns(job, people), status=status)
+        approval = self._imported_approval(doc) if status == "approved" else None
+        if status == "approved" and approval.state != VERIFIED:
+            status = row["status"] = "submitted"
+            row.update(approved_by=None, approved_at=None)
+        elif approval is not None:
+            row["approval"] = json.dumps(doc["approval"])
+        row["parent_job_id"] = (self._imported_parent(row, job.get("parent_job_id"))
+                                if status == "approved" else None)
         job_id = self.core.insert(conn, "jobs", row)
         job_row = dict(row, id=job_id)
         ids: dict[str, dict[int, int]] = {"board": {}, "circuit": {}}
         reassessed: list[tuple[int, Outcome, Outcome]] = []
         for position, board in enumerate(doc.get("boards") or [], start=1):
-            board_typed = [parse("board", n, _raw(board["fields"], n), self.library) for n in BOARD_FIELDS]
+            board_typed = [parse("board", n, imported.raw(board["fields"], n), self.library)
+                           for n in BOARD_FIELDS]
             board_row = dict(triples(BOARD_FIELDS, board_typed), job_id=job_id, position=position)
             board_id = self.core.insert(conn, "boards", board_row)
-            ids["board"][_source_id(board)] = board_id
+            ids["board"][imported.source_id(board)] = board_id
             for number, circuit in enumerate(board.get("circuits") or [], start=1):
                 circuit_row = self._imported_circuit(circuit, library_ids, people)
                 circuit_row.update(board_id=board_id, position=number)
-                kept = _exported_outcome(circuit)
-                outcome = kept
-                if status == "draft" and kept.calc_version not in (None, calc.__version__):
-                    outcome = self.circuits.assess(job_row, board_row, circuit_row)
-                circuit_row.update(_outcome_columns(outcome))
+                kept = imported.exported_outcome(circuit)
+                outcome = self.circuits.assess(job_row, board_row, circuit_row)
+                circuit_row.update(imported.outcome_columns(kept if status == "approved" else outcome))
                 circuit_id = self.core.insert(conn, "circuits", circuit_row)
-                ids["circuit"][_source_id(circuit)] = circuit_id
-                if _outcome_columns(outcome) != _outcome_columns(kept):
+                ids["circuit"][imported.source_id(circuit)] = circuit_id
+                if imported.outcome_columns(outcome) != imported.outcome_columns(kept):
                     reassessed.append((circuit_id, kept, outcome))
         for entry in doc.get("audit") or []:
-            chain.append(conn, _audit_row(entry, job_id, ids, people))
+            chain.append(conn, imported.audit_row(entry, job_id, ids, people))
         note = f"{row['client_ref_raw']} revision {row['revision']}"
         self.core.audit(conn, job_id, None, "job", job_id, "imported", None, note)
+        if approval is not None and approval.state != VERIFIED:
+            self.core.audit(conn, job_id, None, "review", job_id, "approval not kept", "approved",
+                            approval.reason)
         for circuit_id, kept, outcome in reassessed:
-            old = f"{kept.verdict} (calc {kept.calc_version})"
-            new = f"{outcome.verdict} (calc {outcome.calc_version})"
+            old = f"{kept.verdict} (calc {kept.calc_version}, as exported)"
+            new = f"{outcome.verdict} (calc {outcome.calc_version})" + (
+                ", not kept: the approved outcome stands" if status == "approved" else "")
             self.core.audit(conn, job_id, None, "circuit", circuit_id, "assessment", old, new)
         return job_id
 
+    def _imported_approval(self, doc: dict[str, Any]) -> ApprovalCheck:
+        """Whether an imported approved job's approval verifies here; a verified approver's roster
+        entry is taken into this store's roster."""
+        result = check_document(doc, self.roster.firm_key(), self.roster.verified_key)
+        if result.state == VERIFIED and doc.get("roster_entry") is not None and result.approval:
+            approved_at = datetime.datetime.fromisoformat(result.approval.approved_at)
+            self.roster.load([doc["roster_entry"]], approved_at)
+        return result
+
     def _imported_circuit(
-        self, circuit: dict[str, Any], library_ids: dict[int, int], people: _PeopleMatcher
+        self, circuit: dict[str, Any], library_ids: dict[int, int], people: imported.PeopleMatcher
     ) -> dict[str, Any]:
         """An imported circuit's row (fields as typed, library ids mapped), without its ids."""
         fields = circuit["fields"]
         parsed = []
         for name in CIRCUIT_FIELDS:
-            raw = _raw(fields, name)
+            raw = imported.raw(fields, name)
             if name == "library_device_id" and raw.strip().isascii() and raw.strip().isdigit():
                 raw = str(library_ids.get(int(raw), raw))
             parsed.append(parse("circuit", name, raw, self.library))
         return dict(
             triples(CIRCUIT_FIELDS, parsed),
-            updated_at=_text(circuit.get("updated_at"), "circuit.updated_at") or now_iso(),
+            updated_at=imported.text(circuit.get("updated_at"), "circuit.updated_at") or now_iso(),
             updated_by=people.by_id(circuit.get("updated_by")),
         )
 
@@ -254,154 +285,3 @@ class Documents:
                 device["name"], device["points"], device.get("rating_a")
             )
         return mapping
-
-
-class _PeopleMatcher:
-    """The people a document names, matched to people in the store by name and role, or added
-    (without a PIN) on first use. A document without a `people` list (older exports) gives no
-    roles: a name then matches anyone of that name, and a newcomer is added as an apprentice,
-    except an approver, who is a supervisor."""
-
-    def __init__(self, people: People, doc: dict[str, Any]) -> None:
-        self.people = people
-        self.listed: dict[int, tuple[str, str | None]] = {}
-        for person in doc.get("people") or []:
-            role = _choice(person["role"], "people.role", ROLES)
-            self.listed[int(person["id"])] = (_name(person["name"]), role)
-        for entry in doc.get("audit") or []:
-            if entry.get("person_id") is not None and entry.get("who") is not None:
-                self.listed.setdefault(int(entry["person_id"]), (_name(entry["who"]), None))
-        self.here: dict[tuple[str, str | None], int] = {}
-
-    def by_name(self, name: Any, role: str | None = None) -> int | None:
-        """This store's id for a person named in the document (None for no name)."""
-        if name is None:
-            return None
-        clean = _name(name)
-        roles = {r for n, r in self.listed.values() if n == clean and r is not None}
-        if role is None and len(roles) == 1:
-            role = roles.pop()
-        if (clean, role) not in self.here:
-            self.here[(clean, role)] = self._match(clean, role)
-        return self.here[(clean, role)]
-
-    def by_id(self, person_id: Any) -> int | None:
-        """This store's id for a person id of the document (None when the document does not say)."""
-        if person_id is None or int(person_id) not in self.listed:
-            return None
-        name, role = self.listed[int(person_id)]
-        return self.by_name(name, role)
-
-    def _match(self, name: str, role: str | None) -> int:
-        """The first person here with this name (and role, if known), else a new one."""
-        for person in self.people.all():
-            if person["name"] == name and role in (None, person["role"]):
-                return int(person["id"])
-        return self.people.add(name, role or "apprentice")
-
-
-def _review_columns(job: dict[str, Any], people: _PeopleMatcher) -> dict[str, Any]:
-    """The job row's review, revision and authorship columns from a document's job."""
-    revision = job.get("revision", 1)
-    if not isinstance(revision, int) or isinstance(revision, bool) or revision < 1:
-        raise DocumentError(f"job.revision {revision!r} is not a whole number from 1")
-    if job.get("status") == "approved" and not (job.get("approved_by") and job.get("approved_at")):
-        raise DocumentError("an approved job needs approved_by and approved_at")
-    stamp = now_iso()
-    return {
-        "revision": revision,
-        "revision_reason": _text(job.get("revision_reason"), "job.revision_reason"),
-        "recorded_by": people.by_name(job.get("recorded_by")),
-        "created_at": _text(job.get("recorded_at"), "job.recorded_at") or stamp,
-        "updated_at": stamp,
-        "submitted_by": people.by_name(job.get("submitted_by")),
-        "submitted_at": _text(job.get("submitted_at"), "job.submitted_at"),
-        "approved_by": people.by_name(job.get("approved_by"), "supervisor"),
-        "approved_at": _text(job.get("approved_at"), "job.approved_at"),
-        "review_comment": _text(job.get("review_comment"), "job.review_comment"),
-    }
-
-
-def _exported_outcome(circuit: dict[str, Any]) -> Outcome:
-    """A circuit's assessment as the document holds it."""
-    assessment = circuit.get("assessment")
-    if assessment is not None and not isinstance(assessment, dict):
-        raise DocumentError("a circuit's assessment must be an object or null")
-    return Outcome(
-        _choice(_verdict_word(circuit.get("verdict")), "circuit.verdict", VERDICTS),
-        None if assessment is None else json.dumps(assessment, ensure_ascii=False, separators=(",", ":")),
-        _text(circuit.get("calc_version"), "circuit.calc_version"),
-        _text(circuit.get("assessment_error"), "circuit.assessment_error"),
-    )
-
-
-def _verdict_word(verdict: Any) -> Any:
-    """A circuit's verdict word from a document, older words read as now ("incomplete" → "not-shown")."""
-    if verdict is None:
-        return "not-shown"
-    return OLD_VERDICTS.get(verdict, verdict) if isinstance(verdict, str) else verdict
-
-
-def _outcome_columns(outcome: Outcome) -> dict[str, Any]:
-    """The circuit columns that hold an assessment."""
-    return {
-        "verdict": outcome.verdict,
-        "assessment": outcome.assessment_json,
-        "calc_version": outcome.calc_version,
-        "assessment_error": outcome.error,
-    }
-
-
-def _audit_row(
-    entry: dict[str, Any], job_id: int, ids: dict[str, dict[int, int]], people: _PeopleMatcher
-) -> dict[str, Any]:
-    """An exported audit entry as a row of this store: same time, person, change; ids mapped
-    (a board or circuit the document does not hold gets no id)."""
-    entity = _name(entry["entity"])
-    source = entry.get("entity_id")
-    if entity in ("job", "review"):
-        entity_id: int | None = job_id
-    else:
-        entity_id = None if source is None else ids.get(entity, {}).get(int(source))
-    return {
-        "job_id": job_id,
-        "at": _name(entry["when"]),
-        "person_id": people.by_id(entry.get("person_id")),
-        "entity": entity,
-        "entity_id": entity_id,
-        "field": _text(entry.get("field"), "audit.field"),
-        "old": _text(entry.get("old"), "audit.old"),
-        "new": _text(entry.get("new"), "audit.new"),
-    }
-
-
-def _source_id(item: dict[str, Any]) -> int:
-    """A board's or circuit's id in the store it was exported from (-1 when the document has none)."""
-    return -1 if item.get("id") is None else int(item["id"])
-
-
-def _choice(value: Any, what: str, allowed: tuple[str, ...]) -> str:
-    """`value` if it is one of `allowed`, else DocumentError."""
-    if value not in allowed:
-        raise DocumentError(f"{what} {value!r} is not one of {', '.join(allowed)}")
-    return str(value)
-
-
-def _name(value: Any) -> str:
-    """A required piece of text (a name, a time) from a document, stripped; DocumentError if blank."""
-    if not isinstance(value, str) or not value.strip():
-        raise DocumentError(f"{value!r} is not a non-blank text")
-    return value.strip()
-
-
-def _text(value: Any, what: str) -> str | None:
-    """Optional text from a document: a string or None, else DocumentError."""
-    if value is not None and not isinstance(value, str):
-        raise DocumentError(f"{what} must be text or null, not {type(value).__name__}")
-    return value
-
-
-def _raw(fields: dict[str, Any], name: str) -> str:
-    """The raw text of a field in a document's fields, blank when absent."""
-    entry = fields.get(name) or {}
-    return "" if entry.get("raw") is None else str(entry["raw"])

@@ -94,14 +94,19 @@ class PinError(StoreError, ValueError):
 
 
 class LockedOutError(PinError):
-    """Too many wrong PINs: approval by this person is refused until the lock-out ends."""
+    """Too many wrong attempts: this person's PIN and key are refused until unlocked with the
+    passphrase (an enrolled supervisor); a device-only supervisor stays locked."""
 
-    def __init__(self, seconds_left: float) -> None:
-        super().__init__("too many wrong PINs")
-        self.seconds_left = seconds_left
+    def __init__(self, name: str, attempts: int, enrolled: bool) -> None:
+        super().__init__("too many wrong attempts")
+        self.name = name
+        self.attempts = attempts
+        self.enrolled = enrolled
 
     def __str__(self) -> str:
-        return f"too many wrong PINs: try again in {max(1, round(self.seconds_left))} s"
+        how = ("unlock with the passphrase" if self.enrolled
+               else "a supervisor added on this device stays locked")
+        return f"{self.name} is locked after {self.attempts} wrong attempts: {how}"
 
 
 class SaveError(StoreError, OSError):
@@ -149,6 +154,17 @@ class StoreTooNewError(StoreError, RuntimeError):
 
     def __str__(self) -> str:
         return f"the store {self.path} comes from a newer Boardside ({', '.join(self.unknown)})"
+
+
+class TrustError(StoreError, ValueError):
+    """The firm key, a roster entry or a sealed key that this store refuses to take."""
+
+    def __init__(self, problem: str) -> None:
+        super().__init__(problem)
+        self.problem = problem
+
+    def __str__(self) -> str:
+        return self.problem
 
 
 class InvalidValueError(StoreError, ValueError):

@@ -1,13 +1,16 @@
-"""Review of a job: draft → submitted → approved (supervisor PIN) or back to draft with a comment;
-revisions of an approved job."""
+"""Review of a job: draft → submitted → approved (a supervisor's signature) or back to draft with a
+comment (their PIN); revisions of an approved job."""
 
 from __future__ import annotations
 
+import json
 from typing import Any
 
-from mobile_app.store import pins
+from mobile_app.signing import sign_approval
+from mobile_app.store import chain, pins
 from mobile_app.store.core import Core, now_iso
-from mobile_app.store.errors import LockedOutError, PinError, ReviewError
+from mobile_app.store.documents import Documents
+from mobile_app.store.errors import PinError, ReviewError
 from mobile_app.store.people import People
 
 _COPY_SKIP_JOB = {
@@ -30,9 +33,10 @@ _COPY_SKIP_JOB = {
 class Review:
     """Review, approval with a supervisor's PIN and revisions of a store's jobs (`store.review`)."""
 
-    def __init__(self, core: Core, people: People) -> None:
+    def __init__(self, core: Core, people: People, documents: Documents) -> None:
         self.core = core
         self.people = people
+        self.documents = documents
 
     def _set_status(
         self, job_id: int, expected: str, status: str, by: int | None, columns: dict[str, Any]
@@ -58,20 +62,29 @@ class Review:
         self.people.get(by)
         self._set_status(job_id, "draft", "submitted", by, {"submitted_by": by, "submitted_at": now_iso()})
 
-    def return_to_draft(self, job_id: int, reviewer_id: int, comment: str) -> None:
-        """Send a submitted job back to draft with the reviewer's comment (a supervisor's)."""
+    def return_to_draft(self, job_id: int, reviewer_id: int, comment: str,
+                        pin: pins.Secret | None = None) -> None:
+        """Send a submitted job back to draft with a supervisor's comment, confirmed by their PIN
+        (or an enrolled supervisor's passphrase)."""
         if self.people.get(reviewer_id)["role"] != "supervisor":
             raise ReviewError(job_id, "only a supervisor can return a job with comments")
         if not comment.strip():
             raise ReviewError(job_id, "a comment is needed to return a job to draft")
+        status = self.core.row("job", job_id)["status"]
+        if status != "submitted":
+            raise ReviewError(job_id, f"is {status}, not submitted")
+        if pin is None:
+            raise PinError("the supervisor's PIN is needed to return a job to draft")
+        self.people.confirm(reviewer_id, pin, job_id)
         self._set_status(job_id, "submitted", "draft", reviewer_id, {"review_comment": comment.strip()})
 
-    def approve(self, job_id: int, supervisor_id: int, pin: str) -> None:
-        """Approve a submitted job with a supervisor's PIN; it becomes read-only.
+    def approve(self, job_id: int, supervisor_id: int, secret: pins.Secret) -> None:
+        """Approve a submitted job: unlock the supervisor's key (an enrolled supervisor's passphrase,
+        a device-only supervisor's PIN) and sign the job's canonical hash with it. The job becomes
+        read-only and keeps its approval (`jobs.approval`, mobile_app.signing.approval).
 
-        PinError for a wrong PIN (attempts left in the message); after MAX_WRONG_PINS wrong PINs
-        in a row the supervisor is locked out for LOCKOUT_S seconds (LockedOutError), even with the
-        right PIN.
+        PinError for a wrong secret (attempts left in the message); after MAX_WRONG_PINS wrong ones
+        the supervisor is locked (LockedOutError), even with the right one.
         """
         person = self.people.get(supervisor_id)
         job = self.core.row("job", job_id)
@@ -79,41 +92,15 @@ class Review:
             raise ReviewError(job_id, f"{person['name']} is not a supervisor")
         if job["status"] != "submitted":
             raise ReviewError(job_id, f"is {job['status']}, not submitted")
-        if not person["pin_hash"]:
-            raise PinError(f"no PIN is set for {person['name']}")
-        now = self.core.clock()
-        if person["locked_until"] is not None and person["locked_until"] > now:
-            raise LockedOutError(person["locked_until"] - now)
-        if not pins.pin_matches(pin, person["pin_hash"]):
-            self._wrong_pin(job_id, supervisor_id, now)
+        pair = self.people.unlock_key(supervisor_id, secret, job_id)
+        stamp = now_iso()
         with self.core.write() as conn:
-            conn.execute(
-                "UPDATE people SET failed_pins = 0, locked_until = NULL WHERE id = ?",
-                (supervisor_id,),
-            )
-            self._set_status(
-                job_id,
-                "submitted",
-                "approved",
-                supervisor_id,
-                {"approved_by": supervisor_id, "approved_at": now_iso()},
-            )
-
-    def _wrong_pin(self, job_id: int, person_id: int, now: float) -> None:
-        """Count a wrong PIN (committed), lock the person out after too many, and raise."""
-        with self.core.write() as conn:
-            failed = (
-                conn.execute("SELECT failed_pins FROM people WHERE id = ?", (person_id,)).fetchone()[0] + 1
-            )
-            locked_until = now + pins.LOCKOUT_S if failed >= pins.MAX_WRONG_PINS else None
-            conn.execute(
-                "UPDATE people SET failed_pins = ?, locked_until = ? WHERE id = ?",
-                (0 if locked_until else failed, locked_until, person_id),
-            )
-            self.core.audit(conn, job_id, person_id, "review", job_id, "pin", None, "wrong PIN")
-        if locked_until is not None:
-            raise LockedOutError(pins.LOCKOUT_S)
-        raise PinError("wrong PIN", pins.MAX_WRONG_PINS - failed)
+            self._set_status(job_id, "submitted", "approved", supervisor_id,
+                             {"approved_by": supervisor_id, "approved_at": stamp})
+            doc = self.documents.export(job_id)
+            approval = sign_approval(pair, person["name"], doc, stamp, chain.head(conn))
+            signed = json.dumps(approval.to_dict())
+            conn.execute("UPDATE jobs SET approval = ? WHERE id = ?", (signed, job_id))
 
     def open_revision(self, job_id: int, reason: str, by: int | None) -> int:
         """Copy an approved job into a new draft revision; the approved one stays as it was."""

@@ -163,13 +163,15 @@ def _m005(db: sqlite_utils.Database) -> None:
 def _m006(db: sqlite_utils.Database) -> None:
     """Version 6: signed approvals, enrolled supervisors' keys, and the audit trail as a hash chain.
 
-    Jobs approved before approvals were signed are listed in the setting `unsigned_approvals`, so
-    the integrity check tells them from jobs whose approval was removed later.
+    PINs stored as scrypt hashes are dropped (the browser build cannot check them; such a supervisor
+    sets a PIN again). Jobs approved before approvals were signed are listed in the setting
+    `unsigned_approvals`, so the integrity check tells them from jobs whose approval was removed later.
     """
     for column in ("public_key TEXT", "sealed_key TEXT", "roster_entry TEXT"):
         db.execute(f"ALTER TABLE people ADD COLUMN {column}")
     db.execute("ALTER TABLE jobs ADD COLUMN approval TEXT")
     db.execute("ALTER TABLE audit ADD COLUMN hash TEXT")
+    db.execute("UPDATE people SET pin_hash = NULL WHERE pin_hash LIKE 'scrypt$%'")
     chain.rehash_all(db.conn)
     approved = [row[0] for row in db.conn.execute("SELECT id FROM jobs WHERE status = 'approved'")]
     db.conn.execute("INSERT OR REPLACE INTO settings (key, value) VALUES ('unsigned_approvals', ?)",

@@ -10,8 +10,10 @@ core and the parts it uses:
     store.jobs       Jobs       create, all, get, set_field, reassess, audit
     store.boards     Boards     add, of_job, set_field
     store.circuits   Circuits   add, of_board, get, set_field, calc_input
+    store.roster     Roster     firm_key, pin_firm_key, load, load_folder, install_key, entry_of
     store.review     Review     submit, return_to_draft, approve, open_revision
     store.documents  Documents  export, import_, salvage
+    store.integrity  Integrity  check (the audit chain and every approved job)
 """
 
 from __future__ import annotations
@@ -29,10 +31,12 @@ from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import STORE_FILE, Core, default_data_dir, save_reason
 from mobile_app.store.documents import Documents
 from mobile_app.store.errors import OpenError
+from mobile_app.store.integrity import Integrity
 from mobile_app.store.jobs import Jobs
 from mobile_app.store.library import Library
 from mobile_app.store.people import People
 from mobile_app.store.review import Review
+from mobile_app.store.roster import Roster
 from mobile_app.store.schema import MovedAside, connect, migrate, move_aside, problem_with
 from mobile_app.store.settings import Settings
 
@@ -58,10 +62,12 @@ class Store:
         self.circuits = Circuits(self.core, self.library, self.settings)
         self.boards = Boards(self.core, self.library, self.circuits)
         self.jobs = Jobs(self.core, self.library, self.settings, self.circuits)
-        self.review = Review(self.core, self.people)
+        self.roster = Roster(self.core, self.people)
         self.documents = Documents(
-            self.core, self.people, self.library, self.jobs, self.boards, self.circuits
+            self.core, self.people, self.library, self.jobs, self.boards, self.circuits, self.roster
         )
+        self.review = Review(self.core, self.people, self.documents)
+        self.integrity = Integrity(self.core, self.roster, self.documents)
 
     @classmethod
     def open(cls, data_dir: Path | None = None) -> Self:
