@@ -18,7 +18,7 @@ import mobile_app.store as store_package
 from mobile_app.export import CAUTIONS, import_job_json, job_json_bytes, load_job_json
 from mobile_app.store import Store
 from mobile_app.store.demo import DEMO_PIN, create_demo_job
-from mobile_app.store.errors import DocumentError, ReadOnlyError
+from mobile_app.store.errors import DocumentError
 
 FORMAT_MD = Path(export_json.__file__).with_name("EXPORT-FORMAT.md")
 # The assessment keys the calculation core's contract promises (the core may add more: the format
@@ -144,20 +144,22 @@ def test_round_trip_through_a_second_store(store_job: tuple[Store, int], tmp_pat
     assert json.loads(job_json_bytes(again))["boards"][-1]["circuits"][0]["fields"]["zs"]["raw"] == "abc"
 
 
-def test_an_approved_job_comes_back_approved(tmp_path: Path) -> None:
+def test_an_approval_by_a_supervisor_the_office_never_enrolled_comes_back_submitted(tmp_path: Path) -> None:
+    # Issue 11: an import keeps "approved" only when its approval verifies; the reason is in the history.
     with Store.open(tmp_path / "site") as site:
         job_id = create_demo_job(site)
         people = {p["name"]: p["id"] for p in site.people.all()}
         site.review.submit(job_id, people["Rosa Quennell"])
         site.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
         original = site.documents.export(job_id)
+    assert original["approval"]["supervisor"] == "Ines Okafor" and original["roster_entry"] is None
     with Store.open(tmp_path / "office") as office:
         new_id = import_job_json(office, job_json_bytes(original))
         again = office.documents.export(new_id)
-        with pytest.raises(ReadOnlyError):
-            office.jobs.set_field(new_id, "description", "changed at the office")
-    assert _comparable(again) == _comparable(original)
-    assert (again["job"]["status"], again["job"]["approved_by"]) == ("approved", "Ines Okafor")
+    assert (again["job"]["status"], again["job"]["approved_by"]) == ("submitted", None)
+    assert again["approval"] is None
+    kept = [a for a in again["audit"] if a["field"] == "approval not kept"]
+    assert kept and kept[0]["new"] == "Ines Okafor is not enrolled by the firm"
 
 
 @pytest.mark.parametrize(

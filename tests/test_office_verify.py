@@ -120,7 +120,7 @@ def test_a_file_changed_without_rehashing_fails(office, approved_doc, tmp_path) 
 
 
 def test_an_unsigned_job_fails(office, approved_doc, tmp_path) -> None:
-    result = run("verify", bundle(approved_doc, tmp_path), "--office", office)
+    result = run("verify", bundle({**approved_doc, "approval": None}, tmp_path), "--office", office)
     assert result.returncode == 3 and result.stdout.startswith("unsigned: ")
 
 

@@ -111,7 +111,8 @@ def test_every_earlier_version_migrates_with_its_data(tmp_path: Path, version: i
         assert circuit["fields"]["zs"] == {"raw": "0,62 Ω", "value": 0.62, "error": None}
         assert circuit["fields"]["description"]["raw"] == "Kitchen ring — façade side"
         assert circuit["fields"]["library_device_id"]["raw"] == ""
-        assert store.people.all() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified", "has_pin": 0}]
+        assert store.people.all() == [{"id": 1, "name": "Zoë Ålund", "role": "qualified", "has_pin": 0,
+                                          "enrolled": 0}]
         assert [a["new"] for a in store.jobs.audit(1)] == ["0,62 Ω"]
         assert len(store.library.all()) == (1 if version >= 2 else 0)
         assert store.boards.of_job(1)[0]["fields"]["system"]["value"] == ("TT" if version >= 3 else None)

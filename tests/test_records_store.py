@@ -270,9 +270,9 @@ def test_a_part_works_alone_on_the_shared_core(tmp_path: Path) -> None:
 def test_people_never_show_the_pin_hash(store: Store) -> None:
     store.people.add("Ana", "supervisor", "482913")
     (person,) = store.people.all()
-    assert person == {"id": 1, "name": "Ana", "role": "supervisor", "has_pin": 1}
+    assert person == {"id": 1, "name": "Ana", "role": "supervisor", "has_pin": 1, "enrolled": 0}
     stored = store.db.conn.execute("SELECT pin_hash FROM people").fetchone()[0]
-    assert "482913" not in stored and stored.startswith("scrypt$")
+    assert "482913" not in stored and stored.startswith("pbkdf2-sha256$")
     with pytest.raises(InvalidValueError, match="role: must be one of"):
         store.people.add("Bo", "boss")
 

@@ -70,8 +70,10 @@ def test_return_needs_a_comment(store) -> None:
     review = ReviewState(store, job_id)
     review.add_supervisor("Ann", "135790")
     review.submit("Sam")
-    assert review.return_to_draft("Ann", "  ").message.startswith("Say what needs changing")
-    assert review.return_to_draft("Ann", "Circuit 3 needs R1+R2").ok
+    assert review.return_to_draft("Ann", "  ", "135790").message.startswith("Say what needs changing")
+    no_pin = review.return_to_draft("Ann", "Circuit 3 needs R1+R2")
+    assert no_pin.message.startswith("Enter the supervisor's PIN")
+    assert review.return_to_draft("Ann", "Circuit 3 needs R1+R2", "135790").ok
     assert review.status == "draft"
 
 
@@ -130,7 +132,7 @@ def test_returned_comment_and_new_revision(store) -> None:
     review = ReviewState(store, job_id)
     review.add_supervisor("Ann", "135790")
     review.submit("Sam")
-    review.return_to_draft("Ann", "Add R1+R2 on circuit 2")
+    review.return_to_draft("Ann", "Add R1+R2 on circuit 2", "135790")
     assert review.comment == "Add R1+R2 on circuit 2"
     review.submit("Sam")
     review.approve("Ann", "000000")

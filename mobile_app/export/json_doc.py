@@ -57,6 +57,33 @@ points is already there.
 - `library_devices`: manufacturer time–current curves used by the job's circuits.
 - `people`: the people the job, its circuits and its audit trail refer to.
 - `audit`: every recorded change to the job, oldest first.
+- `approval`: the supervisor's signed approval of this revision (below), or `null` if not approved.
+- `roster_entry`: the approver's roster entry, signed by the firm (below), or `null` for a supervisor
+  the office did not enrol (such an approval is *unverified*).
+
+### `approval` and `roster_entry`: what makes an approval verifiable
+An approval is an Ed25519 signature (RFC 8032) by the supervisor's key over the canonical JSON of
+`{"schema": "boardside-approval", "schema_version": 1, "document_sha256", "parts", "revision",
+"supervisor", "public_key", "approved_at", "audit_head"}`; `signature` (128 hex digits) is added
+beside them. `parts` maps each part of the document to the SHA-256 of its canonical JSON:
+`job` (the job without `id`, `status`, `parent_job_id`, `approved_by`, `approved_at`), `boards/<i>`
+(board i without `id` and `circuits`) and `boards/<i>/circuits/<j>` (circuit j without `id`, its
+`updated_by` as a name, its `library_device_id` field replaced by `library_device`, the device's
+`name`, `rating_a` and `points`); `document_sha256` is the SHA-256 of the canonical JSON of `parts`.
+Ids, `exported_at`, `cautions`, `calc_version` at the top, `people` and `audit` are not covered;
+`audit_head` is the hash of the device's audit chain when the job was approved.
+
+Canonical JSON: keys sorted by Unicode code point at every level; no whitespace outside strings
+(`,` and `:` only); text as UTF-8, not escaped except the quote, the backslash and control
+characters; numbers as Python's `json` writes them (integers in decimal, floats as the shortest text
+that reads back to the same double, e.g. `0.62`, `1e-05`, `2.0`); no NaN or infinity. It is not
+RFC 8785: a float keeps its `.0`.
+
+`roster_entry` is `{"schema": "boardside-roster-entry", "schema_version": 1, "name", "public_key",
+"valid_from", "valid_to", "firm_key", "signature"}`, the firm's signature over the canonical JSON of
+the other keys. `python -m mobile_app verify BUNDLE --office OFFICE_DIR` checks the manifest, every
+part, the signature and the entry against the firm key; an import keeps `approved` only when the
+same checks hold against the firm key pinned on the device.
 
 ### A field: `{"raw", "value", "error"}`
 Every reading and setting is kept exactly as typed beside what it means:

@@ -192,8 +192,8 @@ class Documents:
         job = doc["job"]
         people = imported.PeopleMatcher(self.people, doc)
         library_ids = self._import_library(doc.get("library_devices") or [])
-        status = imported.choice(job.get("status", "draft"), "job.status", STATUSES)
-        typed = [parse("job", n, imported.raw(job["fields"], n), self.library) for n in JOB_FIELDS]
+        status = imported.doc_choice(job.get("status", "draft"), "job.status", STATUSES)
+        typed = [parse("job", n, imported.doc_raw(job["fields"], n), self.library) for n in JOB_FIELDS]
         row = dict(triples(JOB_FIELDS, typed), **imported.review_columns(job, people), status=status)
         approval = self._imported_approval(doc) if status == "approved" else None
         if status == "approved" and approval.state != VERIFIED:
@@ -208,7 +208,7 @@ class Documents:
         ids: dict[str, dict[int, int]] = {"board": {}, "circuit": {}}
         reassessed: list[tuple[int, Outcome, Outcome]] = []
         for position, board in enumerate(doc.get("boards") or [], start=1):
-            board_typed = [parse("board", n, imported.raw(board["fields"], n), self.library)
+            board_typed = [parse("board", n, imported.doc_raw(board["fields"], n), self.library)
                            for n in BOARD_FIELDS]
             board_row = dict(triples(BOARD_FIELDS, board_typed), job_id=job_id, position=position)
             board_id = self.core.insert(conn, "boards", board_row)
@@ -253,13 +253,13 @@ class Documents:
         fields = circuit["fields"]
         parsed = []
         for name in CIRCUIT_FIELDS:
-            raw = imported.raw(fields, name)
+            raw = imported.doc_raw(fields, name)
             if name == "library_device_id" and raw.strip().isascii() and raw.strip().isdigit():
                 raw = str(library_ids.get(int(raw), raw))
             parsed.append(parse("circuit", name, raw, self.library))
         return dict(
             triples(CIRCUIT_FIELDS, parsed),
-            updated_at=imported.text(circuit.get("updated_at"), "circuit.updated_at") or now_iso(),
+            updated_at=imported.doc_text(circuit.get("updated_at"), "circuit.updated_at") or now_iso(),
             updated_by=people.by_id(circuit.get("updated_by")),
         )
 

@@ -6,9 +6,10 @@ from __future__ import annotations
 import json
 from typing import Any
 
+from mobile_app.signing import normalise_name
 from mobile_app.store.assessment import Outcome
 from mobile_app.store.core import now_iso
-from mobile_app.store.errors import DocumentError
+from mobile_app.store.errors import DocumentError, InvalidValueError
 from mobile_app.store.people import ROLES, People
 
 VERDICTS = ("pass", "fail", "not-shown")
@@ -26,18 +27,18 @@ class PeopleMatcher:
         self.people = people
         self.listed: dict[int, tuple[str, str | None]] = {}
         for person in doc.get("people") or []:
-            role = choice(person["role"], "people.role", ROLES)
-            self.listed[int(person["id"])] = (name(person["name"]), role)
+            role = doc_choice(person["role"], "people.role", ROLES)
+            self.listed[int(person["id"])] = (doc_name(person["name"]), role)
         for entry in doc.get("audit") or []:
             if entry.get("person_id") is not None and entry.get("who") is not None:
-                self.listed.setdefault(int(entry["person_id"]), (name(entry["who"]), None))
+                self.listed.setdefault(int(entry["person_id"]), (doc_name(entry["who"]), None))
         self.here: dict[tuple[str, str | None], int] = {}
 
     def by_name(self, name: Any, role: str | None = None) -> int | None:
         """This store's id for a person named in the document (None for no name)."""
         if name is None:
             return None
-        clean = name(name)
+        clean = doc_name(name)
         roles = {r for n, r in self.listed.values() if n == clean and r is not None}
         if role is None and len(roles) == 1:
             role = roles.pop()
@@ -53,11 +54,19 @@ class PeopleMatcher:
         return self.by_name(name, role)
 
     def _match(self, name: str, role: str | None) -> int:
-        """The first person here with this name (and role, if known), else a new one."""
-        for person in self.people.all():
+        """The first person here with this name (and role, if known), else one of the same name in
+        another role, else a new one (a name that looks like another's is refused: DocumentError)."""
+        everyone = self.people.all()
+        for person in everyone:
             if person["name"] == name and role in (None, person["role"]):
                 return int(person["id"])
-        return self.people.add(name, role or "apprentice")
+        for person in everyone:
+            if person["name"] == normalise_name(name):
+                return int(person["id"])
+        try:
+            return self.people.add(name, role or "apprentice")
+        except InvalidValueError as error:
+            raise DocumentError(f"person {name!r}: {error.problem}") from error
 
 
 def review_columns(job: dict[str, Any], people: PeopleMatcher) -> dict[str, Any]:
@@ -70,15 +79,15 @@ def review_columns(job: dict[str, Any], people: PeopleMatcher) -> dict[str, Any]
     stamp = now_iso()
     return {
         "revision": revision,
-        "revision_reason": text(job.get("revision_reason"), "job.revision_reason"),
+        "revision_reason": doc_text(job.get("revision_reason"), "job.revision_reason"),
         "recorded_by": people.by_name(job.get("recorded_by")),
-        "created_at": text(job.get("recorded_at"), "job.recorded_at") or stamp,
+        "created_at": doc_text(job.get("recorded_at"), "job.recorded_at") or stamp,
         "updated_at": stamp,
         "submitted_by": people.by_name(job.get("submitted_by")),
-        "submitted_at": text(job.get("submitted_at"), "job.submitted_at"),
+        "submitted_at": doc_text(job.get("submitted_at"), "job.submitted_at"),
         "approved_by": people.by_name(job.get("approved_by"), "supervisor"),
-        "approved_at": text(job.get("approved_at"), "job.approved_at"),
-        "review_comment": text(job.get("review_comment"), "job.review_comment"),
+        "approved_at": doc_text(job.get("approved_at"), "job.approved_at"),
+        "review_comment": doc_text(job.get("review_comment"), "job.review_comment"),
     }
 
 
@@ -88,10 +97,10 @@ def exported_outcome(circuit: dict[str, Any]) -> Outcome:
     if assessment is not None and not isinstance(assessment, dict):
         raise DocumentError("a circuit's assessment must be an object or null")
     return Outcome(
-        choice(verdict_word(circuit.get("verdict")), "circuit.verdict", VERDICTS),
+        doc_choice(verdict_word(circuit.get("verdict")), "circuit.verdict", VERDICTS),
         None if assessment is None else json.dumps(assessment, ensure_ascii=False, separators=(",", ":")),
-        text(circuit.get("calc_version"), "circuit.calc_version"),
-        text(circuit.get("assessment_error"), "circuit.assessment_error"),
+        doc_text(circuit.get("calc_version"), "circuit.calc_version"),
+        doc_text(circuit.get("assessment_error"), "circuit.assessment_error"),
     )
 
 
@@ -117,7 +126,7 @@ def audit_row(
 ) -> dict[str, Any]:
     """An exported audit entry as a row of this store: same time, person, change; ids mapped
     (a board or circuit the document does not hold gets no id)."""
-    entity = name(entry["entity"])
+    entity = doc_name(entry["entity"])
     source = entry.get("entity_id")
     if entity in ("job", "review"):
         entity_id: int | None = job_id
@@ -125,13 +134,13 @@ def audit_row(
         entity_id = None if source is None else ids.get(entity, {}).get(int(source))
     return {
         "job_id": job_id,
-        "at": name(entry["when"]),
+        "at": doc_name(entry["when"]),
         "person_id": people.by_id(entry.get("person_id")),
         "entity": entity,
         "entity_id": entity_id,
-        "field": text(entry.get("field"), "audit.field"),
-        "old": text(entry.get("old"), "audit.old"),
-        "new": text(entry.get("new"), "audit.new"),
+        "field": doc_text(entry.get("field"), "audit.field"),
+        "old": doc_text(entry.get("old"), "audit.old"),
+        "new": doc_text(entry.get("new"), "audit.new"),
     }
 
 
@@ -140,28 +149,28 @@ def source_id(item: dict[str, Any]) -> int:
     return -1 if item.get("id") is None else int(item["id"])
 
 
-def choice(value: Any, what: str, allowed: tuple[str, ...]) -> str:
+def doc_choice(value: Any, what: str, allowed: tuple[str, ...]) -> str:
     """`value` if it is one of `allowed`, else DocumentError."""
     if value not in allowed:
         raise DocumentError(f"{what} {value!r} is not one of {', '.join(allowed)}")
     return str(value)
 
 
-def name(value: Any) -> str:
+def doc_name(value: Any) -> str:
     """A required piece of text (a name, a time) from a document, stripped; DocumentError if blank."""
     if not isinstance(value, str) or not value.strip():
         raise DocumentError(f"{value!r} is not a non-blank text")
     return value.strip()
 
 
-def text(value: Any, what: str) -> str | None:
+def doc_text(value: Any, what: str) -> str | None:
     """Optional text from a document: a string or None, else DocumentError."""
     if value is not None and not isinstance(value, str):
         raise DocumentError(f"{what} must be text or null, not {type(value).__name__}")
     return value
 
 
-def raw(fields: dict[str, Any], name: str) -> str:
+def doc_raw(fields: dict[str, Any], name: str) -> str:
     """The raw text of a field in a document's fields, blank when absent."""
     entry = fields.get(name) or {}
     return "" if entry.get("raw") is None else str(entry["raw"])
