@@ -121,6 +121,7 @@ def _manifest(doc: dict[str, Any], name: str, board_id: int | None,
             for file_name, data in contents.items()
         },
         "cautions": list(CAUTIONS),
+        "approval_signature": (doc.get("approval") or {}).get("signature"),
     }
     return (json.dumps(manifest, ensure_ascii=False, indent=2) + "\n").encode("utf-8")
 

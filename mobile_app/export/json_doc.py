@@ -23,10 +23,12 @@ half-written.
  "job_id": 12, "revision": 1, "board_id": null, "exported_at": "2026-12-02T07:15:03+00:00",
  "calc_version": "0.1.0",
  "files": {"<file name>": {"sha256": "<64 lower-case hex digits>", "bytes": 12345}, ...},
- "cautions": ["...", "...", "..."]}
+ "cautions": ["...", "...", "..."], "approval_signature": "<128 hex digits, or null>"}
 ```
 `files` lists the JSON, CSV and PDF files (not the manifest itself): `sha256` is the SHA-256 of the
 file's bytes and `bytes` its size. `board_id` is the board's id in a one-board export, else `null`.
+`approval_signature` repeats the signature of the job's approval (below), binding the manifest to
+it; `verify` also checks that the CSV is the one the approved JSON gives.
 
 ## The JSON file
 UTF-8, one line (not indented), numbers as JSON numbers (never NaN or Infinity), `null` where nothing is

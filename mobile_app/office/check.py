@@ -1,7 +1,8 @@
 """The office's check of a bundle: is this record what an enrolled supervisor approved?
 
 In order, each failure raising NotVerifiedError with its kind:
-1. every file matches the manifest ("changed file");
+1. every file matches the manifest ("changed file"), and after the checks of the JSON below, the
+   manifest names the approval and the CSV is the one the JSON gives ("changed file");
 2. the job is approved and carries an approval ("unsigned");
 3. the approval's signature holds over its fields ("bad signature");
 4. every part of the document hashes as approved, and the document names the same approver
@@ -49,7 +50,7 @@ class Verified:
         return f"approved by {self.supervisor} at {self.approved_at}, verified"
 
 
-def _document(bundle_dir: Path) -> dict[str, Any]:
+def _document(bundle_dir: Path) -> tuple[dict[str, Any], Any]:
     from mobile_app.export import BundleCheckError, read_bundle
 
     try:
@@ -61,7 +62,18 @@ def _document(bundle_dir: Path) -> dict[str, Any]:
         raise NotVerifiedError("changed file", f"the JSON file is unreadable ({error})") from error
     if not isinstance(doc, dict):
         raise NotVerifiedError("changed file", "the JSON file is not a job document")
-    return doc
+    return doc, bundle
+
+
+def _bound(doc: dict[str, Any], bundle: Any, approval: Approval) -> None:
+    """The manifest names this approval, and the CSV is the one the approved JSON gives."""
+    from mobile_app.export import job_csv_bytes
+
+    manifest = json.loads(bundle.manifest.read_text(encoding="utf-8"))
+    if manifest.get("approval_signature") != approval.signature.hex():
+        raise NotVerifiedError("changed file", "the manifest does not name this approval")
+    if bundle.files[1].read_bytes() != job_csv_bytes(doc):
+        raise NotVerifiedError("changed file", f"{bundle.files[1].name} differs from the approved JSON")
 
 
 def _approval(doc: dict[str, Any]) -> Approval:
@@ -132,8 +144,9 @@ def verify_bundle(bundle_dir: Path, office_dir: Path) -> Verified:
     """Check a bundle against the office folder (module docstring); NotVerifiedError if it fails,
     OfficeFolderError if the office folder has no firm key."""
     firm_key = firm_public_key(office_dir / ROSTER / FIRM_KEY)
-    doc = _document(bundle_dir)
+    doc, bundle = _document(bundle_dir)
     approval = _approval(doc)
     _unchanged(doc, approval)
+    _bound(doc, bundle, approval)
     _enrolled(doc, approval, office_dir, firm_key)
     return Verified(approval.supervisor, approval.approved_at)
