@@ -4,7 +4,9 @@ approved job still match its signed approval?
 A file edited outside the app (a status set to approved, a reading changed, audit rows deleted)
 shows here: the chain breaks at the first changed entry (chain.py), and an approved job whose
 approval is missing, does not verify, or commits to an audit head the chain no longer holds is
-marked broken. Jobs approved before approvals were signed (listed by migration 5) are unverified,
+marked broken (an imported job's approval commits to its own device's chain, which is not here). The
+chain is plain SHA-256: someone who rewrites the whole file can rebuild it, but not the signatures.
+Jobs approved before approvals were signed (listed by migration 5) are unverified,
 not broken. The jobs screen shows `IntegrityReport.message` and marks `broken` jobs.
 """
 
@@ -73,8 +75,14 @@ class Integrity:
                 unverified[job_id] = "approved before approvals were signed"
             elif result.state in (UNSIGNED, BROKEN):
                 broken[job_id] = "approved without a signature" if result.state == UNSIGNED else result.reason
-            elif result.approval is not None and result.approval.audit_head not in heads:
+            elif result.approval is not None and result.approval.audit_head not in heads \
+                    and not self._imported(job_id):
                 broken[job_id] = "the history before its approval was changed"
             elif result.state != VERIFIED:
                 unverified[job_id] = result.reason
         return IntegrityReport(chain.first_break(entries), broken, unverified)
+
+    def _imported(self, job_id: int) -> bool:
+        """An imported job's approval commits to the chain of the device it came from, not this one."""
+        return self.core.one("SELECT 1 FROM audit WHERE job_id = ? AND entity = 'job' AND field = 'imported'",
+                             (job_id,)) is not None
