@@ -46,8 +46,9 @@ class IntegrityReport:
             parts.append(f"the history was changed outside the app (from entry {self.chain_break})")
         if self.broken:
             jobs = ", ".join(str(job_id) for job_id in sorted(self.broken))
-            parts.append(f"approved job{'s' if len(self.broken) > 1 else ''} {jobs} no longer match "
-                         "their approval")
+            many = len(self.broken) > 1
+            parts.append(f"approved job{'s' if many else ''} {jobs} no longer "
+                         + ("match their approvals" if many else "matches its approval"))
         return "This store was altered: " + "; ".join(parts) + "."
 
 
