@@ -27,5 +27,6 @@ def test_a_status_set_to_approved_in_the_file_is_announced_and_marked(tmp_path: 
     conn.close()
     with Store.open(tmp_path) as store:
         notice = IntegrityNotice(store)
-        assert notice.banner == f"This store was altered: approved job {job_id} no longer matches its approval."
+        expected = f"This store was altered: approved job {job_id} no longer matches its approval."
+        assert notice.banner == expected
         assert notice.mark(job_id) == "altered: approved without a signature"
