@@ -20,7 +20,6 @@ from mobile_app.store import (
     UnknownFieldError,
 )
 from mobile_app.store.core import Core, default_data_dir
-from mobile_app.store.schema import SCHEMA_VERSION
 from mobile_app.store.demo import BOARDS, DEMO_CURVE_NAME, create_demo_job
 from mobile_app.store.errors import InvalidValueError
 from mobile_app.store.library import Library
