@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
+from pypdf import PdfReader
 
 from mobile_app.export import export_bundle
 from mobile_app.export.bundle import MANIFEST_NAME
@@ -105,6 +106,8 @@ def test_a_device_only_supervisor_is_unverified_at_the_office(office: Path, tmp_
         store.review.approve(job_id, ines, DEMO_PIN)
         bundle = export_bundle(store, job_id, tmp_path / "out").path
         assert store.integrity.check().unverified == {job_id: f"{SUPERVISOR} is not enrolled by the firm"}
+    pdf_text = " ".join(page.extract_text() for page in PdfReader(next(bundle.glob("*.pdf"))).pages)
+    assert "Unverified approval" in " ".join(pdf_text.split())
     result = run("verify", bundle, "--office", office)
     assert result.returncode == 3
     assert result.stdout == f"unverified supervisor: {SUPERVISOR}'s key was never enrolled by the firm\n"

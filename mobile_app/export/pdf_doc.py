@@ -277,8 +277,9 @@ def _working(pdf: FPDF, board: dict[str, Any], circuit: dict[str, Any]) -> None:
         paragraph(pdf, 4, "Readings not usable: " + "; ".join(problems))
 
 
-def _review_block(pdf: FPDF, job: dict[str, Any]) -> None:
-    """Who recorded, submitted and approved the job, when, and the reviewer's comment."""
+def _review_block(pdf: FPDF, job: dict[str, Any], doc: dict[str, Any]) -> None:
+    """Who recorded, submitted and approved the job, when, and the reviewer's comment; an approval
+    by a supervisor the office did not enrol is marked unverified."""
     _heading(pdf, "Review and approval")
     _key_value_rows(pdf, [
         ("Status", _one_line(job.get("status")) or "—"),
@@ -293,6 +294,11 @@ def _review_block(pdf: FPDF, job: dict[str, Any]) -> None:
     if job.get("status") != "approved":
         use_font(pdf, "B", 9)
         paragraph(pdf, 5, "Not approved: this record has not been approved by a supervisor.")
+        use_font(pdf, "", 9)
+    elif doc.get("roster_entry") is None:
+        use_font(pdf, "B", 9)
+        paragraph(pdf, 5, "Unverified approval: the supervisor was not enrolled by the office, and the "
+                          "office will not accept this approval.")
         use_font(pdf, "", 9)
 
 
@@ -310,7 +316,7 @@ def job_pdf_bytes(doc: dict[str, Any]) -> bytes:
     boards = doc.get("boards") or []
     for board in boards:
         _board_table(pdf, board, library)
-    _review_block(pdf, job)
+    _review_block(pdf, job, doc)
     pdf.add_page()
     _heading(pdf, "Working, circuit by circuit", 13)
     for board in boards:
