@@ -116,4 +116,5 @@ def test_headline_is_the_primary_cause() -> None:
 
     assert headline("pass", None) == "Every check passes"
     assert headline("fail", {"text": "Disconnection: Zs too high"}) == "Fails: Disconnection: Zs too high"
-    assert headline("not-shown", {"text": "Polarity: not recorded"}) == "Not shown yet: Polarity: not recorded"
+    cause = {"text": "Polarity: not recorded"}
+    assert headline("not-shown", cause) == "Not shown yet: Polarity: not recorded"
