@@ -23,6 +23,7 @@ from typing import Any
 from mobile_app.export.common import CAUTIONS, BundleCheckError, BundleExistsError
 from mobile_app.export.csv_doc import job_csv_bytes
 from mobile_app.export.json_doc import check_document, job_json_bytes
+from mobile_app.export.names import ascii_words, fit_name
 from mobile_app.export.pdf_doc import job_pdf_bytes
 from mobile_app.store.errors import NotFoundError
 
@@ -30,7 +31,6 @@ MANIFEST_NAME = "manifest.json"
 MANIFEST_SCHEMA = "boardside-bundle"
 MANIFEST_SCHEMA_VERSION = 1
 MAX_SAME_NAME = 999
-_SLUG_UNSAFE = re.compile(r"[^A-Za-z0-9]+")
 _DATE = re.compile(r"\d{4}-\d{2}-\d{2}")
 _WRITERS: tuple[tuple[str, Callable[[dict[str, Any]], bytes]], ...] = (
     ("json", job_json_bytes),
@@ -57,23 +57,21 @@ class Bundle:
         return self.path.name
 
 
-def slug(text: str, max_chars: int = 40) -> str:
-    """`text` as a file-name part: runs of anything but ASCII letters and digits become one `-`."""
-    return _SLUG_UNSAFE.sub("-", text).strip("-")[:max_chars].strip("-")
-
-
 def bundle_base_name(doc: dict[str, Any], board_designation: str | None = None) -> str:
-    """"job12-ACME-4471-rev1-2026-12-02": job id, client reference, revision, (board,) export date."""
+    """"job12-ACME-4471-rev1-2026-12-02": job id, client reference, revision, (board,) export date.
+
+    At most `names.BASE_BUDGET` characters: the client reference and the board's designation are
+    shortened to fit; the job id, the revision, `board` and the date are kept whole (see `names`).
+    """
     job = doc.get("job") or {}
     exported = str(doc.get("exported_at") or "")[:10]
     if not _DATE.fullmatch(exported):
         exported = datetime.datetime.now(datetime.UTC).date().isoformat()
-    parts = [f"job{int(job.get('id') or 0)}", slug(str(job.get("client_ref") or "")),
-             f"rev{int(job.get('revision') or 1)}"]
+    parts = [(f"job{int(job.get('id') or 0)}", False), (str(job.get("client_ref") or ""), True),
+             (f"rev{int(job.get('revision') or 1)}", False)]
     if board_designation is not None:
-        parts.append(f"board-{slug(board_designation) or 'unnamed'}")
-    parts.append(exported)
-    return "-".join(part for part in parts if part)
+        parts += [("board", False), (ascii_words(board_designation) or "unnamed", True)]
+    return fit_name([*parts, (exported, False)])
 
 
 def file_sha256(path: Path) -> str:

@@ -10,10 +10,16 @@ job12-ACME-4471-rev1-2026-12-02/
   job12-ACME-4471-rev1-2026-12-02.pdf    the printed record with the working of every circuit
   manifest.json                          the size and SHA-256 of each file above
 ```
-The name is `job<id>-<client reference>-rev<revision>-<UTC date of export>`, the client reference
-reduced to ASCII letters, digits and `-` (at most 40 characters). A second export of the same revision
-on the same day is named `...-2026-12-02-2`, then `-3`, up to `-999`. An export of one board adds
-`-board-<designation>` before the date. Files are read-only. A bundle is written in a hidden work folder
+The name is `job<id>-<client reference>-rev<revision>-<UTC date of export>`. A second export of the
+same revision on the same day is named `...-2026-12-02-2`, then `-3`, up to `-999`. An export of one
+board adds `-board-<designation>` before the date. A name is at most 64 characters of ASCII letters,
+digits and `-`, so it fits every common file system and WebDAV server, also inside an office's synced
+folder on Windows: the job id, revision, `board`, date and counter are kept whole and the client
+reference and designation are shortened to fit; accents are dropped (`é` → `e`, `ß` → `ss`) and
+letters of other scripts left out (the full text is in the files). File names add `.json`, `.csv`,
+`.pdf` (at most 69 characters); on the office server the folder name gains `-` and 16 hex digits of
+the bundle's hash (at most 81), so a path below the office folder is at most 151 characters.
+Files are read-only. A bundle is written in a hidden work folder
 (`.<name>.<random>.partial`) and moved under its name only when complete, so a bundle folder is never
 half-written.
 

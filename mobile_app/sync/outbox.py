@@ -23,12 +23,13 @@ from typing import Any
 
 from sqlite_utils import Database
 
+from mobile_app.export.names import NAME_BUDGET
 from mobile_app.store.core import db_lock, write_transaction
 
 TABLE = "outbox"
 MANIFEST = "manifest.json"
 _UNSAFE = re.compile(r"[^A-Za-z0-9._-]+")
-MAX_NAME_CHARS = 80
+MAX_NAME_CHARS = NAME_BUDGET + len(".json")  # a bundle's file name, see export.names
 MAX_MANIFEST_BYTES = 1 << 20
 _COLUMNS: dict[str, type] = {
     "id": int,
@@ -72,13 +73,22 @@ def utc_now() -> datetime:
     return datetime.now(UTC)
 
 
-def safe_name(name: str) -> str:
+def safe_name(name: str, max_chars: int = MAX_NAME_CHARS) -> str:
     """A file or folder name safe on any WebDAV server: letters, digits, `.`, `_`, `-` only.
 
-    Other runs become `_`; leading dots and `_` are dropped (no hidden files, no `..`); at most 80
-    characters; an empty result becomes `bundle`.
+    Other runs become `_`; leading dots and `_` are dropped (no hidden files, no `..`); an empty
+    result becomes `bundle`. A longer name than `max_chars` keeps its extension and is told apart
+    from others with the same beginning by 8 hex digits of the SHA-256 of the whole name
+    (`<start>-<8 hex>.pdf`), so shortening never makes two names one.
     """
-    return _UNSAFE.sub("_", name).lstrip("._")[:MAX_NAME_CHARS].rstrip("_") or "bundle"
+    safe = _UNSAFE.sub("_", name).lstrip("._").rstrip("_") or "bundle"
+    if len(safe) <= max_chars:
+        return safe
+    stem, dot, extension = safe.rpartition(".")
+    extension = f".{extension}" if dot and stem and len(extension) <= 8 else ""
+    stem = safe[: len(safe) - len(extension)]
+    tag = "-" + hashlib.sha256(name.encode("utf-8", "surrogatepass")).hexdigest()[:8]
+    return stem[: max_chars - len(tag) - len(extension)].rstrip("._-") + tag + extension
 
 
 def file_sha256(path: Path) -> str:
@@ -151,8 +161,9 @@ def bundle_sha256(files: list[BundleFile]) -> str:
 
 
 def remote_folder(bundle_name: str, bundle_hash: str) -> str:
-    """The bundle's folder name on the server: sanitised bundle name + 16 hex digits of its hash."""
-    return f"{safe_name(bundle_name)}-{bundle_hash[:16]}"
+    """The bundle's folder name on the server: sanitised bundle name (at most `NAME_BUDGET`
+    characters, see `mobile_app.export.names`) + 16 hex digits of its hash."""
+    return f"{safe_name(bundle_name, NAME_BUDGET)}-{bundle_hash[:16]}"
 
 
 def files_from_row(row: dict[str, Any]) -> list[BundleFile]:
