@@ -8,7 +8,14 @@ plus optional faults, applied by a small WSGI layer in front of wsgidav (the ser
 - `--exit-after-bytes B`  the process dies (os._exit) once B bytes of PUT bodies were read: the
                       server stops in the middle of an upload, leaving a partial file on its disk;
 - `--cert PEM --key PEM`  serve https with that certificate;
-- `--truncate-put B`  PUT bodies are cut to B bytes but the server still answers 201 (a lying server).
+- `--truncate-put B`  PUT bodies are cut to B bytes but the server still answers 201 (a lying server);
+- `--trickle SECONDS:N[:METHOD]`  the first N answers (to METHOD only, if given) send their body one
+                      byte every SECONDS (a stalled link that never stays silent long enough for a
+                      per-read timeout);
+- `--exit-after METHOD`  the process dies (os._exit) after doing the first METHOD request and before
+                      answering it: the server did the work, the client never hears so;
+- `--made-meanwhile`  a PROPFIND that finds no folder is answered 404, and then the folder is made on
+                      the server's disk, as another device would make it between our PROPFIND and MKCOL.
 
 Every request is appended to the log file as `METHOD PATH STATUS` so tests can count them.
 `DavServer` starts and stops such a process from a test.
@@ -41,6 +48,11 @@ class _Faults:
         self.slow_s, self.slow_left = float(slow[0]), int(slow[1])
         self.exit_after_bytes = args.exit_after_bytes
         self.truncate_put = args.truncate_put
+        trickle = (args.trickle or "0:0").split(":")
+        self.trickle_s, self.trickle_left = float(trickle[0]), int(trickle[1])
+        self.trickle_method = trickle[2] if len(trickle) > 2 else None
+        self.exit_after = args.exit_after
+        self.made_meanwhile = args.made_meanwhile
         self.put_bytes = 0
 
     def take(self, name: str) -> bool:
@@ -86,7 +98,15 @@ class _TruncatingInput:
         return kept
 
 
-def fault_layer(app, faults: _Faults, log_path: Path):
+def _trickled(body, seconds: float):
+    """An answer's body sent one byte at a time, `seconds` apart."""
+    for chunk in body:
+        for i in range(len(chunk)):
+            time.sleep(seconds)
+            yield chunk[i:i + 1]
+
+
+def fault_layer(app, faults: _Faults, log_path: Path, root: Path):
     """Wrap a WSGI app with the faults and the request log."""
     log_lock = threading.Lock()
 
@@ -112,11 +132,27 @@ def fault_layer(app, faults: _Faults, log_path: Path):
                 if int(environ.get("CONTENT_LENGTH") or 0) > limit:
                     environ["CONTENT_LENGTH"] = str(limit)
 
+        seen: list[str] = []
+
         def logging_start(status, headers, exc_info=None):
             write_log(environ, status)
+            seen.append(status)
             return start_response(status, headers, exc_info)
 
-        return app(environ, logging_start)
+        answer = app(environ, logging_start)
+        try:
+            body = list(answer)
+        finally:
+            if hasattr(answer, "close"):
+                answer.close()
+        if (faults.made_meanwhile and environ["REQUEST_METHOD"] == "PROPFIND"
+                and seen and seen[0].startswith("404")):
+            (root / environ.get("PATH_INFO", "").strip("/")).mkdir(parents=True, exist_ok=True)
+        if faults.exit_after == environ["REQUEST_METHOD"]:
+            os._exit(3)
+        if faults.trickle_method in (None, environ["REQUEST_METHOD"]) and faults.take("trickle_left"):
+            return _trickled(body, faults.trickle_s)
+        return body
 
     return wrapped
 
@@ -140,7 +176,7 @@ def serve(args: argparse.Namespace) -> None:
         "logging": {"enable": False, "enable_loggers": []},
         "dir_browser": {"enable": False},
     }
-    app = fault_layer(WsgiDAVApp(config), _Faults(args), Path(args.log))
+    app = fault_layer(WsgiDAVApp(config), _Faults(args), Path(args.log), Path(args.root))
     server = wsgi.Server(("127.0.0.1", args.port), app, numthreads=8)
     if args.cert:
         from cheroot.ssl.builtin import BuiltinSSLAdapter
@@ -237,6 +273,9 @@ def main() -> None:
     parser.add_argument("--slow")
     parser.add_argument("--exit-after-bytes", type=int)
     parser.add_argument("--truncate-put", type=int)
+    parser.add_argument("--trickle")
+    parser.add_argument("--made-meanwhile", action="store_true")
+    parser.add_argument("--exit-after")
     parser.add_argument("--cert")
     parser.add_argument("--key")
     serve(parser.parse_args())

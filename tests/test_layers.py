@@ -84,6 +84,7 @@ def test_every_public_name_of_a_package_resolves(package: str) -> None:
 
 
 HEAVY = ["fpdf", "httpx", "mobile_app.export.bundle", "mobile_app.sync.runner", "webdav4"]
+NETWORK = {"httpx", "httpcore", "webdav4", "socket", "ssl", "urllib3", "requests"}
 
 
 def test_the_package_faces_load_no_pdf_or_network_library_until_used():
@@ -95,8 +96,18 @@ def test_the_package_faces_load_no_pdf_or_network_library_until_used():
         "from mobile_app.export import export_bundle\n"
         "from mobile_app.sync import sync_once\n"
         f"print(sorted(m for m in {HEAVY!r} if m in sys.modules))\n"
+        "from mobile_app.sync import WebDavTransport\n"
+        f"print(sorted(m for m in {HEAVY!r} if m in sys.modules))\n"
     )
     result = subprocess.run(
         [sys.executable, "-c", script], capture_output=True, text=True, cwd=ROOT, timeout=120, check=True
     )
-    assert result.stdout.splitlines() == ["[]", str(HEAVY)]
+    runner_loaded = ["fpdf", "mobile_app.export.bundle", "mobile_app.sync.runner"]
+    assert result.stdout.splitlines() == ["[]", str(runner_loaded), str(HEAVY)]
+
+
+def test_only_the_webdav_transport_imports_a_network_library():
+    """The sync's seam (issue 12): a browser transport on fetch can replace `webdav` alone."""
+    for path in (ROOT / APP / "sync").glob("*.py"):
+        network = {name.split(".")[0] for name in imported_names(path)} & NETWORK
+        assert not network or path.name == "webdav.py", (path.name, network)

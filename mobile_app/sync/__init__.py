@@ -9,20 +9,31 @@ Public surface:
     SyncTarget(url, user, password, timeout_s=30, ca_file=None)
     save_target(store, url, user, password) ; load_target(store) -> SyncTarget
     check_url(url) ; scrub(text, target) ; save_password(data_dir, pw) ; load_password(data_dir)
-    sync_once(store_or_db, target, now=None, force=False, progress=None) -> SyncReport
+    sync_once(store_or_db, transport, now=None, force=False, progress=None, limits=None) -> SyncReport
+                                       # transport: a Transport, or a SyncTarget for the platform's own
     sync_store(store, force=False, progress=None) -> SyncReport      # with the saved target
-    SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background, its own Store
+    SyncLimits(run_s=600, bundle_s=180) ; SyncLimits.of(store)        # settings sync_run_limit_s,
+                                       # sync_bundle_limit_s: time limits measured from the start
+    SyncReport: sent, waiting, error, error_kind, probed, next_try_at, busy (another run holds the
+                store's lease), stopped_at_limit, cleaned (leftover uploads deleted)
+    Transport                          # the seam: set_deadline, kind, make_folder, put, get, move,
+                                       # delete, close (see `transport`)
+    open_transport(target) -> Transport ; WebDavTransport(target)    # webdav4 over httpx
+    SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background thread, server form
 
 Errors: OutboxError with BundleError and UnknownBundleError (the outbox); SyncError with
-NotConfiguredError, InsecureTargetError, OfflineError, DroppedError, SlowServerError, AuthError,
-ServerError, StorageFullError, ProtocolError, CertificateError and VerifyError (the sync; `kind`
-picks the backoff). Neither is a StoreError. `python -m mobile_app sync` is
-`mobile_app.sync.cli.cli_sync`.
+NotConfiguredError, InsecureTargetError, OfflineError, DroppedError, SlowServerError (and its
+TimeLimitError), AuthError, ServerError, StorageFullError, ProtocolError, CertificateError and
+VerifyError (the sync; `kind` picks the backoff). Neither is a StoreError. `python -m mobile_app sync`
+is `mobile_app.sync.cli.cli_sync`.
 
 Modules: `outbox` (the table, no network), `target` (the office folder, its address rules, the
-password on the device, the errors), `runner` (one run and the background task, webdav4 over httpx),
-`cli`. Imports point to the store only. A name is imported from its module when first used, so the
-outbox can be read without loading httpx or webdav4.
+password on the device, the errors), `transport` (the seam), `runner` (one run: limits, backoff),
+`send` (one bundle: temporary folder, verify, MOVE), `lease` (one run at a time per store, a row in
+the database), `connect` (the platform's transport), `webdav` (webdav4 over httpx, the only module
+importing a network library), `task` (the background thread), `cli`. Imports point to the export
+names and the store only. A name is imported from its module when first used, so the outbox and the
+runner can be loaded without httpx or webdav4.
 """
 
 from __future__ import annotations
@@ -31,6 +42,7 @@ import importlib
 from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
+    from mobile_app.sync.connect import open_transport
     from mobile_app.sync.outbox import (
         BundleError,
         Outbox,
@@ -38,8 +50,8 @@ if TYPE_CHECKING:
         UnknownBundleError,
     )
     from mobile_app.sync.runner import (
+        SyncLimits,
         SyncReport,
-        SyncTask,
         sync_once,
         sync_store,
     )
@@ -56,6 +68,7 @@ if TYPE_CHECKING:
         StorageFullError,
         SyncError,
         SyncTarget,
+        TimeLimitError,
         VerifyError,
         check_url,
         load_password,
@@ -64,14 +77,22 @@ if TYPE_CHECKING:
         save_target,
         scrub,
     )
+    from mobile_app.sync.task import SyncTask
+    from mobile_app.sync.transport import Transport
+    from mobile_app.sync.webdav import WebDavTransport
 
 _MODULE_OF = {
     "Outbox": "outbox",
     "OutboxError": "outbox",
     "BundleError": "outbox",
     "UnknownBundleError": "outbox",
+    "SyncLimits": "runner",
     "SyncReport": "runner",
-    "SyncTask": "runner",
+    "open_transport": "connect",
+    "Transport": "transport",
+    "WebDavTransport": "webdav",
+    "TimeLimitError": "target",
+    "SyncTask": "task",
     "sync_once": "runner",
     "sync_store": "runner",
     "SyncTarget": "target",
@@ -110,14 +131,19 @@ __all__ = [
     "SlowServerError",
     "StorageFullError",
     "SyncError",
+    "SyncLimits",
     "SyncReport",
     "SyncTarget",
     "SyncTask",
+    "TimeLimitError",
+    "Transport",
     "UnknownBundleError",
     "VerifyError",
+    "WebDavTransport",
     "check_url",
     "load_password",
     "load_target",
+    "open_transport",
     "save_password",
     "save_target",
     "scrub",

@@ -14,8 +14,8 @@ from mobile_app.sync.target import InsecureTargetError, NotConfiguredError
 def cli_sync(data_dir: Path | None) -> int:
     """`python -m mobile_app sync`: send now; print what was sent, what waits and the last error.
 
-    Exit 0 when nothing waits because of an error, 1 when something does, 2 for a refused or
-    missing office folder while bundles wait.
+    Exit 0 when nothing waits because of an error, 1 when something does or another sync of this
+    store is running, 2 for a refused or missing office folder while bundles wait.
     """
     store = Store.open(data_dir)
     try:
@@ -25,6 +25,9 @@ def cli_sync(data_dir: Path | None) -> int:
         except (NotConfiguredError, InsecureTargetError) as exc:
             print(f"sync: {exc}", file=sys.stderr)
             return 2
+        if report.busy:
+            print(f"sync: {report.error}", file=sys.stderr)
+            return 1
         print_report(outbox, report)
         return 1 if any(row["last_error"] for row in outbox.waiting()) else 0
     finally:

@@ -4,7 +4,8 @@ One row per bundle in the table `outbox` of the store's database (created here i
 where the bundle lies, its files with their sizes and SHA-256, the deterministic remote folder name
 (bundle name + the first 16 hex digits of the bundle hash, so the same bundle never lands under two
 names), its state (`waiting` or `sent`), attempts, next try time, the last error in plain words
-and its kind, and when it was queued, last tried and sent. All times are ISO-8601 UTC text of one
+and its kind, when it was queued, last tried and sent, and the temporary folder on the server its
+upload went to while it was not yet moved into place (`staging`). All times are ISO-8601 UTC text of one
 fixed format, so they sort as text. Nothing here touches the network or deletes a file.
 
 Every use of the database takes the lock the store takes (`core.db_lock`), and every write is one of
@@ -48,6 +49,7 @@ _COLUMNS: dict[str, type] = {
     "queued_at": str,
     "last_try_at": str,
     "sent_at": str,
+    "staging": str,
 }
 
 
@@ -180,9 +182,12 @@ class Outbox:
         self.ensure_table()
 
     def ensure_table(self) -> None:
-        """Create the outbox table and its indexes if they are missing."""
+        """Create the outbox table and its indexes if they are missing (and a column added since)."""
         with self._lock:
             if TABLE in self.db.table_names():
+                if "staging" not in self.db[TABLE].columns_dict:
+                    with write_transaction(self.db) as conn:
+                        conn.execute(f"ALTER TABLE {TABLE} ADD COLUMN staging TEXT")
                 return
             with write_transaction(self.db):
                 if TABLE in self.db.table_names():
@@ -264,8 +269,18 @@ class Outbox:
         moment = iso(now or utc_now())
         with write_transaction(self.db):
             self.db[TABLE].update(entry_id, {
-                "status": "sent", "sent_at": moment, "last_try_at": moment,
+                "status": "sent", "sent_at": moment, "last_try_at": moment, "staging": None,
                 "last_error": None, "last_error_kind": None, "next_try_at": None})
+
+    def mark_staging(self, entry_id: int, staging: str | None) -> None:
+        """Record where on the server a bundle is being uploaded before it is moved into place
+        (None once that temporary folder is gone), so a run that was stopped can be cleaned up."""
+        with write_transaction(self.db):
+            self.db[TABLE].update(entry_id, {"staging": staging})
+
+    def staged(self) -> list[dict[str, Any]]:
+        """Waiting rows that may have left a temporary upload folder on the server."""
+        return self._rows("status = 'waiting' and staging is not null", order_by="id")
 
     def mark_failed(self, entry_id: int, message: str, kind: str, next_try_at: datetime,
                     now: datetime | None = None) -> None:

@@ -1,55 +1,48 @@
 """Send the outbox to the office's WebDAV folder (RFC 4918), verify what arrived, then mark it sent.
 
-`sync_once(store_or_db, target)` probes the folder (PROPFIND Depth 0; a missing folder is created with
-MKCOL), then for each bundle that is due: MKCOL its folder, PUT each file with the webdav4 client (the
-manifest last, overwriting any partial upload of its own), GET each file back and compare size and
-SHA-256, and only then mark the bundle sent. ETags are not used: common servers (wsgidav, Nextcloud)
-make them from metadata, not content, so they cannot prove the bytes. Any error other than one bundle's
-own stops the run, and every due bundle backs off exponentially with jitter; state lives in the
-database, so a restart resumes. Nothing local is ever deleted.
+`sync_once(store_or_db, transport)` takes the store's sync lease (one run at a time, see `lease`),
+probes the folder (PROPFIND Depth 0; a missing folder is made with MKCOL, and one another device made
+meanwhile is fine), deletes what stopped runs left, then sends each due bundle into a temporary folder,
+reads every file back (size and SHA-256) and moves the folder into place (see `send`); only then is
+the bundle marked sent. ETags are not used: common servers (wsgidav, Nextcloud) make them from
+metadata, not content, so they cannot prove the bytes. Any error other than one bundle's own stops the
+run, and every due bundle backs off exponentially with jitter; state lives in the database, so a
+restart resumes. Nothing local is ever deleted.
 
-The office folder, its address rules, the password kept on the device and the typed errors are in
-`mobile_app.sync.target`.
+Time limits (`SyncLimits`, settings `sync_run_limit_s` and `sync_bundle_limit_s`) are measured from
+the start of the run and of each bundle, not per read: the transport ends any request at the nearer
+of the two. A bundle that reaches its own limit backs off alone and the run goes on; a run that reaches
+its limit stops, and the bundles it did not try stay due for the next run, with no attempt counted.
+
+The network is behind `mobile_app.sync.transport.Transport`: this module imports no network library.
+Given a `SyncTarget` instead of a transport, `sync_once` opens the platform's own
+(`mobile_app.sync.connect.open_transport`) and closes it at the end.
 """
 
 from __future__ import annotations
 
-import hashlib
 import logging
 import random
-import ssl
-import threading
+import time
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from datetime import datetime, timedelta
-from pathlib import Path
 from typing import Any
 
-import httpx
-from webdav4 import client as dav
-
-from mobile_app.store import Store
-from mobile_app.sync.outbox import (
-    BundleError,
-    BundleFile,
-    Outbox,
-    file_sha256,
-    files_from_row,
-    utc_now,
-)
+from mobile_app.sync import lease
+from mobile_app.sync.connect import open_transport
+from mobile_app.sync.outbox import BundleError, Outbox, utc_now
+from mobile_app.sync.send import clean_leftovers, probe, send_bundle
 from mobile_app.sync.target import (
-    InsecureTargetError,
-    NotConfiguredError,
-    ProtocolError,
+    SyncError,
     SyncTarget,
+    TimeLimitError,
     VerifyError,
     check_url,
-    classify,
     load_target,
-    parse_is_collection,
     scrub,
-    status_error,
 )
+from mobile_app.sync.transport import Transport
 
 log = logging.getLogger("boardside.sync")
 log.addHandler(logging.NullHandler())
@@ -66,11 +59,47 @@ BACKOFF_S: dict[str, tuple[float, float]] = {
     "auth": (1800, 12 * 3600),
     "local": (3600, 24 * 3600),
 }
+BUSY = "another sync of this store is running; it goes on until it ends"
+
+
+@dataclass(frozen=True)
+class SyncLimits:
+    """How long one run and one bundle may take, from their start (seconds).
+
+    Defaults (common practice): a bundle of a few MB needs under a minute on a slow mobile link, so
+    3 minutes per bundle and 10 per run end a stalled server's hold well before anyone waits on it.
+    """
+
+    run_s: float = 600.0
+    bundle_s: float = 180.0
+
+    @classmethod
+    def of(cls, store_or_db: Any) -> SyncLimits:
+        """The limits saved in a Store's settings (`sync_run_limit_s`, `sync_bundle_limit_s`), else
+        the defaults; a value that is not a positive number is ignored."""
+        settings = getattr(store_or_db, "settings", None)
+        if settings is None:
+            return cls()
+        return cls(_seconds(settings.get("sync_run_limit_s"), cls.run_s),
+                   _seconds(settings.get("sync_bundle_limit_s"), cls.bundle_s))
+
+
+def _seconds(text: Any, default: float) -> float:
+    """A positive number of seconds from a setting's text, else `default`."""
+    try:
+        value = float(text)
+    except (TypeError, ValueError):
+        return default
+    return value if 0 < value < 86400 else default
 
 
 @dataclass
 class SyncReport:
-    """What one sync run did: ids sent, how many still wait, the run's error in plain words."""
+    """What one sync run did: ids sent, how many still wait, the run's error in plain words.
+
+    `busy`: another run held the store's sync lease, so this one did nothing. `stopped_at_limit`: the
+    run reached its time limit and left the bundles it did not try for the next run.
+    """
 
     sent: list[int] = field(default_factory=list)
     waiting: int = 0
@@ -78,6 +107,9 @@ class SyncReport:
     error_kind: str | None = None
     probed: bool = False
     next_try_at: str | None = None
+    busy: bool = False
+    stopped_at_limit: bool = False
+    cleaned: int = 0
 
 
 def backoff_s(kind: str, failures: int, rng: random.Random) -> float:
@@ -88,155 +120,133 @@ def backoff_s(kind: str, failures: int, rng: random.Random) -> float:
     return delay_s / 2 + rng.uniform(0, delay_s / 2)
 
 
-PROPFIND_BODY = (b'<?xml version="1.0" encoding="utf-8"?>'
-                 b'<d:propfind xmlns:d="DAV:"><d:prop><d:resourcetype/></d:prop></d:propfind>')
-
-
-class Connection:
-    """A webdav4 client on the target folder, with the probe, upload and read-back steps."""
-
-    def __init__(self, target: SyncTarget) -> None:
-        self.target = target
-        self.url = check_url(target.url)
-        timeout = httpx.Timeout(target.timeout_s, connect=min(target.timeout_s, 10.0))
-        auth = (target.user, target.password) if target.user else None
-        verify = ssl.create_default_context(cafile=target.ca_file) if target.ca_file else True
-        self.client = dav.Client(self.url, auth=auth, retry=False, verify=verify,
-                                 timeout=timeout, follow_redirects=False, trust_env=False)
-
-    def close(self) -> None:
-        """Close the HTTP connections."""
-        self.client.http.close()
-
-    def probe(self) -> None:
-        """PROPFIND Depth 0 on the folder; create it (MKCOL) if missing; raise if not a folder."""
-        response = self.client.http.request(
-            "PROPFIND", self.url, content=PROPFIND_BODY,
-            headers={"Depth": "0", "Content-Type": "application/xml; charset=utf-8"})
-        if response.status_code == 404:
-            self.client.mkdir("")
-            return
-        if response.status_code != 207:
-            raise status_error(response.status_code) if response.status_code >= 300 else \
-                ProtocolError("the office address is not a WebDAV folder (no multistatus)")
-        if not parse_is_collection(response.read()):
-            raise ProtocolError("the office address is a file, not a folder")
-
-    def make_folder(self, remote_path: str) -> None:
-        """MKCOL the bundle's folder; an existing one (a resumed upload) is fine."""
-        try:
-            self.client.mkdir(remote_path)
-        except dav.ResourceAlreadyExists:
-            return
-
-    def put(self, local: Path, remote: str, size_bytes: int) -> None:
-        """PUT one file (overwriting any partial copy of its own) with the webdav4 client."""
-        with open(local, "rb") as fh:
-            self.client.upload_fileobj(fh, remote, overwrite=True, size=size_bytes)
-
-    def read_back(self, remote: str, expected_bytes: int) -> tuple[int, str]:
-        """GET a file back; its size in bytes and hex SHA-256 (reading stops past the size sent)."""
-        digest, size = hashlib.sha256(), 0
-        with self.client.http.stream("GET", self.client.join_url(remote)) as response:
-            if response.status_code != 200:
-                raise status_error(response.status_code) if response.status_code != 404 else \
-                    VerifyError(f"{remote} is missing on the server after upload")
-            for chunk in response.iter_bytes():
-                digest.update(chunk)
-                size += len(chunk)
-                if size > expected_bytes:
-                    break
-        return size, digest.hexdigest()
-
-
-def check_local(bundle_dir: Path, files: list[BundleFile]) -> None:
-    """Raise BundleError if a queued file is missing or changed on the device."""
-    for f in files:
-        path = bundle_dir / f.name
-        if not path.is_file() or path.stat().st_size != f.size_bytes or file_sha256(path) != f.sha256:
-            raise BundleError(f"{bundle_dir.name}/{f.name} is missing or changed since it was queued")
-
-
-def send_bundle(conn: Connection, row: dict[str, Any]) -> None:
-    """Upload one outbox row's files (manifest last) and verify each by reading it back."""
-    bundle_dir = Path(row["bundle_dir"])
-    files = files_from_row(row)
-    check_local(bundle_dir, files)
-    conn.make_folder(row["remote_path"])
-    for f in files:
-        remote = f"{row['remote_path']}/{f.remote_name}"
-        conn.put(bundle_dir / f.name, remote, f.size_bytes)
-        size, sha = conn.read_back(remote, f.size_bytes)
-        if (size, sha) != (f.size_bytes, f.sha256):
-            raise VerifyError(f"{remote} arrived different from the one sent "
-                              f"({size} of {f.size_bytes} bytes)")
-
-
 def _db_of(store_or_db: Any) -> Any:
     """The sqlite-utils Database of a Store, or the Database itself."""
     return getattr(store_or_db, "db", store_or_db)
 
 
-def sync_once(store_or_db: Any, target: SyncTarget, now: datetime | None = None,
+@dataclass
+class _Run:
+    """One run's fixed context: where it records, what it talks to, its clock and limits."""
+
+    outbox: Outbox
+    transport: Transport
+    now: datetime
+    rng: random.Random
+    limits: SyncLimits
+    report: SyncReport
+    ends_at_s: float = 0.0
+
+    def fail(self, rows: list[dict[str, Any]], exc: Exception) -> None:
+        """Record one error on rows, each backing off by its own count of failures."""
+        kind = getattr(exc, "kind", "local")
+        message = scrub(str(exc), self.transport.target)
+        log.warning("sync: %s", message)
+        self.report.error, self.report.error_kind = message, kind
+        for row in rows:
+            delay_s = backoff_s(kind, int(row["attempts"] or 0) + 1, self.rng)
+            self.outbox.mark_failed(row["id"], message, kind, self.now + timedelta(seconds=delay_s),
+                                    self.now)
+
+
+def sync_once(store_or_db: Any, transport: Transport | SyncTarget, now: datetime | None = None,
               force: bool = False, progress: Callable[[int, int], None] | None = None,
-              rng: random.Random | None = None) -> SyncReport:
+              rng: random.Random | None = None, limits: SyncLimits | None = None) -> SyncReport:
     """Send every due bundle of the outbox (every waiting one when `force`, i.e. "send now").
 
-    Raises InsecureTargetError before any traffic for a refused address. Errors while sending are
-    recorded on the bundles (attempts, last error, next try) and summed up in the report.
-    `progress(done, total)` is called after each bundle.
+    `transport` is a Transport, or a SyncTarget for the platform's own (opened and closed here;
+    InsecureTargetError before any traffic for a refused address). Errors while sending are recorded
+    on the bundles (attempts, last error, next try) and summed up in the report. While another run
+    holds the store's lease the report says `busy` and nothing is touched. `progress(done, total)` is
+    called after each bundle.
     """
-    outbox = Outbox(_db_of(store_or_db))
-    conn = Connection(target)
+    db = _db_of(store_or_db)
+    outbox = Outbox(db)
+    if isinstance(transport, SyncTarget):
+        check_url(transport.url)
     now = now or utc_now()
-    rng = rng or random.Random()
-    due = outbox.due(now, force=force)
     report = SyncReport()
-    try:
-        if due:
-            report.probed = True
-            _send_due(outbox, conn, due, now, rng, report, progress)
-    finally:
-        conn.close()
+    limits = limits or SyncLimits.of(store_or_db)
+    if outbox.due(now, force=force):
+        taken = lease.take(db, limits.run_s)
+        if taken is None:
+            report.busy, report.error, report.error_kind = True, BUSY, "busy"
+        else:
+            try:
+                _with_transport(outbox, transport, now, force, rng, limits, report, progress)
+            finally:
+                lease.give_back(db, taken)
     report.waiting = len(outbox.waiting())
     report.next_try_at = outbox.next_try_at()
     return report
 
 
-def _send_due(outbox: Outbox, conn: Connection, due: list[dict[str, Any]], now: datetime,
-              rng: random.Random, report: SyncReport,
-              progress: Callable[[int, int], None] | None) -> None:
-    """Probe, then send the due rows one by one; a run-wide error stops and backs off the rest."""
+def _with_transport(outbox: Outbox, transport: Transport | SyncTarget, now: datetime, force: bool,
+                    rng: random.Random | None, limits: SyncLimits, report: SyncReport,
+                    progress: Callable[[int, int], None] | None) -> None:
+    """Run with the given transport, or with the platform's own opened for `transport`'s target."""
+    opened = open_transport(transport) if isinstance(transport, SyncTarget) else None
+    run = _Run(outbox, opened or transport, now, rng or random.Random(), limits, report)
     try:
-        conn.probe()
-    except Exception as exc:  # noqa: BLE001 - every failure is classified and recorded
-        _fail(outbox, due, classify(exc), conn.target, now, rng, report)
+        due = outbox.due(now, force=force)  # again: a run that held the lease may have sent them
+        if due:
+            report.probed = True
+            _send_due(run, due, progress)
+    finally:
+        run.transport.set_deadline(None)
+        if opened is not None:
+            opened.close()
+
+
+def _send_due(run: _Run, due: list[dict[str, Any]],
+              progress: Callable[[int, int], None] | None) -> None:
+    """Probe, clean leftovers, then send the due rows one by one within the time limits."""
+    run.ends_at_s = time.monotonic() + run.limits.run_s
+    run.transport.set_deadline(run.ends_at_s)
+    try:
+        probe(run.transport)
+        run.report.cleaned = clean_leftovers(run.outbox, run.transport)
+    except SyncError as exc:
+        run.fail(due, exc)
         return
     for done, row in enumerate(due, start=1):
-        try:
-            send_bundle(conn, row)
-        except (BundleError, VerifyError) as exc:
-            _fail(outbox, [row], exc, conn.target, now, rng, report)
-        except Exception as exc:  # noqa: BLE001 - every failure is classified and recorded
-            _fail(outbox, due[done - 1:], classify(exc), conn.target, now, rng, report)
+        if time.monotonic() >= run.ends_at_s:
+            _stopped(run)
             return
-        else:
-            outbox.mark_sent(row["id"], utc_now())
-            report.sent.append(row["id"])
+        run.transport.set_deadline(min(run.ends_at_s, time.monotonic() + run.limits.bundle_s))
+        if not _send_one(run, row, due[done - 1:]):
+            return
         if progress is not None:
             progress(done, len(due))
 
 
-def _fail(outbox: Outbox, rows: list[dict[str, Any]], exc: Exception, target: SyncTarget,
-          now: datetime, rng: random.Random, report: SyncReport) -> None:
-    """Record one error on rows, each backing off by its own count of failures."""
-    kind = getattr(exc, "kind", "local")
-    message = scrub(str(exc), target)
-    log.warning("sync: %s", message)
-    report.error, report.error_kind = message, kind
-    for row in rows:
-        delay_s = backoff_s(kind, int(row["attempts"] or 0) + 1, rng)
-        outbox.mark_failed(row["id"], message, kind, now + timedelta(seconds=delay_s), now)
+def _send_one(run: _Run, row: dict[str, Any], rest: list[dict[str, Any]]) -> bool:
+    """Send one row and record how it went; False when the run must stop here."""
+    try:
+        send_bundle(run.transport, run.outbox, row)
+    except (BundleError, VerifyError) as exc:
+        run.fail([row], exc)
+    except TimeLimitError as exc:
+        run.fail([row], exc)
+        if time.monotonic() >= run.ends_at_s:
+            _stopped(run)
+            return False
+    except SyncError as exc:
+        run.fail(rest, exc)
+        return False
+    else:
+        run.outbox.mark_sent(row["id"], utc_now())
+        run.report.sent.append(row["id"])
+    return True
+
+
+def _stopped(run: _Run) -> None:
+    """Say that the run reached its time limit (the bundles not tried stay due, no attempt counted)."""
+    run.report.stopped_at_limit = True
+    if run.report.error is None:
+        run.report.error = (f"the sync reached its time limit ({run.limits.run_s:g} s); "
+                            "the other exports wait for the next run")
+        run.report.error_kind = "limit"
 
 
 def sync_store(store: Any, force: bool = False,
@@ -245,65 +255,9 @@ def sync_store(store: Any, force: bool = False,
 
     With nothing due it reads no settings and makes no traffic. Otherwise raises NotConfiguredError
     or InsecureTargetError (before any traffic) for a missing or refused folder. Call it from the
-    thread that opened the store (SQLite connections stay in their thread); see SyncTask.
+    thread that opened the store (SQLite connections stay in their thread).
     """
     outbox = Outbox(_db_of(store))
     if not outbox.due(force=force):
         return SyncReport(waiting=len(outbox.waiting()), next_try_at=outbox.next_try_at())
     return sync_once(store, load_target(store), force=force, progress=progress)
-
-
-class SyncTask:
-    """The app's background sync: a thread with its own Store that sends bundles when they are due.
-
-    `wake()` is "send now" (every waiting bundle, backoff ignored); `wake(force=False)` just looks
-    again, e.g. after a bundle was queued. `on_report(report)` runs in the task's thread after each
-    run; a missing or refused office folder is reported with `error_kind` "config".
-    """
-
-    def __init__(self, data_dir: Path | None, on_report: Callable[[SyncReport], None] | None = None,
-                 idle_s: float = 60.0) -> None:
-        self.data_dir, self.on_report, self.idle_s = data_dir, on_report, idle_s
-        self._event, self._stop = threading.Event(), threading.Event()
-        self._force = False
-        self._thread = threading.Thread(target=self._run, name="boardside-sync", daemon=True)
-
-    def start(self) -> SyncTask:
-        """Start the thread; it runs once at once, then whenever something is due."""
-        self._thread.start()
-        return self
-
-    def wake(self, force: bool = True) -> None:
-        """Run now; with `force`, send every waiting bundle whatever its next try time."""
-        self._force = self._force or force
-        self._event.set()
-
-    def stop(self, timeout_s: float = 30.0) -> None:
-        """Stop after the current run (a transfer in progress ends or times out first)."""
-        self._stop.set()
-        self._event.set()
-        self._thread.join(timeout_s)
-
-    def _run(self) -> None:
-        store = Store.open(self.data_dir)
-        try:
-            while not self._stop.is_set():
-                self._event.clear()
-                force, self._force = self._force, False
-                try:
-                    report = sync_store(store, force=force)
-                except (NotConfiguredError, InsecureTargetError) as exc:
-                    report = SyncReport(waiting=len(Outbox(store.db).waiting()), error=str(exc),
-                                        error_kind="config")
-                if self.on_report is not None:
-                    self.on_report(report)
-                self._event.wait(self._wait_s(report))
-        finally:
-            store.close()
-
-    def _wait_s(self, report: SyncReport) -> float:
-        """Seconds until the next bundle is due, at most `idle_s`, at least 0.1."""
-        if not report.next_try_at or report.error_kind == "config":
-            return self.idle_s
-        due_in_s = (datetime.fromisoformat(report.next_try_at) - utc_now()).total_seconds()
-        return min(self.idle_s, max(0.1, due_in_s))

@@ -4,8 +4,9 @@ The address must be https, or http to a loopback address only (127.0.0.0/8, ::1,
 checked before any traffic. Settings `sync_url`, `sync_user` and, for an office with its own
 certificate authority, `sync_ca_file` (a PEM file) live in the store. The password lives only on the
 device, in the file `sync-password` (mode 0600) beside the store: never in the database, an export,
-a log or an error message (`scrub` removes it from any text). Errors from httpx and webdav4, and
-the server's XML (parsed safely), are turned here into the typed errors below with plain messages.
+a log or an error message (`scrub` removes it from any text). The typed errors below are what every
+transport raises (`mobile_app.sync.webdav` turns httpx's and webdav4's into them); the server's XML is
+parsed safely here. No network library is imported here.
 """
 
 from __future__ import annotations
@@ -13,15 +14,11 @@ from __future__ import annotations
 import base64
 import ipaddress
 import os
-import ssl
 import xml.etree.ElementTree as ET
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 from urllib.parse import quote, urlsplit
-
-import httpx
-from webdav4 import client as dav
 
 PASSWORD_FILE = "sync-password"
 MAX_XML_BYTES = 1 << 20
@@ -57,6 +54,10 @@ class SlowServerError(SyncError, TimeoutError):
     """The office folder did not answer in time."""
 
     kind = "timeout"
+
+
+class TimeLimitError(SlowServerError):
+    """The sync reached its time limit (per bundle or per run) before the office folder finished."""
 
 
 class AuthError(SyncError, PermissionError):
@@ -161,44 +162,6 @@ def status_error(status: int) -> SyncError:
         return ProtocolError(f"the office folder redirects elsewhere (HTTP {status}): "
                              "check its address (redirects are not followed)")
     return ProtocolError(f"the office folder answered HTTP {status}")
-
-
-def classify(exc: Exception) -> SyncError:
-    """Turn an httpx or webdav4 error into a typed SyncError with a plain message (no URL)."""
-    if isinstance(exc, SyncError):
-        return exc
-    if isinstance(exc, httpx.ConnectError) and _caused_by_ssl(exc):
-        return CertificateError("the office server's https certificate could not be verified; "
-                                "if the office uses its own authority, set its certificate file")
-    if isinstance(exc, httpx.ConnectTimeout | httpx.ConnectError):
-        return OfflineError("the office folder did not answer (no connection or server down)")
-    if isinstance(exc, httpx.TimeoutException):
-        return SlowServerError("the office folder was too slow to answer (timed out)")
-    if isinstance(exc, httpx.HTTPError):
-        return DroppedError("the connection to the office folder broke during the transfer")
-    if isinstance(exc, dav.InsufficientStorage):
-        return StorageFullError("the office folder is full (HTTP 507)")
-    if isinstance(exc, dav.BadGatewayError):
-        return ServerError("the office server failed (HTTP 502)")
-    if isinstance(exc, dav.HTTPError):
-        return status_error(exc.status_code)
-    if isinstance(exc, dav.ForbiddenOperation):
-        return AuthError("the office folder does not let this user create folders (HTTP 403)")
-    if isinstance(exc, dav.ResourceConflict):
-        return ProtocolError("the office folder's parent does not exist on the server (HTTP 409)")
-    if isinstance(exc, dav.ClientError):
-        return ProtocolError(f"the office folder gave an unexpected answer ({type(exc).__name__})")
-    return ProtocolError(f"unexpected problem while sending ({type(exc).__name__})")
-
-
-def _caused_by_ssl(exc: BaseException) -> bool:
-    """True if an ssl.SSLError is among the causes of `exc`."""
-    seen: BaseException | None = exc
-    while seen is not None:
-        if isinstance(seen, ssl.SSLError):
-            return True
-        seen = seen.__cause__ or seen.__context__
-    return False
 
 
 def parse_is_collection(body: bytes) -> bool:
