@@ -79,7 +79,7 @@ def test_sync_command_refuses_plain_http_to_another_host(tmp_path, capsys):
         "sync: plain http is refused for 192.0.2.7: use https (http is allowed only to this device)\n")
 
 
-def test_the_password_is_kept_beside_the_store_not_in_it(tmp_path):
+def test_the_password_is_kept_sealed_with_a_key_beside_the_store(tmp_path):
     data = tmp_path / "data"
     setup_store(data, "https://dav.example.com/office", "office", "Hunter2-pw", count=0)
     store = Store.open(data)
@@ -92,9 +92,8 @@ def test_the_password_is_kept_beside_the_store_not_in_it(tmp_path):
             save_target(store, "http://dav.example.com/", "office", "x")
     finally:
         store.close()
-    assert stat.S_IMODE((data / "sync-password").stat().st_mode) == 0o600
-    others = [p for p in data.iterdir() if p.name != "sync-password"]
-    assert all(b"Hunter2-pw" not in p.read_bytes() for p in others if p.is_file())
+    assert stat.S_IMODE((data / "device-key").stat().st_mode) == 0o600
+    assert all(b"Hunter2-pw" not in p.read_bytes() for p in data.rglob("*") if p.is_file())
 
 
 def test_no_folder_set_is_a_typed_error(tmp_path):

@@ -6,7 +6,6 @@ import ipaddress
 import json
 import random
 import re
-import stat
 import sys
 from datetime import UTC, datetime, timedelta
 
@@ -24,8 +23,6 @@ from mobile_app.sync import (
     SyncTarget,
     UnknownBundleError,
     check_url,
-    load_password,
-    save_password,
     scrub,
     sync_once,
 )
@@ -174,13 +171,6 @@ def test_password_is_scrubbed_in_every_form():
 def test_target_repr_hides_the_password():
     assert "Hunter2pw" not in repr(SyncTarget("https://x.example/", "office", "Hunter2pw"))
 
-
-def test_password_file_is_owner_only(tmp_path):
-    save_password(tmp_path, "Hunter2pw")
-    path = tmp_path / "sync-password"
-    assert stat.S_IMODE(path.stat().st_mode) == 0o600
-    assert load_password(tmp_path) == "Hunter2pw"
-    assert load_password(tmp_path / "nowhere") == ""
 
 
 @pytest.mark.parametrize("kind", sorted(BACKOFF_S))

@@ -107,7 +107,7 @@ class SettingsState:
         }
 
     def save_office(self, url: str, user: str, password: str) -> str:
-        """Check and save the office folder (password kept beside the store, never in settings)."""
+        """Check and save the office folder (the password sealed with a device key kept apart)."""
         from mobile_app.sync import SyncError, save_target
 
         try:

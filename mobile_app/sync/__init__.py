@@ -8,7 +8,9 @@ Public surface:
     get(id) ; next_try_at() ; mark_sent(id) ; mark_failed(id, message, kind, next_try_at) ; last_error()
     SyncTarget(url, user, password, timeout_s=30, ca_file=None)
     save_target(store, url, user, password) ; load_target(store) -> SyncTarget
-    check_url(url) ; scrub(text, target) ; save_password(data_dir, pw) ; load_password(data_dir)
+    check_url(url) ; scrub(text, target)
+    save_password(store, pw) ; load_password(store) -> str   # sealed in the settings with a device
+                                       # key kept apart: KeyStore, FileKeyStore (file `device-key`)
     sync_once(store_or_db, transport, now=None, force=False, progress=None, limits=None) -> SyncReport
                                        # transport: a Transport, or a SyncTarget for the platform's own
     sync_store(store, force=False, progress=None) -> SyncReport      # with the saved target
@@ -22,13 +24,15 @@ Public surface:
     SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background thread, server form
 
 Errors: OutboxError with BundleError and UnknownBundleError (the outbox); SyncError with
-NotConfiguredError, InsecureTargetError, OfflineError, DroppedError, SlowServerError (and its
-TimeLimitError), AuthError, ServerError, StorageFullError, ProtocolError, CertificateError and
-VerifyError (the sync; `kind` picks the backoff). Neither is a StoreError. `python -m mobile_app sync`
+NotConfiguredError (and its SecretError: a saved password this device cannot open),
+InsecureTargetError, OfflineError, DroppedError, SlowServerError (and its TimeLimitError), AuthError,
+ServerError, StorageFullError, ProtocolError, CertificateError and VerifyError (the sync; `kind`
+picks the backoff). Neither is a StoreError. `python -m mobile_app sync`
 is `mobile_app.sync.cli.cli_sync`.
 
 Modules: `outbox` (the table, no network), `target` (the office folder, its address rules, the
-password on the device, the errors), `transport` (the seam), `runner` (one run: limits, backoff),
+errors), `saved` (the office folder saved on the device, the password sealed with a key kept apart),
+`seal` (the seal, HMAC-SHA256 only), `transport` (the seam), `runner` (one run: limits, backoff),
 `send` (one bundle: temporary folder, verify, MOVE), `lease` (one run at a time per store, a row in
 the database), `connect` (the platform's transport), `webdav` (webdav4 over httpx, the only module
 importing a network library), `task` (the background thread), `cli`. Imports point to the export
@@ -55,6 +59,14 @@ if TYPE_CHECKING:
         sync_once,
         sync_store,
     )
+    from mobile_app.sync.saved import (
+        FileKeyStore,
+        KeyStore,
+        load_password,
+        load_target,
+        save_password,
+        save_target,
+    )
     from mobile_app.sync.target import (
         AuthError,
         CertificateError,
@@ -71,10 +83,6 @@ if TYPE_CHECKING:
         TimeLimitError,
         VerifyError,
         check_url,
-        load_password,
-        load_target,
-        save_password,
-        save_target,
         scrub,
     )
     from mobile_app.sync.task import SyncTask
@@ -97,12 +105,15 @@ _MODULE_OF = {
     "sync_store": "runner",
     "SyncTarget": "target",
     "check_url": "target",
-    "load_password": "target",
-    "load_target": "target",
-    "save_password": "target",
-    "save_target": "target",
+    "load_password": "saved",
+    "load_target": "saved",
+    "save_password": "saved",
+    "save_target": "saved",
     "scrub": "target",
     "SyncError": "target",
+    "SecretError": "target",
+    "KeyStore": "saved",
+    "FileKeyStore": "saved",
     "AuthError": "target",
     "CertificateError": "target",
     "DroppedError": "target",
@@ -121,12 +132,15 @@ __all__ = [
     "BundleError",
     "CertificateError",
     "DroppedError",
+    "FileKeyStore",
     "InsecureTargetError",
+    "KeyStore",
     "NotConfiguredError",
     "OfflineError",
     "Outbox",
     "OutboxError",
     "ProtocolError",
+    "SecretError",
     "ServerError",
     "SlowServerError",
     "StorageFullError",

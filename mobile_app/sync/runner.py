@@ -32,6 +32,7 @@ from typing import Any
 from mobile_app.sync import lease
 from mobile_app.sync.connect import open_transport
 from mobile_app.sync.outbox import BundleError, Outbox, utc_now
+from mobile_app.sync.saved import load_target
 from mobile_app.sync.send import clean_leftovers, probe, send_bundle
 from mobile_app.sync.target import (
     SyncError,
@@ -39,7 +40,6 @@ from mobile_app.sync.target import (
     TimeLimitError,
     VerifyError,
     check_url,
-    load_target,
     scrub,
 )
 from mobile_app.sync.transport import Transport

@@ -2,9 +2,9 @@
 
 The address must be https, or http to a loopback address only (127.0.0.0/8, ::1, localhost); it is
 checked before any traffic. Settings `sync_url`, `sync_user` and, for an office with its own
-certificate authority, `sync_ca_file` (a PEM file) live in the store. The password lives only on the
-device, in the file `sync-password` (mode 0600) beside the store: never in the database, an export,
-a log or an error message (`scrub` removes it from any text). The typed errors below are what every
+certificate authority, `sync_ca_file` (a PEM file) live in the store, the password only sealed with
+a device key kept apart (`mobile_app.sync.saved`); it never appears in an export, a log or an error
+message (`scrub` removes it from any text). The typed errors below are what every
 transport raises (`mobile_app.sync.webdav` turns httpx's and webdav4's into them); the server's XML is
 parsed safely here. No network library is imported here.
 """
@@ -13,14 +13,10 @@ from __future__ import annotations
 
 import base64
 import ipaddress
-import os
 import xml.etree.ElementTree as ET
 from dataclasses import dataclass, field
-from pathlib import Path
-from typing import Any
 from urllib.parse import quote, urlsplit
 
-PASSWORD_FILE = "sync-password"
 MAX_XML_BYTES = 1 << 20
 
 
@@ -32,6 +28,18 @@ class SyncError(Exception):
 
 class NotConfiguredError(SyncError, LookupError):
     """No office folder (sync_url) is set on this device."""
+
+
+class SecretError(NotConfiguredError):
+    """The saved sync password cannot be opened here (its device key is missing or another one, or
+    the sealed text was changed): it must be entered again in the sync settings."""
+
+    def __init__(self, problem: str) -> None:
+        super().__init__(problem)
+        self.problem = problem
+
+    def __str__(self) -> str:
+        return f"the saved sync password cannot be read: {self.problem}; enter it again in the sync settings"
 
 
 class InsecureTargetError(SyncError, ValueError):
@@ -182,40 +190,3 @@ def parse_is_collection(body: bytes) -> bool:
         raise ProtocolError("the office folder's answer is not a WebDAV multistatus")
     first = root.find("{DAV:}response")
     return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
-
-
-def password_path(data_dir: Path) -> Path:
-    """Where the sync password is kept on the device: `sync-password` beside the store."""
-    return Path(data_dir) / PASSWORD_FILE
-
-
-def save_password(data_dir: Path, password: str) -> None:
-    """Write the sync password to its file with mode 0600 (owner only)."""
-    path = password_path(data_dir)
-    fd = os.open(path, os.O_WRONLY | os.O_CREAT | os.O_TRUNC, 0o600)
-    with os.fdopen(fd, "w", encoding="utf-8") as fh:
-        fh.write(password)
-    os.chmod(path, 0o600)
-
-
-def load_password(data_dir: Path) -> str:
-    """The sync password kept on the device, or "" if none was saved."""
-    path = password_path(data_dir)
-    return path.read_text(encoding="utf-8") if path.is_file() else ""
-
-
-def save_target(store: Any, url: str, user: str, password: str) -> None:
-    """Check and save the office folder: URL and user in the store, password in its own file."""
-    store.settings.set("sync_url", check_url(url))
-    store.settings.set("sync_user", user)
-    save_password(Path(store.path).parent, password)
-
-
-def load_target(store: Any) -> SyncTarget:
-    """The office folder saved on this device; raises NotConfiguredError or InsecureTargetError."""
-    url = store.settings.get("sync_url") or ""
-    if not url:
-        raise NotConfiguredError("no office folder is set (sync_url)")
-    return SyncTarget(check_url(url), store.settings.get("sync_user") or "",
-                      load_password(Path(store.path).parent),
-                      ca_file=store.settings.get("sync_ca_file") or None)
