@@ -8,14 +8,16 @@ Public surface (formats in EXPORT-FORMAT.md, which is also `mobile_app.export.js
     write_bundle(doc, out_dir, board_id=None) -> Bundle     # a job document already read
     read_bundle(path) -> Bundle                              # re-checks every hash (BundleCheckError)
     job_json_bytes(doc), job_csv_bytes(doc), job_pdf_bytes(doc)   # one format of a job document
-    load_job_json(data) -> doc ; import_job_json(store, data) -> new job id
+    load_job_json(data) -> doc ; import_job_json(store, data) -> new job id   # within a size limit
+                                            # (32 MB) and about 3x the document's size in memory
     neutralise_cell(text) ; CAUTIONS
 
 Errors: ExportError (a StoreError) with BundleExistsError and BundleCheckError; the store's
 NotFoundError for an unknown job or board; the store's DocumentError for an unreadable JSON export.
 `python -m mobile_app export` is `mobile_app.export.cli.cli_export`.
 
-Modules: `bundle` (the folder and its manifest), `json_doc`, `csv_doc`, `pdf_doc` with `pdf_layout`
+Modules: `bundle` (the folder and its manifest), `names` (the length budget of bundle names),
+`json_load` (reading a JSON document within its limits), `json_doc`, `csv_doc`, `pdf_doc` with `pdf_layout`
 (the three formats), `common` (cautions, errors, number formatting), `cli`. Imports point to the store
 and calc only. A name is imported from its module when first used, so importing this package loads
 neither fpdf2 nor the writers until an export runs.

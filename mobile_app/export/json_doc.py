@@ -54,6 +54,12 @@ the store holds the previous revision (approved, same client reference, not yet 
 is `null` and `revision_reason` is kept. Library devices are reused when one of the same name and
 points is already there.
 
+A document that cannot be imported is refused before anything is written, with one line naming the
+place that is wrong, e.g. `not a readable job document: boards[0].circuits[3].fields.zs.raw: must be
+text, a number or null, not a list`. Limits: at most 32 MB of UTF-8 JSON; objects and lists nested at
+most 24 deep; text at most 20 000 characters; keys at most 200; lists at most 100 000 items; numbers
+finite and at most 10^15 in size. Keys the reader does not know are allowed and ignored.
+
 ### Top level
 - `schema`: always `"boardside-job"`.
 - `schema_version`: 1 for this layout; raised when a key changes meaning or goes away.
@@ -214,6 +220,7 @@ import json
 from typing import Any
 
 from mobile_app.export.common import CAUTIONS
+from mobile_app.export.json_load import parse_document
 from mobile_app.store.documents import DOCUMENT_SCHEMA, DOCUMENT_SCHEMA_VERSION
 from mobile_app.store.errors import DocumentError
 
@@ -264,17 +271,9 @@ def job_json_bytes(doc: dict[str, Any]) -> bytes:
 
 
 def load_job_json(data: bytes | str) -> dict[str, Any]:
-    """Read a JSON export back into a job document, checking its schema; DocumentError if unusable."""
-    try:
-        doc = json.loads(data, parse_constant=_refuse_constant)
-    except (UnicodeDecodeError, json.JSONDecodeError) as error:
-        raise DocumentError(f"not valid JSON: {error}") from error
-    return check_document(doc)
-
-
-def _refuse_constant(name: str) -> float:
-    """NaN and Infinity are not JSON: a document holding them did not come from this export."""
-    raise DocumentError(f"not valid JSON: {name} is not a JSON number")
+    """Read a JSON export back into a job document, checking its schema; DocumentError if unusable
+    (over the size limit, not JSON, too dense or too deep: see `json_load`)."""
+    return check_document(parse_document(data))
 
 
 def import_job_json(store: Any, data: bytes | str) -> int:

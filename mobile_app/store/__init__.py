@@ -42,7 +42,9 @@ circuit's `get()["assessment_error"]` says why calc could not assess it (verdict
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
 ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (the folder cannot be
 opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or curve),
-DocumentError (an import that is not a boardside-job document; the export raises this same class;
+DocumentError (an import that is not a boardside-job document, `where` naming the place, e.g.
+`boards[0].circuits[3].fields.zs.raw`; `document_check.check_job_document(doc)` is the pure check
+run before the import's transaction; the export raises this same class;
 `mobile_app.export` adds ExportError, a StoreError, with subclasses of its own).
 Only draft jobs can be changed; submitted and approved jobs raise ReadOnlyError.
 
@@ -56,7 +58,8 @@ person_id, entity, entity_id, field, what, old, new.
 Modules: `store` (Store), `core` (Core, the lock, write transactions), `schema` (migrations, a
 damaged file moved aside), `salvage`, one module per part (`people`, `settings`, `library`, `jobs`,
 `boards`, `circuits`, `review`, `documents`), `rows` (what the parts share about a row's fields),
-`fields` (parsing what was typed), `assessment` (a circuit's calc input and assessment, pure),
+`fields` (parsing what was typed), `document_check` (a document's limits and shape before an
+import), `assessment` (a circuit's calc input and assessment, pure),
 `pins` (scrypt hashes), `errors`, `demo` (the demo job).
 """
 

@@ -15,6 +15,7 @@ from mobile_app.store.assessment import Outcome
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import Core, now_iso
+from mobile_app.store.document_check import check_job_document
 from mobile_app.store.errors import DocumentError
 from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
 from mobile_app.store.jobs import Jobs
@@ -179,6 +180,7 @@ class Documents:
             raise DocumentError(f'"schema" is not "{DOCUMENT_SCHEMA}"')
         if doc.get("schema_version") != DOCUMENT_SCHEMA_VERSION:
             raise DocumentError(f"schema_version {doc.get('schema_version')!r} is not supported")
+        check_job_document(doc)
         with self.core.write() as conn:
             try:
                 return self._import(conn, doc)

@@ -180,11 +180,17 @@ class InvalidValueError(StoreError, ValueError):
 
 
 class DocumentError(StoreError, ValueError):
-    """A job document to import is not a Boardside job document this version can read."""
+    """A job document to import is not a Boardside job document this version can read.
 
-    def __init__(self, problem: str) -> None:
-        super().__init__(problem)
+    `where` is the place in the document (`boards[1].circuits[0].fields.zs.raw`), or None.
+    """
+
+    def __init__(self, problem: str, where: str | None = None) -> None:
+        super().__init__(problem, where)
         self.problem = problem
+        self.where = where
 
     def __str__(self) -> str:
+        if self.where:
+            return f"not a readable job document: {self.where}: {self.problem}"
         return f"not a readable job document: {self.problem}"
