@@ -20,3 +20,24 @@ def overwrite_root_page(path: Path, table: str) -> bytes:
     data[offset : offset + 12] = b"\x5a" * 12
     path.write_bytes(bytes(data))
     return bytes(data)
+
+
+def pages_of(path: Path, table: str) -> dict[str, list[int]]:
+    """The pages of a table in the SQLite file at `path` by kind ("internal", "leaf", "overflow"),
+    as SQLite's dbstat table lists them (the store closed)."""
+    conn = sqlite3.connect(path)
+    found: dict[str, list[int]] = {}
+    for pageno, kind in conn.execute("SELECT pageno, pagetype FROM dbstat WHERE name = ?", (table,)):
+        found.setdefault(kind, []).append(pageno)
+    conn.close()
+    return found
+
+
+def overwrite_page(path: Path, number: int, fill: bytes = b"\x5a") -> None:
+    """Overwrite the whole of page `number` (from 1) of the SQLite file at `path` with `fill`."""
+    conn = sqlite3.connect(path)
+    page_size = conn.execute("PRAGMA page_size").fetchone()[0]
+    conn.close()
+    data = bytearray(path.read_bytes())
+    data[(number - 1) * page_size : number * page_size] = (fill * page_size)[:page_size]
+    path.write_bytes(bytes(data))

@@ -26,9 +26,11 @@ class Recovery:
         return self.moved.message if self.moved is not None else ""
 
     def recover(self, store: Any) -> str:
-        """Copy every readable job of the kept file into the new store; a sentence saying how it went.
+        """Copy every readable job of the kept file into the new store; sentences saying what was
+        recovered and what was not.
 
-        The kept file is never changed. Jobs come back as they were (status, readings, assessments).
+        The kept file is never changed. Jobs come back as they were (status, readings, assessments),
+        row by row as far as the file reads (`salvage_jobs`).
         """
         if self.moved is None:
             return "Nothing to recover."
@@ -40,10 +42,12 @@ class Recovery:
             self.result = f"Could not recover the jobs: {exc}"
             return self.result
         jobs = len(salvage.documents)
-        self.result = f"Recovered {jobs} job{'s' if jobs != 1 else ''} from {self.moved.moved_to.name}."
+        circuits = sum(len(b["circuits"]) for d in salvage.documents for b in d["boards"])
+        self.result = (f"Recovered {jobs} job{'s' if jobs != 1 else ''} ({circuits} circuits) "
+                       f"from {self.moved.moved_to.name}.")
+        if any(t.missing_ids or t.partial for t in salvage.tables.values()):
+            self.result += f" Not recovered: {salvage.summary()}."
         if salvage.problems:
-            self.result += f" {len(salvage.problems)} part(s) could not be read: " + "; ".join(
-                salvage.problems[:3]
-            )
+            self.result += f" {len(salvage.problems)} note(s): " + "; ".join(salvage.problems[:3])
         self.dismissed = True
         return self.result

@@ -11,8 +11,10 @@ Public surface:
     store = Store.open(data_dir)    # None -> platformdirs user data dir; WAL, foreign keys, integrity
                                     # check, migrations (backup first); a damaged file is moved aside
     store.recovered                 # MovedAside(original, moved_to, reason) or None
-    salvage_jobs(store.recovered.moved_to) -> Salvage(documents, problems): the job documents still
-                                    # readable from the file moved aside (the file is not changed)
+    salvage_jobs(store.recovered.moved_to) -> Salvage(documents, problems, tables): the job documents
+                                    # read row by row from the file moved aside (left unchanged)
+                                    # through a fresh store; tables: {name: TableReport(rows,
+                                    # from_pages, partial, missing_ids)}; Salvage.summary()
     store.backup_path               # the copy taken before the last migration, or None
     store.path, store.db, store.close(), `with Store.open(...) as store:`
     with store.batch(): ...         # several changes committed as one (or none)
@@ -56,7 +58,8 @@ superseded (a newer revision exists), circuits, failing, incomplete; audit rows 
 person_id, entity, entity_id, field, what, old, new.
 
 Modules: `store` (Store), `core` (Core, the lock, write transactions), `schema` (migrations, a
-damaged file moved aside), `salvage`, one module per part (`people`, `settings`, `library`, `jobs`,
+damaged file moved aside), `salvage` (rows of a damaged file into a fresh store), `pages` (rows
+read from an SQLite file's pages), one module per part (`people`, `settings`, `library`, `jobs`,
 `boards`, `circuits`, `review`, `documents`), `rows` (what the parts share about a row's fields),
 `fields` (parsing what was typed), `document_check` (a document's limits and shape before an
 import), `assessment` (a circuit's calc input and assessment, pure),
