@@ -119,6 +119,18 @@ def test_settings_check_supply_defaults(store) -> None:
     assert settings.job_defaults()["u0"] == "240 V"
 
 
+def test_sync_time_limits_are_settings_the_sync_reads(store) -> None:
+    from mobile_app.sync import SyncLimits
+
+    settings = SettingsState(store)
+    assert (settings.get("sync_run_limit_s"), settings.get("sync_bundle_limit_s")) == ("600", "180")
+    assert SyncLimits.of(store) == SyncLimits(run_s=600.0, bundle_s=180.0)  # the same defaults
+    view = settings.set("sync_run_limit_s", "2")
+    assert view.message == "a time limit is a number of seconds from 10 to 86400"
+    assert settings.set("sync_bundle_limit_s", "45").message is None
+    assert SyncLimits.of(store) == SyncLimits(run_s=600.0, bundle_s=45.0)
+
+
 def test_library_rows_list_saved_curves(store) -> None:
     from mobile_app.state.library import library_rows
 

@@ -1,8 +1,9 @@
 """Settings: supply defaults for new jobs, the final-circuit scope and the office sync target.
 
 Setting keys in the store: `default_system`, `default_u0`, `default_cmin`, `final_circuit_max_a`
-("32" or "63"), `sync_url`, `sync_user`, `theme` ("light", "dark" or "system"). The sync password is
-not a setting: it is handed to the sync step only.
+("32" or "63"), `sync_url`, `sync_user`, `sync_run_limit_s` and `sync_bundle_limit_s` (how long one
+sync run and one export's upload may take, from their start), `theme` ("light", "dark" or "system").
+The sync password is not a setting: it is handed to the sync step, which keeps it sealed.
 """
 
 from __future__ import annotations
@@ -20,8 +21,11 @@ DEFAULTS: dict[str, str] = {
     "final_circuit_max_a": "32",
     "sync_url": "",
     "sync_user": "",
+    "sync_run_limit_s": "600",
+    "sync_bundle_limit_s": "180",
     "theme": "system",
 }
+LIMIT_RANGE_S = (10.0, 86400.0)
 SCOPES: tuple[str, ...] = ("32", "63")
 THEMES: tuple[str, ...] = ("system", "light", "dark")
 
@@ -88,6 +92,14 @@ class SettingsState:
             raise SettingsError("final-circuit scope must be 32 or 63 A")
         if key == "theme" and value.strip() not in THEMES:
             raise SettingsError("theme must be system, light or dark")
+        if key in ("sync_run_limit_s", "sync_bundle_limit_s"):
+            low, high = LIMIT_RANGE_S
+            try:
+                seconds = float(value)
+            except ValueError:
+                seconds = -1.0
+            if not low <= seconds <= high:
+                raise SettingsError(f"a time limit is a number of seconds from {low:g} to {high:g}")
         if key in ("default_u0", "default_cmin"):
             path = "supply.u0" if key == "default_u0" else "supply.cmin"
             try:
