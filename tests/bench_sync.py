@@ -1,7 +1,8 @@
 """Benchmark: time to sync 200 bundles to a wsgidav server on 127.0.0.1 (target <= 10 s).
 
 Run: `.venv/bin/python tests/bench_sync.py [--runs 3] [--bundles 200]`. Prints the median of several
-runs of `sync_once` (probe, MKCOL, PUT each file, GET it back and hash it, mark sent) and, as a
+runs of `sync_once` (lease, probe, MKCOL a temporary folder, PUT each file, GET it back and hash
+it, MOVE the folder into place, mark sent) and, as a
 baseline measured in the same run, the median time of bare PUTs of the same files with httpx
 (no folders, no verification, no database). Prints figures; asserts nothing about time.
 """
