@@ -289,8 +289,9 @@ def _read_pages(data: bytes, layout: pages.Layout, schema: dict[str, tuple[int |
 
 def _insert(conn: sqlite3.Connection, table: str, columns: list[Column], rows: dict[int, Any],
             report: TableReport, problems: list[str]) -> None:
-    """Write one table's rows into the fresh store, by column name, ids kept; a lost value takes
-    the column's default, or a blank where the column needs one."""
+    """Write one table's rows into the fresh store, by column name, ids kept (a row the fresh store
+    made itself, such as a setting written at its creation, gives way to the file's); a lost value
+    takes the column's default, or a blank where the column needs one."""
     here = {c[0]: c for c in _columns(conn, table)} if _exists(conn, table) else {}
     if not here:
         problems.append(f"{table}: this version has no such table; its {len(rows)} rows were not kept")
@@ -313,7 +314,8 @@ def _insert(conn: sqlite3.Connection, table: str, columns: list[Column], rows: d
         names = ", ".join(f'"{n}"' for n in record)
         marks = ", ".join("?" for _ in record)
         try:
-            conn.execute(f'INSERT INTO "{table}" ({names}) VALUES ({marks})', tuple(record.values()))
+            conn.execute(f'INSERT OR REPLACE INTO "{table}" ({names}) VALUES ({marks})',
+                         tuple(record.values()))
         except sqlite3.DatabaseError as error:
             problems.append(f"{table} row {rowid} could not be kept: {error}")
             continue
