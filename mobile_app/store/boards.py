@@ -1,5 +1,6 @@
 """Boards of a job: added in order, saved field by field with the raw text kept; a board's own
-system or Ze (an outbuilding on its own earth electrode) reassesses its circuits."""
+supply (system, Ze or Zdb, PFC, RA: an outbuilding on its own earth electrode, a board at the end of
+a sub-main) reassesses its circuits."""
 
 from __future__ import annotations
 
@@ -7,7 +8,7 @@ from typing import Any
 
 from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import Core
-from mobile_app.store.fields import BOARD_FIELDS
+from mobile_app.store.fields import BOARD_FIELDS, BOARD_SUPPLY_FIELDS
 from mobile_app.store.library import Library
 from mobile_app.store.rows import check_version, fields_of, parse, saved, set_clause
 
@@ -71,7 +72,7 @@ class Boards:
         by: int | None = None,
         expected_version: int | None = None,
     ) -> dict[str, Any]:
-        """Save one board field as typed; the board's system or Ze reassesses its circuits."""
+        """Save one board field as typed; the board's supply fields reassess its circuits."""
         parsed = parse("board", name, raw, self.library)
         with self.core.write() as conn:
             board = self.core.row("board", board_id)
@@ -87,6 +88,6 @@ class Boards:
                 old = board[f"{name}_raw"]
                 self.core.audit(conn, job["id"], by, "board", board_id, name, old, parsed.raw)
                 self.core.touch_job(conn, job["id"])
-                if name in ("system", "ze"):
+                if name in BOARD_SUPPLY_FIELDS:
                     self.circuits.reassess_board(conn, job, self.core.row("board", board_id))
         return saved(parsed, name, version)

@@ -10,19 +10,23 @@ from typing import Any
 import calc
 from mobile_app.store.assessment import Outcome, assess, build_calc_input, invalid_fields
 from mobile_app.store.core import Core, now_iso
-from mobile_app.store.fields import CIRCUIT_FIELDS, READING_FIELDS, SUPPLY_FIELDS
+from mobile_app.store.fields import (
+    BOARD_SUPPLY_FIELDS,
+    CIRCUIT_FIELDS,
+    CIRCUIT_OWN_FIELDS,
+    RECORD_ONLY_CIRCUIT_FIELDS,
+    SUPPLY_FIELDS,
+)
 from mobile_app.store.library import Library
 from mobile_app.store.rows import check_version, fields_of, parse, saved, set_clause
 from mobile_app.store.settings import Settings
 
-COPIED_TO_NEXT_CIRCUIT = tuple(
-    f for f in CIRCUIT_FIELDS if f not in ("number", "description", *READING_FIELDS)
-)
-# the fields of each row whose parse error leaves a circuit's assessment incomplete
+COPIED_TO_NEXT_CIRCUIT = tuple(f for f in CIRCUIT_FIELDS if f not in CIRCUIT_OWN_FIELDS)
+# the fields of each row whose parse error leaves a circuit's assessment not shown
 _ASSESSED = {
     "job": SUPPLY_FIELDS,
-    "board": ("system", "ze"),
-    "circuit": tuple(f for f in CIRCUIT_FIELDS if f not in ("number", "description")),
+    "board": BOARD_SUPPLY_FIELDS,
+    "circuit": tuple(f for f in CIRCUIT_FIELDS if f not in RECORD_ONLY_CIRCUIT_FIELDS),
 }
 
 

@@ -20,7 +20,13 @@ from mobile_app.store import chain
 from mobile_app.store.errors import NotFoundError, ReadOnlyError, SaveError
 
 STORE_FILE = "boardside.sqlite"
-_TABLES = {"job": "jobs", "board": "boards", "circuit": "circuits"}
+_TABLES = {
+    "job": "jobs",
+    "board": "boards",
+    "circuit": "circuits",
+    "instrument": "instruments",
+    "observation": "observations",
+}
 
 
 def default_data_dir() -> Path:
@@ -118,7 +124,7 @@ class Core:
         return rows[0] if rows else None
 
     def row(self, kind: str, item_id: int) -> dict[str, Any]:
-        """One job, board or circuit row, or NotFoundError."""
+        """One job, board, circuit, instrument or observation row, or NotFoundError."""
         row = self.one(f"SELECT * FROM {_TABLES[kind]} WHERE id = ?", (item_id,))
         if row is None:
             raise NotFoundError(kind, item_id)

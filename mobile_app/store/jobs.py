@@ -9,6 +9,7 @@ from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import Core, now_iso
 from mobile_app.store.fields import JOB_FIELDS, SUPPLY_FIELDS
 from mobile_app.store.library import Library
+from mobile_app.store.outcome import CircuitVerdict, ObservationSeverity, Overall, overall_outcome
 from mobile_app.store.rows import as_text, check_version, fields_of, parse, saved, set_clause
 from mobile_app.store.settings import Settings
 
@@ -111,6 +112,27 @@ class Jobs:
                 (job_id,),
             ).fetchone()[0]
         )
+
+    def overall(self, job_id: int) -> Overall:
+        """The job's overall outcome from its circuits' verdicts and its observations' severities."""
+        self.core.row("job", job_id)
+        circuits = [
+            CircuitVerdict(f"{row['board']} / {row['number']}", row["verdict"])
+            for row in self.core.query(
+                "SELECT b.designation_raw AS board, c.number_raw AS number, c.verdict FROM circuits c"
+                " JOIN boards b ON b.id = c.board_id WHERE b.job_id = ? ORDER BY b.position, c.position",
+                (job_id,),
+            )
+        ]
+        rows = self.core.query(
+            "SELECT severity_value, finding_raw FROM observations WHERE job_id = ? ORDER BY position",
+            (job_id,),
+        )
+        observations = [
+            ObservationSeverity(number, row["severity_value"], row["finding_raw"])
+            for number, row in enumerate(rows, start=1)
+        ]
+        return overall_outcome(circuits, observations)
 
     def audit(self, job_id: int) -> list[dict[str, Any]]:
         """A job's audit trail, oldest first: id, when, who, what, entity, field, old, new."""

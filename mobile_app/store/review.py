@@ -11,6 +11,7 @@ from mobile_app.store import chain, pins
 from mobile_app.store.core import Core, now_iso
 from mobile_app.store.documents import Documents
 from mobile_app.store.errors import PinError, ReviewError
+from mobile_app.store.items import copy_items
 from mobile_app.store.people import People
 
 _COPY_SKIP_JOB = {
@@ -126,6 +127,7 @@ class Review:
                 recorded_by=by,
             )
             new_id = self.core.insert(conn, "jobs", copied)
+            circuit_ids: dict[int, int] = {}
             for board in self.core.query("SELECT * FROM boards WHERE job_id = ?", (job_id,)):
                 board_id = self.core.insert(
                     conn,
@@ -133,7 +135,7 @@ class Review:
                     dict({k: v for k, v in board.items() if k != "id"}, job_id=new_id, version=1),
                 )
                 for circuit in self.core.query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],)):
-                    self.core.insert(
+                    circuit_ids[circuit["id"]] = self.core.insert(
                         conn,
                         "circuits",
                         dict(
@@ -142,5 +144,6 @@ class Review:
                             version=1,
                         ),
                     )
+            copy_items(self.core, conn, job_id, new_id, circuit_ids)
             self.core.audit(conn, new_id, by, "review", new_id, "revision", f"job {job_id}", reason.strip())
         return new_id

@@ -6,10 +6,24 @@ from __future__ import annotations
 from typing import Any
 
 from mobile_app.store.errors import ConflictError, UnknownFieldError
-from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS, Parsed, parse_field
+from mobile_app.store.fields import (
+    BOARD_FIELDS,
+    CIRCUIT_FIELDS,
+    INSTRUMENT_FIELDS,
+    JOB_FIELDS,
+    OBSERVATION_FIELDS,
+    Parsed,
+    parse_field,
+)
 from mobile_app.store.library import Library
 
-NAMES = {"job": JOB_FIELDS, "board": BOARD_FIELDS, "circuit": CIRCUIT_FIELDS}
+NAMES = {
+    "job": JOB_FIELDS,
+    "board": BOARD_FIELDS,
+    "circuit": CIRCUIT_FIELDS,
+    "instrument": INSTRUMENT_FIELDS,
+    "observation": OBSERVATION_FIELDS,
+}
 
 
 def as_text(raw: object) -> str:

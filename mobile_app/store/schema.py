@@ -178,6 +178,64 @@ def _m006(db: sqlite_utils.Database) -> None:
                     (json.dumps(approved),))
 
 
+_M007_COLUMNS = {
+    "jobs": ("client_name", "client_address", "purpose", "next_inspection", "limitations"),
+    "boards": ("pfc", "main_device", "main_rating", "origin", "earthing_csa", "bonding_csa", "ra"),
+    "circuits": (
+        "points_served",
+        "wiring_type",
+        "reference_method",
+        "length_m",
+        "ring",
+        "selv",
+        "breaking_capacity",
+        "let_through_at",
+        "rcd_waveform",
+        "rcd_additional",
+        "cpc_insulation",
+        "cpc_bunched",
+        "cpc_protected",
+        "r2",
+        "ring_r1",
+        "ring_rn",
+        "ring_r2",
+        "insulation_test_voltage",
+        "insulation_line_line",
+        "insulation_line_earth",
+        "polarity",
+        "rcd_time_1x",
+        "rcd_time_5x",
+        "rcd_test_button",
+    ),
+}
+
+
+def _m007(db: sqlite_utils.Database) -> None:
+    """Version 7: the whole test record. A circuit's other tests (continuity, ring, insulation,
+    polarity, RCD times and button), its wiring, length and points, breaking capacity and RCD type
+    letter; a board's supply details, main device and (at the origin) earthing and bonding sizes; a
+    job's client, purpose, next inspection and limitations; the job's instruments and observations.
+
+    A device typed "rcbo" was read as a plain breaker before (no RCBO kind): it now reads as an RCBO.
+    """
+    for table, names in _M007_COLUMNS.items():
+        for name in names:
+            for column in _triple(name).split(", "):
+                db.execute(f"ALTER TABLE {table} ADD COLUMN {column}")
+    db.execute("UPDATE circuits SET device_kind_value = 'rcbo' WHERE lower(trim(device_kind_raw)) = 'rcbo'")
+    items = "id INTEGER PRIMARY KEY, job_id INTEGER NOT NULL REFERENCES jobs(id), position INTEGER NOT NULL,"
+    items += " version INTEGER NOT NULL DEFAULT 1, updated_at TEXT NOT NULL"
+    instrument = ", ".join(_triple(f) for f in ("name", "serial", "calibration_date"))
+    observation = ", ".join(_triple(f) for f in ("finding", "severity", "location"))
+    for sql in (
+        f"CREATE TABLE instruments ({items}, {instrument})",
+        f"CREATE TABLE observations ({items}, {observation}, circuit_ids TEXT NOT NULL DEFAULT '[]')",
+        "CREATE INDEX instruments_job ON instruments(job_id, position)",
+        "CREATE INDEX observations_job ON observations(job_id, position)",
+    ):
+        db.execute(sql)
+
+
 STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("001_jobs_boards_circuits", _m001),
     ("002_device_library", _m002),
@@ -185,6 +243,7 @@ STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("004_pins_settings", _m004),
     ("005_not_shown_verdict", _m005),
     ("006_signed_approvals_audit_chain", _m006),
+    ("007_test_record", _m007),
 )
 SCHEMA_VERSION = len(STEPS)
 

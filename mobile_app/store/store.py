@@ -7,10 +7,12 @@ core and the parts it uses:
     store.people     People     add, set_pin, all, get
     store.settings   Settings   get, set
     store.library    Library    add, all, find
-    store.jobs       Jobs       create, all, get, set_field, reassess, audit
+    store.jobs       Jobs       create, all, get, set_field, reassess, overall, audit
     store.boards     Boards     add, of_job, set_field
     store.circuits   Circuits   add, of_board, get, set_field, calc_input
     store.roster     Roster     firm_key, pin_firm_key, load, load_folder, install_key, entry_of
+    store.instruments  Items    add, of_job, get, set_field, remove
+    store.observations Items    add, of_job, get, set_field, set_circuits, remove
     store.review     Review     submit, return_to_draft, approve, open_revision
     store.documents  Documents  export, import_, salvage
     store.integrity  Integrity  check (the audit chain and every approved job)
@@ -32,6 +34,7 @@ from mobile_app.store.core import STORE_FILE, Core, default_data_dir, save_reaso
 from mobile_app.store.documents import Documents
 from mobile_app.store.errors import OpenError
 from mobile_app.store.integrity import Integrity
+from mobile_app.store.items import Items
 from mobile_app.store.jobs import Jobs
 from mobile_app.store.library import Library
 from mobile_app.store.people import People
@@ -63,6 +66,8 @@ class Store:
         self.boards = Boards(self.core, self.library, self.circuits)
         self.jobs = Jobs(self.core, self.library, self.settings, self.circuits)
         self.roster = Roster(self.core, self.people)
+        self.instruments = Items(self.core, self.library, "instrument")
+        self.observations = Items(self.core, self.library, "observation")
         self.documents = Documents(
             self.core, self.people, self.library, self.jobs, self.boards, self.circuits, self.roster
         )
