@@ -284,9 +284,11 @@ def _parse_bounded(raw: str, path: str) -> Parsed:
     text = raw.strip()
     if not text.startswith(">"):
         return _parse_number(raw, path)
+    if not text[1:].strip():
+        return Parsed(raw, None, "needs a number after >, such as >999")
     bound = _parse_number(text[1:], path)
     if bound.value is None:
-        return Parsed(raw, None, bound.error or "needs a number after >, such as >999")
+        return Parsed(raw, None, bound.error)
     return Parsed(raw, f">{float(bound.value):g}", None)
 
 
