@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import gzip
 import importlib
 import json
 import pkgutil
@@ -21,6 +22,7 @@ from mobile_app.store.demo import DEMO_PIN, create_demo_job
 from mobile_app.store.errors import DocumentError
 
 FORMAT_MD = Path(export_json.__file__).with_name("EXPORT-FORMAT.md")
+FIXTURES = Path(__file__).with_name("fixtures")
 # The assessment keys the calculation core's contract promises (the core may add more: the format
 # says those are kept as they are, so only these must be documented).
 CONTRACT_ASSESSMENT_KEYS = {
@@ -42,6 +44,10 @@ def store_job(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[Store,
     store.circuits.set_field(odd, "device_rating", "32 A")
     store.circuits.set_field(odd, "test_temp_c", "-5 °C")
     store.jobs.set_field(job_id, "date", "31 Feb")
+    store.instruments.add(job_id, {"name": "Tester “Ω”", "serial": "=SN-1", "calibration_date": "soon"})
+    observation = store.observations.add(job_id, {"finding": "Cracked socket", "severity": "attention",
+                                                  "location": "loft"})
+    store.observations.set_circuits(observation, [odd])
     yield store, job_id
     store.close()
 
@@ -59,7 +65,9 @@ def _keys(doc: dict[str, Any]) -> set[str]:
     """The keys of every level the format describes, from a real document."""
     circuits = [c for board in doc["boards"] for c in board["circuits"]]
     assessed = [c["assessment"] for c in circuits if c["assessment"]]
-    keys = set(doc) | set(doc["job"]) | set(doc["job"]["fields"])
+    keys = set(doc) | set(doc["job"]) | set(doc["job"]["fields"]) | set(doc["job"]["overall"])
+    for item in doc["instruments"] + doc["observations"]:
+        keys |= set(item) | set(item["fields"])
     for board in doc["boards"]:
         keys |= set(board) | set(board["fields"])
     for circuit in circuits:
@@ -88,7 +96,7 @@ def test_file_is_utf8_json_with_schema_and_cautions(store_job: tuple[Store, int]
     data = job_json_bytes(store.documents.export(job_id))
     assert "Ω".encode() in data and b"\\u03a9" not in data
     doc = json.loads(data.decode("utf-8"))
-    assert doc["schema"] == "boardside-job" and doc["schema_version"] == 1
+    assert doc["schema"] == "boardside-job" and doc["schema_version"] == 2
     assert doc["cautions"] == list(CAUTIONS)
     assert list(doc)[:5] == ["schema", "schema_version", "calc_version", "exported_at", "cautions"]
 
@@ -117,6 +125,9 @@ def _comparable(doc: dict[str, Any]) -> list[Any]:
     return [
         doc["job"]["fields"],
         {key: doc["job"][key] for key in review},
+        doc["job"]["overall"],
+        [(i["number"], i["fields"]) for i in doc["instruments"]],
+        [(o["number"], o["fields"], o["circuits"]) for o in doc["observations"]],
         [
             (board["fields"], [(c["number"], c["description"], c["fields"], c["verdict"],
                                 c["assessment"], c["calc_version"]) for c in board["circuits"]])
@@ -168,8 +179,8 @@ def test_an_approval_by_a_supervisor_the_office_never_enrolled_comes_back_submit
         (b"{not json", "not valid JSON"),
         (b"[1, 2]", "must be a JSON object"),
         (b'{"schema": "other", "schema_version": 1, "job": {}, "boards": []}', "schema is 'other'"),
-        (b'{"schema": "boardside-job", "schema_version": 2, "job": {}, "boards": []}',
-         "schema_version 2"),
+        (b'{"schema": "boardside-job", "schema_version": 3, "job": {}, "boards": []}',
+         "schema_version 3"),
         (b'{"schema": "boardside-job", "schema_version": "1", "job": {}, "boards": []}',
          "schema_version '1'"),
         (b'{"schema": "boardside-job", "schema_version": 1, "boards": []}', "'job' object"),
@@ -200,3 +211,46 @@ def test_the_store_and_the_export_raise_the_stores_one_document_error() -> None:
     ]
     found = {name: getattr(importlib.import_module(name), "DocumentError", None) for name in names}
     assert {cls for cls in found.values() if cls is not None} == {store_package.DocumentError}
+
+
+def _old_export(name: str) -> bytes:
+    """A JSON export written by the release before version 2 (see tests/fixtures/README.md)."""
+    return gzip.decompress((FIXTURES / f"export-v1-{name}.json.gz").read_bytes())
+
+
+@pytest.mark.parametrize("name", ["draft", "approved"])
+def test_a_version_1_export_imports_as_it_was(tmp_path: Path, name: str) -> None:
+    data = _old_export(name)
+    old = json.loads(data)
+    assert old["schema_version"] == 1
+    with Store.open(tmp_path) as store:
+        new_id = import_job_json(store, data)
+        again = store.documents.export(new_id)
+    assert again["schema_version"] == 2
+    assert (again["job"]["status"], again["job"]["approved_by"]) == (old["job"]["status"],
+                                                                     old["job"]["approved_by"])
+    assert again["instruments"] == [] and again["observations"] == []
+    for board, old_board in zip(again["boards"], old["boards"], strict=True):
+        for circuit, old_circuit in zip(board["circuits"], old_board["circuits"], strict=True):
+            for field_name, field in old_circuit["fields"].items():
+                assert circuit["fields"][field_name]["raw"] == field["raw"], field_name
+            assert circuit["fields"]["insulation_line_earth"] == {"raw": "", "value": None, "error": None}
+            if name == "approved":
+                assert (circuit["verdict"], circuit["assessment"]) == (old_circuit["verdict"],
+                                                                       old_circuit["assessment"])
+    assert again["job"]["overall"]["outcome"] == "unsatisfactory"
+    if name == "draft":
+        typed = again["boards"][0]["circuits"][-1]["fields"]["device_kind"]
+        assert (typed["raw"], typed["value"]) == ("rcbo", "rcbo")
+
+
+def test_upgrading_leaves_the_document_given_alone() -> None:
+    from mobile_app.store.doc_versions import upgrade_document
+
+    old = json.loads(_old_export("approved"))
+    upgraded = upgrade_document(old)
+    assert old["schema_version"] == 1 and "instruments" not in old
+    assert (upgraded["schema_version"], upgraded["instruments"], upgraded["observations"]) == (2, [], [])
+    assert upgraded["boards"] == old["boards"]
+    with pytest.raises(DocumentError, match="schema_version 0 is not supported"):
+        upgrade_document({"schema_version": 0})

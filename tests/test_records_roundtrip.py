@@ -98,7 +98,7 @@ def test_job_document_is_json_and_imports_to_an_equal_job(tmp_path: Path) -> Non
         first.circuits.set_field(1, "zs", "¿0.7?")
         doc = first.documents.export(job_id)
     text = json.dumps(doc, ensure_ascii=False)
-    assert doc["schema"] == "boardside-job" and doc["schema_version"] == 1
+    assert doc["schema"] == "boardside-job" and doc["schema_version"] == 2
     assert doc["job"]["client_ref"] == "TY-2026-118"
     assert len(doc["library_devices"]) == 1 and doc["audit"]
     with Store.open(tmp_path / "b") as second:

@@ -38,7 +38,7 @@ it; `verify` also checks that the CSV is the one the approved JSON gives.
 
 ## The JSON file
 UTF-8, one line (not indented), numbers as JSON numbers (never NaN or Infinity), `null` where nothing is
-known. `schema` is `"boardside-job"` and `schema_version` is 1. A reader refuses a document whose
+known. `schema` is `"boardside-job"` and `schema_version` is 2. A reader refuses a document whose
 `schema` differs or whose `schema_version` is greater than the one it knows.
 
 Importing a JSON export loads the job back as it was, in one transaction (a document that cannot be
@@ -52,7 +52,24 @@ assessed by another version of the calculation core is assessed again, and an au
 changed result; submitted and approved jobs keep their assessments. `parent_job_id` is linked only when
 the store holds the previous revision (approved, same client reference, not yet revised); otherwise it
 is `null` and `revision_reason` is kept. Library devices are reused when one of the same name and
-points is already there.
+points is already there. Instruments and observations come back in their order, an observation's
+circuits mapped to the imported circuits.
+
+### Versions and importing older exports
+- **1** (exports before the whole test record): the job's supply, boards and circuits with their loop
+  readings and assessments, review, people and audit trail.
+- **2**: adds `instruments`, `observations` and `job.overall`; new job fields (`client_name`,
+  `client_address`, `purpose`, `next_inspection`, `limitations`), board fields (`pfc`, `main_device`,
+  `main_rating`, `origin`, `earthing_csa`, `bonding_csa`, `ra`) and circuit fields (the circuit's other
+  tests, its wiring, length and points, breaking capacity, the RCD's type letter, a separate protective
+  conductor's own insulation). One meaning changed: a device typed `rcbo` had `device_kind` value `mcb`
+  in version 1 and has `rcbo` (a breaker and an RCD in one device) in version 2.
+
+A version 1 document is imported by first bringing it to version 2: empty `instruments` and
+`observations`, the new fields blank, every field kept as typed (and parsed again from its `raw`
+text, so a device typed `rcbo` becomes an RCBO, which needs its RCD's IΔn when a draft is assessed
+again); the overall outcome is worked out again from the circuits when the job is next exported. The
+verdict word `incomplete` of version 1 exports reads as `not-shown`.
 
 A document that cannot be imported is refused before anything is written, with one line naming the
 place that is wrong, e.g. `not a readable job document: boards[0].circuits[3].fields.zs.raw: must be
@@ -68,6 +85,8 @@ finite and at most 10^15 in size. Keys the reader does not know are allowed and 
 - `cautions`: the cautions that go with every result (a list of sentences).
 - `job`: the job (below).
 - `boards`: the job's boards, each with its circuits (only one board in a one-board export).
+- `instruments`: the test instruments used, in order.
+- `observations`: what the inspection found, in order.
 - `library_devices`: manufacturer time–current curves used by the job's circuits.
 - `people`: the people the job, its circuits and its audit trail refer to.
 - `audit`: every recorded change to the job, oldest first.
@@ -113,31 +132,51 @@ Every reading and setting is kept exactly as typed beside what it means:
 - `parent_job_id`, `revision_reason`: the job this revision was opened from and why (`null` for a
   first revision).
 - `client_ref`, `site_address`, `description`, `date`, `system`: as typed (repeated from `fields`).
-- `fields`: each job field as a field: `client_ref`, `site_address`, `description`, `date`,
-  `system` (`TN-S`, `TN-C-S` or `TT`), `u0` (V), `cmin` (voltage factor, no unit), `ze` (Ω, at the
-  origin), `pfc` (A, prospective fault current at the origin).
+- `fields`: each job field as a field: `client_ref` (the job reference), `client_name`,
+  `client_address`, `site_address`, `description`, `date`, `purpose` (`new-work`, `periodic` or
+  `fault-finding`), `next_inspection` (a date, for periodic work), `limitations` (what the inspection
+  could not cover, as written), `system` (`TN-S`, `TN-C-S` or `TT`), `u0` (V), `cmin` (voltage factor,
+  no unit), `ze` (Ω, at the origin), `pfc` (A, prospective fault current at the origin).
 - `recorded_by`, `recorded_at`: the name of who created the job, and when.
 - `submitted_by`, `submitted_at`: the name of who submitted it for review and when (`null` if not
   submitted).
 - `approved_by`, `approved_at`: the supervisor who approved it and when (`null` until approved).
 - `review_comment`: the reviewer's comment when the job was returned to draft, else `null`.
+- `overall`: the job's overall outcome when exported: `outcome` (`satisfactory` when every circuit
+  passes and no observation is serious; `unsatisfactory` when a circuit fails or an observation is
+  serious; `not-shown` while anything is undecided) and `reasons` (sentences, the deciding ones first).
 
 ### `boards[]`
 - `id`: the board's number in the store it came from.
 - `designation`, `location`, `supplied_from`: as typed.
-- `fields`: each board field as a field: `designation`, `location`, `supplied_from`, and `system` and
-  `ze` (Ω) where the board's supply differs from the job's (blank means the job's supply).
+- `fields`: each board field as a field: `designation`, `location`, `supplied_from`, `system`, `ze`
+  (Ω, Ze or Zdb measured at this board) and `pfc` (A, prospective fault current at this board) — blank
+  means the job's supply —, `ra` (Ω, a TT earth electrode's resistance), `main_device` (the main switch
+  or device, as written) and `main_rating` (A), `origin` (`yes` for the board at the origin), and at
+  the origin `earthing_csa` and `bonding_csa` (mm², the earthing conductor and the main protective
+  bonding conductors).
 - `circuits`: the board's circuits, in order.
 
 ### `boards[].circuits[]`
 - `id`: the circuit's number in the store it came from.
 - `number`, `description`: as typed.
-- `fields`: each circuit field as a field: `number`, `description`, `role` (`final` or
-  `distribution`), `device_kind` (`mcb`, `fuse-gg` or `curve`), `device_curve` (`B`, `C`, `D`),
-  `device_rating` (A), `library_device_id` (an id in `library_devices`), `let_through_i2t` (A²s),
-  `rcd_idn` (A), `rcd_type` (`general` or `s`), `line_csa` (mm²), `line_material`, `line_insulation`,
-  `cpc_csa` (mm²), `cpc_material`, `cpc_arrangement` (`in-cable`, `separate` or `armour`), `zs` (Ω),
-  `zsc` (Ω), `r1r2` (Ω), `ze` (Ω), `test_temp_c` (°C).
+- `fields`: each circuit field as a field. Yes-or-no fields have the value `yes` or `no`; a reading
+  beyond the instrument's range keeps its bound as text in base units (`">999"` MΩ, `">0.3"` s).
+  - the circuit: `number` (its reference as typed: `3`, `L2-4`), `description`, `points_served` (a
+    whole number), `role` (`final` or `distribution`), `wiring_type` and `reference_method` (as
+    written), `length_m` (m), `ring` (a ring final circuit), `selv`;
+  - its protection: `device_kind` (`mcb`, `rcbo`, `fuse-gg` or `curve`), `device_curve` (`B`, `C`,
+    `D`), `device_rating` (A), `breaking_capacity` (A), `library_device_id` (an id in
+    `library_devices`), `let_through_i2t` (A²s) and `let_through_at` (A, the prospective current the
+    maker states it at), `rcd_idn` (A), `rcd_type` (`general` or `s`, time-delayed), `rcd_waveform`
+    (the RCD's type letter: `AC`, `A`, `F` or `B`), `rcd_additional` (an RCD for additional protection);
+  - its conductors: `line_csa` (mm²), `line_material`, `line_insulation`, `cpc_csa` (mm²),
+    `cpc_material`, `cpc_arrangement` (`in-cable`, `separate` or `armour`), and for a separate one
+    `cpc_insulation`, `cpc_bunched` (with other cables) and `cpc_protected` (mechanically);
+  - its readings and tests: `zs`, `zsc`, `r1r2`, `ze` (Ω), `test_temp_c` (°C), `r2` (Ω), `ring_r1`,
+    `ring_rn`, `ring_r2` (Ω, end to end), `insulation_test_voltage` (V), `insulation_line_line` and
+    `insulation_line_earth` (MΩ), `polarity` (`yes`: correct), `rcd_time_1x` and `rcd_time_5x` (s, at
+    IΔn and 5 IΔn), `rcd_test_button` (`yes`: the RCD tripped on its test button).
 - `verdict`: `pass`, `fail` or `not-shown` (`null` before the first assessment; exports of calc 0.1 wrote
   `incomplete`, read on import as `not-shown`).
 - `assessment`: the calculation core's output (below), or `null`.
@@ -186,6 +225,18 @@ The calculation core's output as it made it; a value's name carries its unit:
 
 Keys the core adds in a later version are kept as they are.
 
+### `instruments[]`
+- `id`: the instrument's number in the store it came from; `number`: its place in the list (1, 2, …).
+- `fields`: `name` (the instrument, as written), `serial`, `calibration_date` (a date).
+- `updated_at`: when it last changed.
+
+### `observations[]`
+- `id`, `number`, `updated_at`: as for instruments.
+- `fields`: `finding` (what was found, as written), `severity` (`serious`: unsafe now or likely to
+  become so; `attention`: to be put right; `note`: for the client's information), `location`.
+- `circuit_ids`: the ids (in `boards[].circuits[]`) of the circuits it concerns; `circuits`: the same
+  as labels, `"<board designation> / <circuit number>"`.
+
 ### `library_devices[]`
 `id`, `name`, `rating_a` (A), `points`: a list of `[current_a, time_s]`, time falling as current rises.
 
@@ -194,9 +245,9 @@ Keys the core adds in a later version are kept as they are.
 or `supervisor`). Never a PIN.
 
 ### `audit[]`
-`id`, `when` (ISO-8601), `person_id` and `who` (the person's id and name), `entity` (`job`, `board` or
-`circuit`) and `entity_id`, `label` (the board's or circuit's designation), `what` (in words),
-`field`, `old` and `new` (the value before and after, as typed).
+`id`, `when` (ISO-8601), `person_id` and `who` (the person's id and name), `entity` (`job`, `board`,
+`circuit`, `instrument`, `observation` or `review`) and `entity_id`, `label` (the board's or circuit's
+designation), `what` (in words), `field`, `old` and `new` (the value before and after, as typed).
 
 ## The CSV file
 UTF-8 with a byte-order mark (so spreadsheets pick the encoding), comma-separated, CRLF line ends, one

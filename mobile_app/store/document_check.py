@@ -86,7 +86,10 @@ JOB = Obj({
     **{name: Value(TEXT) for name in ("client_ref", "site_address", "description", "date", "system",
                                       "recorded_by", "recorded_at", "submitted_by", "submitted_at",
                                       "approved_by", "approved_at", "review_comment")},
+    "overall": Obj({"outcome": Value(TEXT), "reasons": ListOf(Value((str,)))}, nullable=True),
 }, required=True)
+ITEM = {"id": Value(INT), "number": Value(INT), "fields": FIELDS, "updated_at": Value(TEXT)}
+OBSERVATION = Obj({**ITEM, "circuit_ids": ListOf(Value((int,))), "circuits": ListOf(Value((str,)))})
 SHAPE = Obj({
     "schema": Value((str,), required=True),
     "schema_version": Value((int,), required=True),
@@ -95,6 +98,8 @@ SHAPE = Obj({
     "cautions": ListOf(Value((str,))),
     "job": JOB,
     "boards": ListOf(BOARD, required=True),
+    "instruments": ListOf(Obj(ITEM)),
+    "observations": ListOf(OBSERVATION),
     "library_devices": ListOf(Obj({
         "id": Value((int,), required=True), "name": Value((str,), required=True),
         "rating_a": Value(NUMBER), "points": ListOf(ListOf(Value((int, float))), required=True),

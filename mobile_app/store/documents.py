@@ -15,9 +15,11 @@ from mobile_app.store.assessment import Outcome
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import Core, now_iso
+from mobile_app.store.doc_versions import CURRENT_VERSION, upgrade_document
 from mobile_app.store.document_check import check_job_document
 from mobile_app.store.errors import DocumentError
 from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
+from mobile_app.store.items import Items, export_items, import_items
 from mobile_app.store.jobs import Jobs
 from mobile_app.store.library import Library
 from mobile_app.store.people import People
@@ -25,7 +27,7 @@ from mobile_app.store.roster import Roster
 from mobile_app.store.rows import parse, triples
 
 DOCUMENT_SCHEMA = "boardside-job"
-DOCUMENT_SCHEMA_VERSION = 1
+DOCUMENT_SCHEMA_VERSION = CURRENT_VERSION
 STATUSES = ("draft", "submitted", "approved")
 
 
@@ -41,6 +43,8 @@ class Documents:
         boards: Boards,
         circuits: Circuits,
         roster: Roster,
+        instruments: Items,
+        observations: Items,
     ) -> None:
         self.core = core
         self.people = people
@@ -49,10 +53,13 @@ class Documents:
         self.boards = boards
         self.circuits = circuits
         self.roster = roster
+        self.instruments = instruments
+        self.observations = observations
 
     def export(self, job_id: int) -> dict[str, Any]:
-        """The whole job (boards, circuits with fields as typed and assessments, library devices
-        used, audit trail) as a JSON-able dict with "schema": "boardside-job"."""
+        """The whole job (boards, circuits with fields as typed and assessments, instruments,
+        observations, the overall outcome, library devices used, audit trail) as a JSON-able dict
+        with "schema": "boardside-job"."""
         return self._document(job_id, None)
 
     def salvage(self, job_id: int, problems: list[str]) -> dict[str, Any]:
@@ -113,6 +120,10 @@ class Documents:
                     "circuits": circuits,
                 }
             )
+        labels = {c["id"]: f"{b['designation']} / {c['number']}" for b in boards for c in b["circuits"]}
+        instruments = part("instruments", lambda: export_items(self.instruments, job_id, labels), [])
+        observations = part("observations", lambda: export_items(self.observations, job_id, labels), [])
+        overall = part("overall outcome", lambda: self.jobs.overall(job_id).to_dict(), None)
         everyone = part("people", lambda: {p["id"]: p for p in self.people.all()}, {})
         names = {person_id: person["name"] for person_id, person in everyone.items()}
         library = part("device library", self.library.all, [])
@@ -143,8 +154,11 @@ class Documents:
                 "approved_by": names.get(job["approved_by"]),
                 "approved_at": job["approved_at"],
                 "review_comment": job["review_comment"],
+                "overall": overall,
             },
             "boards": boards,
+            "instruments": instruments,
+            "observations": observations,
             "library_devices": [d for d in library if d["id"] in used_library],
             "people": [
                 {"id": p["id"], "name": p["name"], "role": p["role"]}
@@ -170,7 +184,9 @@ class Documents:
 
         The job comes back as it was exported: status, revision and its reason, who recorded,
         submitted and approved it and when, the review comment, each field as typed, each circuit's
-        assessment with its calc version, and the audit trail (followed by one "imported" entry).
+        assessment with its calc version, its instruments and observations, and the audit trail
+        (followed by one "imported" entry). An older document is first brought up to date
+        (`doc_versions`).
         People are matched by name and role, or added without a PIN. An approved job stays approved
         and read-only. A draft circuit assessed by another calc version is reassessed, with an audit
         entry when that changes it. Ids are this store's; the parent revision is linked only when
@@ -178,8 +194,7 @@ class Documents:
         """
         if not isinstance(doc, dict) or doc.get("schema") != DOCUMENT_SCHEMA:
             raise DocumentError(f'"schema" is not "{DOCUMENT_SCHEMA}"')
-        if doc.get("schema_version") != DOCUMENT_SCHEMA_VERSION:
-            raise DocumentError(f"schema_version {doc.get('schema_version')!r} is not supported")
+        doc = upgrade_document(doc)
         check_job_document(doc)
         with self.core.write() as conn:
             try:
@@ -225,6 +240,7 @@ class Documents:
                 ids["circuit"][imported.source_id(circuit)] = circuit_id
                 if imported.outcome_columns(outcome) != imported.outcome_columns(kept):
                     reassessed.append((circuit_id, kept, outcome))
+        ids.update(import_items(self.core, conn, self.library, job_id, doc, ids["circuit"]))
         for entry in doc.get("audit") or []:
             chain.append(conn, imported.audit_row(entry, job_id, ids, people))
         note = f"{row['client_ref_raw']} revision {row['revision']}"

@@ -156,3 +156,43 @@ def copy_items(core: Core, conn: Any, from_job: int, to_job: int, circuit_ids: d
                 old = json.loads(row["circuit_ids"] or "[]")
                 copied["circuit_ids"] = json.dumps([circuit_ids[c] for c in old if c in circuit_ids])
             core.insert(conn, table, copied)
+
+
+def export_items(items: Items, job_id: int, circuit_labels: dict[int, str]) -> list[dict[str, Any]]:
+    """A job's instruments or observations as the job document holds them: id, number, fields as
+    typed, updated_at; an observation's `circuit_ids` and their `circuits` labels (`DB-1 / 3`)."""
+    out = []
+    for item in items.of_job(job_id):
+        entry = {k: item[k] for k in ("id", "number", "fields", "updated_at")}
+        if items.kind == "observation":
+            entry["circuit_ids"] = item["circuit_ids"]
+            entry["circuits"] = [circuit_labels.get(c, f"circuit {c}") for c in item["circuit_ids"]]
+        out.append(entry)
+    return out
+
+
+def import_items(
+    core: Core, conn: Any, library: Library, job_id: int, doc: dict[str, Any], circuit_ids: dict[int, int]
+) -> dict[str, dict[int, int]]:
+    """Insert a job document's instruments and observations into a new job (inside the caller's
+    transaction), fields as typed, an observation's circuits mapped to this store's ids (a circuit
+    the document does not hold is left out); returns {kind: {document id: new id}}."""
+    ids: dict[str, dict[int, int]] = {}
+    for kind, table in _TABLES.items():
+        ids[kind] = {}
+        for position, item in enumerate(doc.get(table) or [], start=1):
+            fields = item.get("fields") or {}
+            parsed = [
+                parse(kind, name, as_text((fields.get(name) or {}).get("raw")), library)
+                for name in _NAMES[kind]
+            ]
+            row = dict(triples(_NAMES[kind], parsed), job_id=job_id, position=position,
+                       updated_at=item.get("updated_at") or now_iso())
+            if kind == "observation":
+                row["circuit_ids"] = json.dumps(
+                    [circuit_ids[int(c)] for c in item.get("circuit_ids") or [] if int(c) in circuit_ids]
+                )
+            new_id = core.insert(conn, table, row)
+            if item.get("id") is not None:
+                ids[kind][int(item["id"])] = new_id
+    return ids

@@ -69,7 +69,15 @@ class Store:
         self.instruments = Items(self.core, self.library, "instrument")
         self.observations = Items(self.core, self.library, "observation")
         self.documents = Documents(
-            self.core, self.people, self.library, self.jobs, self.boards, self.circuits, self.roster
+            self.core,
+            self.people,
+            self.library,
+            self.jobs,
+            self.boards,
+            self.circuits,
+            self.roster,
+            self.instruments,
+            self.observations,
         )
         self.review = Review(self.core, self.people, self.documents)
         self.integrity = Integrity(self.core, self.roster, self.documents)
