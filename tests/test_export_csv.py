@@ -96,7 +96,7 @@ def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> 
     doc = store.documents.export(job_id)
     rows = _rows(job_csv_bytes(doc))
     circuits = [c for board in doc["boards"] for c in board["circuits"]]
-    assert len(rows) == len(circuits) == 22 + 9
+    assert len(rows) == len(circuits) == 24 + 9
     assert list(rows[0]) == csv_headers()
     for header in ("Zs measured (Ω)", "If (A)", "In (A)", "Line csa (mm²)", "RCD IΔn (A)",
                    "k line (A·s½/mm²)", "Let-through I²t (A²s)", "Test temperature (°C)"):

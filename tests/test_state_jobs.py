@@ -176,7 +176,7 @@ def test_status_filter(store) -> None:
 def test_review_summary_counts(store) -> None:
     job_id = ensure_demo(store)
     summary = ReviewState(store, job_id).summary()
-    assert summary.startswith("22 circuits · ") and "failing" in summary and "not shown" in summary
+    assert summary.startswith("24 circuits · ") and "failing" in summary and "not shown" in summary
 
 
 def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) -> None:
