@@ -98,30 +98,56 @@ def test_one_row_per_circuit_with_unit_headers(store_job: tuple[Store, int]) -> 
     circuits = [c for board in doc["boards"] for c in board["circuits"]]
     assert len(rows) == len(circuits) == 24 + 9
     assert list(rows[0]) == csv_headers()
-    for header in ("Zs measured (Ω)", "If (A)", "In (A)", "Line csa (mm²)", "RCD IΔn (A)",
-                   "k line (A·s½/mm²)", "Let-through I²t (A²s)", "Test temperature (°C)"):
+    for header in ("Zs (Ω)", "Zs limit (Ω)", "R1+R2 (Ω)", "Ring r1 (Ω)", "Insulation L–E (MΩ)",
+                   "Insulation test voltage (V)", "RCD IΔn (mA)", "RCD time at IΔn (ms)",
+                   "Breaking capacity (kA)", "Line (mm²)", "Length (m)"):
         assert header in rows[0]
     first = rows[0]
     assert first["Board"] == "DB-1" and first["Circuit"] == "1"
-    assert float(first["Zs measured (Ω)"]) == pytest.approx(0.71)
-    assert float(first["If (A)"]) == pytest.approx(230 * 0.95 / 0.71)
+    assert (first["Zs (Ω)"], first["Zs from"], first["Zs limit set by"]) == ("0.66", "measured", "RCD")
+    assert (first["Ring r1 (Ω)"], first["Ring rn (Ω)"], first["Ring r2 (Ω)"]) == ("0.56", "0.57", "0.93")
+    assert (first["Insulation L–E (MΩ)"], first["Insulation test voltage (V)"]) == (">999", "500")
+    assert (first["RCD time at IΔn (ms)"], first["RCD time at 5 IΔn (ms)"]) == ("23", "12")
+    assert (first["RCD type"], first["RCD IΔn (mA)"], first["Device"]) == ("A", "30", "RCBO B32")
     assert first["Disconnection: outcome"] == "pass"
     assert first["Disconnection: deciding figure"].endswith("Ω")
-    assert first["Verdict"] == "not-shown" and first["Primary cause"]
+    assert (first["Outcome"], first["Reason"], first["Verdict"]) == ("PASS", "", "pass")
     assert first["Updated by"] == "Rosa Quennell"
     submain = next(row for row in rows if row["Description"].startswith("Sub-main"))
-    assert submain["Library device"].startswith("Workshop incomer 100 A")
-    assert submain["Device"] == "curve" and submain["In (A)"] == "100.0"
+    assert submain["Maker's curve"].startswith("Workshop incomer 100 A")
+    assert submain["Device"] == "curve 100 A" and submain["Breaking capacity (kA)"] == "25"
     assert "competent person" in first["Cautions"]
+    slow = next(row for row in rows if row["Description"] == "Office sockets (radial)")
+    assert (slow["Outcome"], slow["RCD time at IΔn (ms)"]) == ("FAIL", "340")
+    assert slow["Reason"].startswith("RCD operating time: 340 ms at IΔn exceeds 300 ms")
     verdicts = {row["Verdict"] for row in rows}
-    assert {"fail", "not-shown"} <= verdicts
+    assert {"pass", "fail", "not-shown"} <= verdicts
 
 
-def test_milliohms_typed_are_written_in_ohms(store_job: tuple[Store, int]) -> None:
+def test_the_csv_holds_the_pdf_schedules_values(store_job: tuple[Store, int]) -> None:
+    """The same columns, rounded the same way: each CSV row's values are the PDF schedule's."""
+    from mobile_app.export.schedule import COLUMNS, circuit_values
+
+    store, job_id = store_job
+    doc = store.documents.export(job_id)
+    library = {d["id"]: d["name"] for d in doc["library_devices"]}
+    rows = _rows(job_csv_bytes(doc))
+    circuits = [c for board in doc["boards"] for c in board["circuits"]]
+    for row, circuit in zip(rows, circuits, strict=True):
+        values = circuit_values(circuit, library)
+        assert [row[c.header] for c in COLUMNS] == [neutralise_cell(values[c.key]) for c in COLUMNS]
+
+
+def test_readings_are_rounded_as_the_instrument_shows_them(store_job: tuple[Store, int]) -> None:
     store, job_id = store_job
     rows = _rows(job_csv_bytes(store.documents.export(job_id)))
     office = next(row for row in rows if row["Description"] == "Office sockets (radial)")
-    assert office["Zs measured (Ω)"] == "0.71"  # typed "710 mΩ" in the demo
+    assert office["Zs (Ω)"] == "0.71"  # typed "710 mΩ" in the demo
+    lighting = next(row for row in rows if row["Description"] == "Workshop lighting")
+    assert (lighting["Zs (Ω)"], lighting["Zs from"]) == ("1.13", "Ze + (R1+R2)")  # 0.28 + 0.85
+    assert lighting["Zs limit (Ω)"] == "6.09"  # 6.0874 Ω worked out at 18 °C
+    wheels = next(row for row in rows if row["Description"] == "Wheel benches")
+    assert (wheels["Insulation L–L (MΩ)"], wheels["Insulation L–E (MΩ)"]) == ("85.0", "0.62")
 
 
 def test_hostile_text_is_neutralised_in_the_file(store_job: tuple[Store, int]) -> None:
@@ -136,7 +162,7 @@ def test_hostile_text_is_neutralised_in_the_file(store_job: tuple[Store, int]) -
             if cell[:1] in ("=", "+", "-", "@", "\t", "\r"):
                 float(cell)  # raises unless the cell is a plain number
     phone = next(row for row in rows if row["Description"] == "'+44 20 7946 0000")
-    assert phone["Zs measured (Ω)"] == ""
+    assert phone["Zs (Ω)"] == ""
     assert phone["Input problems"].startswith('zs "+44 20 7946 0000": ')
     formula = next(row for row in rows if row["Description"] == "'=1+2")
     assert formula["Input problems"].startswith('zs "=1+2": ')

@@ -36,13 +36,21 @@ def _squash(text: str) -> str:
     return " ".join(text.split())
 
 
+def _body(page_text: str) -> str:
+    """A page's text without its watermark and footer (so a paragraph broken across pages reads on)."""
+    text = page_text.removeprefix("DRAFT · NOT APPROVED").removeprefix("IN REVIEW · NOT APPROVED")
+    footer = text.rfind(CAUTIONS[0][:40])
+    return text[:footer] if footer >= 0 else text
+
+
 def test_job_and_supply_are_in_the_header(approved_pdf: tuple[dict, PdfReader, str]) -> None:
     doc, reader, _text = approved_pdf
     first = _squash(reader.pages[0].extract_text())
-    assert "Verification record: TY-2026-118" in first
+    assert "Test record: TY-2026-118" in first
     assert "Unit 7, Tannery Yard, Harlow Mill Road, Wexcombe" in first
     assert "TN-C-S" in first and "230 V" in first and "0.28 Ω" in first
-    assert "1900 A (typed “1.9 kA”)" in first
+    assert "Prospective fault current at the origin 1.9 kA" in first
+    assert "Overall outcome UNSATISFACTORY" in first and "Purpose Periodic inspection" in first
     verdicts = [c["verdict"] for board in doc["boards"] for c in board["circuits"]]
     assert (f"{len(verdicts)} circuits: {verdicts.count('pass')} pass, {verdicts.count('fail')} fail, "
             f"{len(verdicts) - verdicts.count('pass') - verdicts.count('fail')} not shown") in first
@@ -65,8 +73,8 @@ def test_every_circuit_and_verdict_is_listed(approved_pdf: tuple[dict, PdfReader
 def test_working_shows_every_step_with_formula_and_numbers(
     approved_pdf: tuple[dict, PdfReader, str]
 ) -> None:
-    doc, _reader, text = approved_pdf
-    flat = _squash(text)
+    doc, reader, _text = approved_pdf
+    flat = _squash(" ".join(_body(page.extract_text()) for page in reader.pages))
     for circuit in doc["boards"][0]["circuits"][:3]:
         for step in circuit["assessment"]["steps"]:
             working = " → ".join(_squash(step[key]) for key in ("formula", "working") if step[key])
@@ -93,8 +101,9 @@ def test_symbols_render_as_themselves() -> None:
 def test_review_block_and_cautions(approved_pdf: tuple[dict, PdfReader, str]) -> None:
     _doc, reader, text = approved_pdf
     flat = _squash(text)
-    assert "Review and approval" in flat
-    assert "Approved by Ines Okafor" in flat and "Recorded by Rosa Quennell" in flat
+    assert "People and signatures" in flat
+    assert "Reviewed and approved by Ines Okafor supervisor" in flat
+    assert "Recorded by Rosa Quennell qualified" in flat
     for caution in CAUTIONS:
         assert _squash(caution) in flat
     for page in reader.pages:  # the footer carries the cautions on every page
@@ -154,8 +163,9 @@ def test_long_unbroken_text_is_wrapped_not_lost() -> None:
     circuit = {"number": "1", "description": long_word, "verdict": None, "fields": {}}
     doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 4, "fields": {}},
            "boards": [{"designation": "DB-B", "circuits": [circuit]}]}
-    text = "".join(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text().split())
-    assert long_word in text
+    pages = PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages
+    assert long_word in "".join(pages[1].extract_text().split())  # the schedule
+    assert long_word in "".join(pages[-1].extract_text().split())  # the annex
 
 
 def test_a_zs_worked_out_from_ze_and_r1r2_is_marked() -> None:
@@ -164,17 +174,15 @@ def test_a_zs_worked_out_from_ze_and_r1r2_is_marked() -> None:
                "assessment": {"zs_ohm": 0.8, "zs_source": "Ze + (R1+R2)", "steps": []}}
     doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 6, "fields": {}},
            "boards": [{"designation": "DB-D", "circuits": [circuit]}]}
-    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text())
-    assert "4 Hall lights — 0.8 †" in flat
-    assert "† Zs not measured: the value the assessment worked out from its readings " \
-           "(Ze + (R1+R2))." in flat
+    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[1].extract_text())
+    assert "4 Hall lights" in flat and "0.80 (Ze + (R1+R2))" in flat
 
 
 def test_characters_the_font_lacks_show_as_replacement_marks() -> None:
     circuit = {"number": "1", "description": "Heater \U0001f525 \u6f22 \x07 end", "fields": {}}
     doc = {"schema": "boardside-job", "schema_version": 1, "job": {"id": 5, "fields": {}},
            "boards": [{"designation": "DB-C", "circuits": [circuit]}]}
-    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[0].extract_text())
+    flat = _squash(PdfReader(io.BytesIO(job_pdf_bytes(doc))).pages[1].extract_text())
     assert "Heater \ufffd \ufffd \ufffd end" in flat
 
 

@@ -1,8 +1,11 @@
-"""The CSV export: one row per circuit, headers carrying units, safe to open in a spreadsheet.
+"""The CSV export: the schedule of test results, one row per circuit, for a spreadsheet.
 
-Numbers are the parsed values in base units; text cells that a spreadsheet would run as a formula are
-neutralised with a leading apostrophe (`neutralise_cell`). The file is UTF-8 with a byte-order mark so
-that spreadsheets read Ω and ² correctly. The format is described in EXPORT-FORMAT.md.
+The columns are the PDF schedule's values, one value per column, rounded the same way (as the
+instrument shows them) with the unit in the header; then every check's outcome, deciding figure and
+margin; then the job, the verdict and who changed the circuit last. Text cells that a spreadsheet would
+run as a formula are neutralised with a leading apostrophe (`neutralise_cell`). The file is UTF-8 with
+a byte-order mark so that spreadsheets read Ω and ² correctly. The format is described in
+EXPORT-FORMAT.md.
 """
 
 from __future__ import annotations
@@ -15,35 +18,14 @@ from collections.abc import Callable, Iterator
 from typing import Any
 
 from mobile_app.export.common import CAUTIONS, person_label
+from mobile_app.export.figures import local_time
+from mobile_app.export.schedule import COLUMNS, circuit_values
 
 _FORMULA_STARTS = ("=", "+", "-", "@", "\t", "\r")
 _NUMBER = re.compile(r"[+-]?(\d+(\.\d*)?|\.\d+)([eE][+-]?\d+)?")
 
 Row = dict[str, Any]
 Circuit = dict[str, Any]
-
-# (header with unit, circuit field whose parsed value fills it; a library device by its name)
-_INPUT_COLUMNS: tuple[tuple[str, str], ...] = (
-    ("Role", "role"),
-    ("Device", "device_kind"),
-    ("Curve", "device_curve"),
-    ("In (A)", "device_rating"),
-    ("Library device", "library_device_id"),
-    ("Let-through I²t (A²s)", "let_through_i2t"),
-    ("RCD IΔn (A)", "rcd_idn"),
-    ("RCD type", "rcd_type"),
-    ("Line csa (mm²)", "line_csa"),
-    ("Line material", "line_material"),
-    ("Line insulation", "line_insulation"),
-    ("CPC csa (mm²)", "cpc_csa"),
-    ("CPC material", "cpc_material"),
-    ("CPC arrangement", "cpc_arrangement"),
-    ("Zs measured (Ω)", "zs"),
-    ("Zsc measured (Ω)", "zsc"),
-    ("R1+R2 (Ω)", "r1r2"),
-    ("Ze measured (Ω)", "ze"),
-    ("Test temperature (°C)", "test_temp_c"),
-)
 
 CHECK_TITLES: tuple[tuple[str, str], ...] = (
     ("disconnection", "Disconnection"),
@@ -62,36 +44,6 @@ CHECK_TITLES: tuple[tuple[str, str], ...] = (
     ("rcd-button", "RCD button"),
 )
 """Every check calc makes, in walk order: three columns each (outcome, deciding figure, margin)."""
-
-# (header with unit, assessment key)
-_RESULT_COLUMNS: tuple[tuple[str, str], ...] = (
-    ("Zs used (Ω)", "zs_ohm"),
-    ("Zs source", "zs_source"),
-    ("If (A)", "earth_fault_current_a"),
-    ("Isc (A)", "short_circuit_current_a"),
-    ("Max disconnection time (s)", "max_disconnection_time_s"),
-    ("Device time at If (s)", "device_time_s"),
-    ("Device time at Isc (s)", "device_time_at_short_circuit_s"),
-    ("RCD time (s)", "rcd_time_s"),
-    ("Disconnection time (s)", "disconnection_time_s"),
-    ("Zs max (Ω)", "zs_max_ohm"),
-    ("Zs limit at test temperature (Ω)", "zs_limit_at_test_temp_ohm"),
-    ("0.8 × Zs max (Ω)", "zs_rule_of_thumb_ohm"),
-    ("Zs margin OK", "zs_margin_ok"),
-    ("Disconnection OK", "disconnection_ok"),
-    ("Touch voltage RA·IΔn (V)", "touch_voltage_v"),
-    ("Touch voltage OK", "touch_voltage_ok"),
-    ("k line (A·s½/mm²)", "k_line"),
-    ("k CPC (A·s½/mm²)", "k_cpc"),
-    ("Line withstand time (s)", "line_withstand_time_s"),
-    ("Line withstand OK", "line_withstand_ok"),
-    ("CPC by proportion min csa (mm²)", "cpc_proportional_min_mm2"),
-    ("CPC by proportional rule", "cpc_by_proportional_rule"),
-    ("CPC adiabatic min csa (mm²)", "cpc_min_csa_mm2"),
-    ("CPC adiabatic OK", "cpc_adiabatic_ok"),
-    ("CPC OK", "cpc_ok"),
-)
-
 
 def is_number_text(text: str) -> bool:
     """Whether `text` is a plain decimal number (optional sign, digits, point, exponent)."""
@@ -120,12 +72,6 @@ def csv_cell(value: Any) -> str:
     if isinstance(value, float):
         return repr(value) if math.isfinite(value) else ""
     return neutralise_cell(str(value))
-
-
-def _field_value(fields: dict[str, Any], name: str) -> Any:
-    """A circuit field's parsed value (None when blank or unusable: see the input problems column)."""
-    field = fields.get(name)
-    return field.get("value") if isinstance(field, dict) else None
 
 
 def _input_problems(fields: dict[str, Any]) -> str:
@@ -157,19 +103,13 @@ def _person(person: Any, names: dict[int, str]) -> str | None:
 
 
 def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], Any]]]:
-    """Every column: its header and how a (job context, circuit) pair fills it."""
+    """Every column: its header and how a (board context, circuit) pair fills it."""
 
-    def job_key(key: str) -> Callable[[Row, Circuit], Any]:
+    def context_key(key: str) -> Callable[[Row, Circuit], Any]:
         return lambda context, _circuit: context[key]
 
-    def input_field(name: str) -> Callable[[Row, Circuit], Any]:
-        if name == "library_device_id":
-            return lambda context, circuit: context["library"].get(
-                _field_value(circuit.get("fields") or {}, name))
-        return lambda _context, circuit: _field_value(circuit.get("fields") or {}, name)
-
-    def result(key: str) -> Callable[[Row, Circuit], Any]:
-        return lambda _context, circuit: (circuit.get("assessment") or {}).get(key)
+    def scheduled(key: str) -> Callable[[Row, Circuit], Any]:
+        return lambda context, _circuit: context["values"][key] or None
 
     def check_field(check_id: str, key: str) -> Callable[[Row, Circuit], Any]:
         def fill(_context: Row, circuit: Circuit) -> Any:
@@ -180,17 +120,8 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
 
         return fill
 
-    columns: list[tuple[str, Callable[[Row, Circuit], Any]]] = [
-        ("Job", job_key("job_id")),
-        ("Client reference", job_key("client_ref")),
-        ("Revision", job_key("revision")),
-        ("Status", job_key("status")),
-        ("Board", job_key("board")),
-        ("Circuit", lambda _context, circuit: circuit.get("number")),
-        ("Description", lambda _context, circuit: circuit.get("description")),
-    ]
-    columns += [(header, input_field(name)) for header, name in _INPUT_COLUMNS]
-    columns += [(header, result(key)) for header, key in _RESULT_COLUMNS]
+    columns: list[tuple[str, Callable[[Row, Circuit], Any]]] = [("Board", context_key("board"))]
+    columns += [(column.header, scheduled(column.key)) for column in COLUMNS]
     for check_id, title in CHECK_TITLES:
         columns += [
             (f"{title}: outcome", check_field(check_id, "outcome")),
@@ -198,11 +129,13 @@ def _columns(names: dict[int, str]) -> list[tuple[str, Callable[[Row, Circuit], 
             (f"{title}: margin", check_field(check_id, "margin")),
         ]
     columns += [
-        ("Primary cause", lambda _context, circuit: ((circuit.get("assessment") or {}).get("primary_cause")
-                                                     or {}).get("text")),
         ("Verdict", lambda _context, circuit: circuit.get("verdict")),
+        ("Job", context_key("job_id")),
+        ("Client reference", context_key("client_ref")),
+        ("Revision", context_key("revision")),
+        ("Status", context_key("status")),
         ("Calc version", lambda _context, circuit: circuit.get("calc_version")),
-        ("Updated at", lambda _context, circuit: circuit.get("updated_at")),
+        ("Updated at", lambda _context, circuit: local_time(circuit.get("updated_at")) or None),
         ("Updated by", lambda _context, circuit: _person(circuit.get("updated_by"), names)),
         ("Input problems", lambda _context, circuit: _input_problems(circuit.get("fields") or {})),
         ("Cautions", lambda _context, _circuit: " ".join(CAUTIONS)),
@@ -219,7 +152,7 @@ def _rows(doc: dict[str, Any]) -> Iterator[list[str]]:
     """Every circuit of the document as a row of cell texts, board by board."""
     job = doc.get("job") or {}
     columns = _columns(people_names(doc))
-    library = {float(device["id"]): device.get("name") for device in doc.get("library_devices") or []
+    library = {int(device["id"]): str(device.get("name") or "") for device in doc.get("library_devices") or []
                if isinstance(device, dict) and isinstance(device.get("id"), int)}
     for board in doc.get("boards") or []:
         context: Row = {
@@ -231,6 +164,7 @@ def _rows(doc: dict[str, Any]) -> Iterator[list[str]]:
             "library": library,
         }
         for circuit in board.get("circuits") or []:
+            context["values"] = circuit_values(circuit, library)
             yield [csv_cell(fill(context, circuit)) for _header, fill in columns]
 
 

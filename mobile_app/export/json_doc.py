@@ -186,42 +186,37 @@ Every reading and setting is kept exactly as typed beside what it means:
   (their name and role are in `people`).
 
 ### `assessment`
-The calculation core's output as it made it; a value's name carries its unit:
-- `verdict`, `reasons`: the overall verdict (`pass` only when every check passes, `fail` when one fails
-  on evidence, else `not-shown`) and the checks that did not pass (`"Disconnection: fail"`).
-- `checks`: every check with its `outcome` (`pass`, `fail`, `not-shown`), `ok`, the deciding `figure`
-  and the `limit` it was held against with their `unit`, `relation` (`≤` or `≥`), `margin_pct`,
-  `margin` and `deciding` (the same words on every surface), `why`, `needs` (what would decide a check
-  not shown), `source`, `follows_from`, `current_a` and `time_s` (what the check used), `id` and `title`.
-- `primary_cause`: the one check to read first: `check`, `outcome`, `text`, `remedies`, `follows`.
-- `plausibility`: notes on valid but unusual readings.
-- `calc_version`, `inputs`: the core's version and the normalised inputs it worked from.
-- `device`: the protective device in short (`"B32"`).
-- `zs_ohm`, `zs_source`: the Zs used (Ω) and where it came from (`"measured"` or `"Ze + (R1+R2)"`).
-- `earth_fault_current_a`: If = U0·Cmin/Zs (A); `short_circuit_current_a`: Isc = U0·Cmin/Zsc (A).
-- `max_disconnection_time_s`: the time the rules allow for this circuit (s).
-- `device_time_s`, `device_time_at_short_circuit_s`: the device's operating time at If and at Isc (s).
-- `rcd_time_s`, `disconnection_time_s`: the RCD's time, and the time that clears the fault (s).
-- `zs_max_ohm`: the largest Zs that still meets the allowed time (Ω);
-  `zs_limit_at_test_temp_ohm`: that limit corrected to the test temperature (Ω);
-  `zs_rule_of_thumb_ohm`: 0.8 × Zs max (Ω, published guidance, a sufficient check only);
-  `zs_margin_ok`: the reading meets the limit at operating temperature (`null` when not shown).
-- `disconnection_ok`, `earth_path_ok`, `breaking_capacity_ok`, `line_withstand_ok`,
-  `line_withstand_max_ok`, `line_withstand_min_ok`, `cpc_ok`, `cpc_adiabatic_ok`, `touch_voltage_ok`,
-  `insulation_ok`, `continuity_ok`, `ring_ok`, `polarity_ok`, `rcd_time_ok`, `rcd_button_ok`: each
-  check's outcome (`true`, `false`, or `null` when it is not shown).
+The calculation core's output as it made it; a value's name carries its unit: - `verdict`, `reasons`:
+the overall verdict (`pass` only when every check passes, `fail` when one fails on evidence, else
+`not-shown`) and the checks that did not pass (`"Disconnection: fail"`). - `checks`: every check with
+its `outcome` (`pass`, `fail`, `not-shown`), `ok`, the deciding `figure` and the `limit` it was held
+against with their `unit`, `relation` (`≤` or `≥`), `margin_pct`, `margin` and `deciding` (the same
+words on every surface), `why`, `needs` (what would decide a check not shown), `source`, `follows_from`,
+`current_a` and `time_s` (what the check used), `id` and `title`. - `primary_cause`: the one check to
+read first: `check`, `outcome`, `text`, `remedies`, `follows`. - `plausibility`: notes on valid but
+unusual readings. - `calc_version`, `inputs`: the core's version and the normalised inputs it worked
+from. - `device`: the protective device in short (`"B32"`). - `zs_ohm`, `zs_source`: the Zs used (Ω) and
+where it came from (`"measured"` or `"Ze + (R1+R2)"`). - `earth_fault_current_a`: If = U0·Cmin/Zs (A);
+`short_circuit_current_a`: Isc = U0·Cmin/Zsc (A). - `max_disconnection_time_s`: the time the rules allow
+for this circuit (s). - `device_time_s`, `device_time_at_short_circuit_s`: the device's operating time
+at If and at Isc (s). - `rcd_time_s`, `disconnection_time_s`: the RCD's time, and the time that clears
+the fault (s). - `zs_max_ohm`: the largest Zs that still meets the allowed time (Ω);
+`zs_limit_at_test_temp_ohm`: that limit corrected to the test temperature (Ω); `zs_rule_of_thumb_ohm`:
+0.8 × Zs max (Ω, published guidance, a sufficient check only); `zs_margin_ok`: the reading meets the
+limit at operating temperature (`null` when not shown). - `disconnection_ok`, `earth_path_ok`,
+`breaking_capacity_ok`, `line_withstand_ok`, `line_withstand_max_ok`, `line_withstand_min_ok`, `cpc_ok`,
+`cpc_adiabatic_ok`, `touch_voltage_ok`, `insulation_ok`, `continuity_ok`, `ring_ok`, `polarity_ok`,
+`rcd_time_ok`, `rcd_button_ok`: each check's outcome (`true`, `false`, or `null` when it is not shown).
 - `zs_limit_ohm` (the largest Zs the device or the RCD allows, Ω), `zs_at_operating_temp_ohm`,
-  `insulation_min_mohm` (MΩ), `expected_r1r2_ohm`, `ring_expected_r1r2_ohm` (Ω),
-  `rcd_time_limit_1x_s`, `rcd_time_limit_5x_s` (s): the figures of the newer checks.
-- `touch_voltage_v`: RA·IΔn for a TT circuit relying on an RCD (V).
-- `k_line`, `k_cpc`: k of the line and protective conductors (A·s½/mm²).
-- `line_withstand_time_s`: t = k²S²/I², how long the line conductor survives the fault (s).
-- `cpc_proportional_min_mm2`: the protective conductor the proportional-size rule asks for (mm²);
-  `cpc_by_proportional_rule`: whether the rule was met.
-- `cpc_min_csa_mm2`: S = √(I²t)/k, the smallest protective conductor that survives the fault (mm²).
-- `cautions`: the cautions, as the core gives them.
+`insulation_min_mohm` (MΩ), `expected_r1r2_ohm`, `ring_expected_r1r2_ohm` (Ω), `rcd_time_limit_1x_s`,
+`rcd_time_limit_5x_s` (s): the figures of the newer checks. - `touch_voltage_v`: RA·IΔn for a TT circuit
+relying on an RCD (V). - `k_line`, `k_cpc`: k of the line and protective conductors (A·s½/mm²). -
+`line_withstand_time_s`: t = k²S²/I², how long the line conductor survives the fault (s). -
+`cpc_proportional_min_mm2`: the protective conductor the proportional-size rule asks for (mm²);
+`cpc_by_proportional_rule`: whether the rule was met. - `cpc_min_csa_mm2`: S = √(I²t)/k, the smallest
+protective conductor that survives the fault (mm²). - `cautions`: the cautions, as the core gives them.
 - `steps`: the working in walk order, each with `id`, `title`, `formula`, `working` (the formula with
-  the numbers), `value`, `unit`, `verdict` (`pass`, `fail`, `not-shown` or `info`), `note`.
+the numbers), `value`, `unit`, `verdict` (`pass`, `fail`, `not-shown` or `info`), `note`.
 
 Keys the core adds in a later version are kept as they are.
 
@@ -251,19 +246,44 @@ designation), `what` (in words), `field`, `old` and `new` (the value before and 
 
 ## The CSV file
 UTF-8 with a byte-order mark (so spreadsheets pick the encoding), comma-separated, CRLF line ends, one
-header row, then one row per circuit, board by board. Headers carry their units, e.g.
-`Zs measured (Ω)`, `If (A)`, `k line (A·s½/mm²)`. Numbers are parsed values in base units, written
-plainly (`0.62`, `1.2e-05`); an empty cell means no value; `yes`/`no` for checks. The column
-`Input problems` lists any reading that could not be used, with the text as typed. Any text cell that
-starts with `=`, `+`, `-`, `@`, a tab or a carriage return and is not a number gets a leading
-apostrophe `'`, so that no spreadsheet runs it as a formula. The last column repeats the cautions.
+header row, then one row per circuit, board by board. The columns are those of the PDF's schedule of
+test results, one value per column, rounded the same way and with the unit in the header: `Board`,
+`Circuit` (the reference as typed), `Description`, `Ring or SELV`, `Points`, `Wiring`, `Reference
+method`, `Length (m)`, `Device` (`RCBO B32`, `gG 32 A`, `curve 100 A`), `Maker's curve` (its name),
+`Breaking capacity (kA)`, `RCD type` (the type letter, and `type S (delayed)`), `RCD IΔn (mA)`, `Line
+(mm²)`, `Protective conductor (mm²)`, `R1+R2 (Ω)`, `R2 (Ω)`, `Ring r1 (Ω)`, `Ring rn (Ω)`, `Ring r2
+(Ω)`, `Insulation test voltage (V)`, `Insulation L–L (MΩ)`, `Insulation L–E (MΩ)`, `Polarity` (`correct`
+or `wrong`), `Zs (Ω)`, `Zs from` (`measured`, or how it was worked out), `Zs limit (Ω)`, `Zs limit set
+by` (`device` or `RCD`), `RCD time at IΔn (ms)`, `RCD time at 5 IΔn (ms)`, `RCD test button` (`trips` or
+`does not trip`), `Outcome` (`PASS`, `FAIL`, `NOT SHOWN`) and `Reason` (the primary cause in words, for
+an outcome other than a pass). Then, for every check the calculation core makes, its outcome, deciding
+figure and margin (`Disconnection: outcome`, …); then `Verdict` (the word as stored), `Job`, `Client
+reference`, `Revision`, `Status`, `Calc version`, `Updated at` (local time), `Updated by`, `Input
+problems` (any reading that could not be used, with the text as typed) and `Cautions`.
+
+Readings are rounded to three significant figures, as an installation tester shows them (at most two
+decimals; RCD times in whole milliseconds); a reading beyond the instrument's range keeps its `>`
+(`>999`). The JSON keeps every value at full precision. An empty cell means nothing was recorded. Any
+text cell that starts with `=`, `+`, `-`, `@`, a tab or a carriage return and is not a number gets a
+leading apostrophe `'`, so that no spreadsheet runs it as a formula.
 
 ## The PDF file
-A4, DejaVu Sans embedded (its licence is in mobile_app/fonts). The job and its supply, the cautions,
-each board's table of circuits with their verdicts, the review and approval block, then the working of
-every circuit (each step's result and verdict, its formula and the numbers, its note) and the cautions
-again. Every page's footer carries the cautions and `page n of N`.
-"""
+A4, DejaVu Sans embedded (its licence is in mobile_app/fonts). First the job: its reference, client,
+site, purpose, dates, the overall outcome in short, the supply at the origin, the count of outcomes and
+the cautions. Then, for each board on landscape pages, its schedule of test results: one row per
+circuit, grouped as the work is done — the circuit (reference, description, ring or SELV, points,
+wiring, reference method, length, line and protective conductor sizes), its protection (device, breaking
+capacity, RCD type and IΔn), the tests with the supply off (continuity: R1+R2, R2 or the ring's r1, rn,
+r2; insulation line to line and line to earth at its test voltage; polarity), the live tests (Zs and its
+limit; RCD times at IΔn and 5 IΔn and its test button) and the outcome with its reason in words —
+followed by a legend and the board's details. Then the observations (number, severity, location,
+circuits, finding), the limitations of the inspection, the test instruments, the overall outcome with
+every reason, and the people: who recorded, submitted and approved the record, their roles and the date
+and time of each act (local time). Figures in the schedule are rounded as in the CSV. Last, the
+calculation annex: the working of every circuit at full precision (each check and each step's result and
+verdict, its formula and the numbers, its note) and the cautions again. A record that is not approved
+carries a watermark across every page (`DRAFT · NOT APPROVED`, `IN REVIEW · NOT APPROVED`). Every page's
+footer carries the cautions and `page n of N`."""
 
 from __future__ import annotations
 

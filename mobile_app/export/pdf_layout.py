@@ -1,5 +1,5 @@
-"""Page layout for the PDF export: the A4 page set with its embedded font and footer, word wrapping,
-paragraphs and table rows.
+"""Page layout for the PDF export: the A4 page set with its embedded font, footer and (for a record
+not yet approved) watermark, word wrapping, paragraphs and table rows.
 
 fpdf2's `multi_cell`, `table` and `cell` re-measure and re-style text on every call and take many seconds
 for a job of a few hundred circuits. These helpers measure each word once per font (cached), wrap each
@@ -9,7 +9,7 @@ tests/bench_export.py for the figures.
 
 from __future__ import annotations
 
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
 from importlib import resources
 
@@ -19,6 +19,7 @@ FONT = "DejaVu"
 MARGIN_MM = 15.0
 BLACK = (0, 0, 0)
 GREY = (90, 90, 90)
+WATERMARK = (236, 200, 200)
 _CELL_PAD_MM = 0.8
 
 
@@ -35,9 +36,10 @@ BOLD = CellStyle(bold=True)
 
 
 class JobPdf(FPDF):
-    """A4 portrait pages with DejaVu Sans embedded and a footer: the cautions and "page n of N"."""
+    """A4 pages (portrait, or landscape for wide tables) with DejaVu Sans embedded, a footer (the
+    cautions and "page n of N") and, when `watermark` is given, that text across every page."""
 
-    def __init__(self, footer_title: str, footer_note: str) -> None:
+    def __init__(self, footer_title: str, footer_note: str, watermark: str = "") -> None:
         super().__init__(orientation="portrait", unit="mm", format="A4")
         fonts = resources.files("mobile_app") / "fonts"
         with resources.as_file(fonts / "DejaVuSans.ttf") as regular:
@@ -48,8 +50,20 @@ class JobPdf(FPDF):
         self.set_auto_page_break(auto=True, margin=24)
         self.alias_nb_pages()
         self.footer_title = footer_title
+        self.watermark = watermark
         self.set_font(FONT, "", 6.5)
         self.footer_lines = wrap_text(self, footer_note, self.epw - 2 * self.c_margin)
+
+    def header(self) -> None:
+        """The watermark, drawn first so the page's content lies over it (fpdf2 restores the font
+        and colours after the header)."""
+        if not self.watermark:
+            return
+        use_font(self, "B", 44)
+        self.set_text_color(*WATERMARK)
+        width_mm = text_width_mm(self, self.watermark)
+        with self.rotation(30, self.w / 2, self.h / 2):
+            self.text(self.w / 2 - width_mm / 2, self.h / 2 + 6, self.watermark)
 
     def footer(self) -> None:
         """The cautions, then the job and the page number, at the foot of every page."""
@@ -158,7 +172,7 @@ def paragraph(pdf: FPDF, line_height_mm: float, text: str, indent_mm: float = 0.
     left_mm = pdf.l_margin + indent_mm
     for line in wrap_text(pdf, text, pdf.epw - indent_mm - 2 * pdf.c_margin):
         if pdf.get_y() + line_height_mm > pdf.page_break_trigger:
-            pdf.add_page()
+            pdf.add_page(orientation=pdf.cur_orientation)
         top_mm = pdf.get_y()
         if line:
             pdf.text(left_mm + pdf.c_margin, _baseline_mm(pdf, top_mm, line_height_mm), line)
@@ -173,11 +187,12 @@ def table_row(
     line_height_mm: float = 4.0,
     font_size: float = 8.0,
     repeat: Sequence[str] = (),
+    on_new_page: Callable[[], None] | None = None,
 ) -> None:
     """One bordered table row at the left margin; each cell wraps, the row is as tall as its tallest.
 
-    If the row does not fit on the page, a new page starts and `repeat` (the heading texts), if given,
-    is drawn again in bold first.
+    If the row does not fit on the page, a new page starts (in the same orientation) and `repeat` (the
+    heading texts), if given, is drawn again in bold first, or `on_new_page` draws the headings.
     """
     cell_styles = list(styles or [PLAIN] * len(texts))
     wrapped: list[list[str]] = []
@@ -186,8 +201,10 @@ def table_row(
         wrapped.append(wrap_text(pdf, text, width_mm - 2 * pdf.c_margin))
     height_mm = max(len(lines) for lines in wrapped) * line_height_mm + 2 * _CELL_PAD_MM
     if pdf.will_page_break(height_mm):
-        pdf.add_page()
-        if repeat:
+        pdf.add_page(orientation=pdf.cur_orientation)
+        if on_new_page is not None:
+            on_new_page()
+        elif repeat:
             table_row(pdf, widths_mm, repeat, [BOLD] * len(repeat), line_height_mm, font_size)
     top_mm = pdf.get_y()
     left_mm = pdf.l_margin

@@ -14,7 +14,7 @@ from typing import Any
 SATISFACTORY = "satisfactory"
 UNSATISFACTORY = "unsatisfactory"
 NOT_SHOWN = "not-shown"
-_LISTED = 6
+_LISTED = 24
 """How many circuits a reason names before it says "and N more"."""
 
 
@@ -53,7 +53,7 @@ def _names(labels: list[str]) -> str:
     return shown + (f" and {len(labels) - _LISTED} more" if len(labels) > _LISTED else "")
 
 
-def _short(text: str, chars: int = 80) -> str:
+def _short(text: str, chars: int = 160) -> str:
     one = " ".join(text.split())
     return one if len(one) <= chars else one[: chars - 1] + "…"
 
