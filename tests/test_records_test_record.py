@@ -354,3 +354,19 @@ def test_a_store_written_by_the_previous_release_opens_with_all_it_held(tmp_path
         store.observations.add(draft, {"finding": "recorded after the update", "severity": "note"})
         with pytest.raises(ReadOnlyError):
             store.observations.add(approved, {"finding": "too late"})
+
+
+def test_a_signed_store_of_the_previous_release_keeps_its_approvals(tmp_path: Path) -> None:
+    """tests/fixtures/store-schema6.sqlite.gz: approved and signed before the test record came in; the
+    new blank fields leave the signed parts as they were."""
+    (tmp_path / STORE_FILE).write_bytes(gzip.decompress((FIXTURES / "store-schema6.sqlite.gz").read_bytes()))
+    with Store.open(tmp_path) as store:
+        assert store.backup_path is not None and "-v6-" in store.backup_path.name
+        report = store.integrity.check()
+        assert report.ok and report.broken == {}
+        assert report.unverified == {2: "Ines Okafor is not enrolled by the firm"}
+        approved = store.jobs.get(2)
+        assert approved["status"] == "approved"
+        assert approved["fields"]["purpose"] == {"raw": "", "value": None, "error": None}
+        store.instruments.add(1, {"name": "meter added after the update"})
+        assert store.integrity.check().ok
