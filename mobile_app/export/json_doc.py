@@ -99,10 +99,14 @@ An approval is an Ed25519 signature (RFC 8032) by the supervisor's key over the 
 `{"schema": "boardside-approval", "schema_version": 1, "document_sha256", "parts", "revision",
 "supervisor", "public_key", "approved_at", "audit_head"}`; `signature` (128 hex digits) is added
 beside them. `parts` maps each part of the document to the SHA-256 of its canonical JSON:
-`job` (the job without `id`, `status`, `parent_job_id`, `approved_by`, `approved_at`), `boards/<i>`
-(board i without `id` and `circuits`) and `boards/<i>/circuits/<j>` (circuit j without `id`, its
-`updated_by` as a name, its `library_device_id` field replaced by `library_device`, the device's
-`name`, `rating_a` and `points`); `document_sha256` is the SHA-256 of the canonical JSON of `parts`.
+`job` (the job without `id`, `status`, `parent_job_id`, `approved_by`, `approved_at` and `overall`),
+`boards/<i>` (board i without `id` and `circuits`), `boards/<i>/circuits/<j>` (circuit j without `id`,
+its `updated_by` as a name, its `library_device_id` field replaced by `library_device`, the device's
+`name`, `rating_a` and `points`), and `instruments/<i>` and `observations/<i>` (without `id` and
+`circuit_ids`; an observation's circuits count by their labels); `document_sha256` is the SHA-256 of
+the canonical JSON of `parts`. A field added in version 2 counts only when it holds something (raw
+text, a value or an error): left blank it is hashed as if absent, so approvals signed before version 2
+still hold.
 Ids, `exported_at`, `cautions`, `calc_version` at the top, `people` and `audit` are not covered;
 `audit_head` is the hash of the device's audit chain when the job was approved.
 
