@@ -87,10 +87,13 @@ class Shell:
 
 def _routes() -> list[tuple[re.Pattern[str], Callable[..., ft.View]]]:
     from mobile_app.views import (
+        board_view,
+        details_view,
         job_view,
         jobs_view,
         library_view,
         new_job_view,
+        observations_view,
         outbox_view,
         review_view,
         settings_view,
@@ -102,6 +105,9 @@ def _routes() -> list[tuple[re.Pattern[str], Callable[..., ft.View]]]:
         (re.compile(r"^/new$"), new_job_view.build),
         (re.compile(r"^/job/(\d+)$"), job_view.build),
         (re.compile(r"^/job/(\d+)/review$"), review_view.build),
+        (re.compile(r"^/job/(\d+)/details$"), details_view.build),
+        (re.compile(r"^/job/(\d+)/observations$"), observations_view.build),
+        (re.compile(r"^/job/(\d+)/board/(\d+)$"), board_view.build),
         (re.compile(r"^/job/(\d+)/circuit/(\d+)/(\w+)$"), walk_view.build),
         (re.compile(r"^/library$"), library_view.build),
         (re.compile(r"^/outbox$"), outbox_view.build),

@@ -28,7 +28,7 @@ def fill_to_readings(walk: Walk) -> None:
 
 
 def test_steps_in_walk_order() -> None:
-    assert STEPS == ("device", "conductors", "readings", "results")
+    assert STEPS == ("device", "conductors", "tests", "readings", "results")
 
 
 def test_new_circuit_gets_usual_choices(store) -> None:
@@ -132,9 +132,9 @@ def test_second_circuit_copies_the_first_ones_device(store) -> None:
 def test_progress_and_neighbours(store) -> None:
     _job, circuit_id = new_circuit(store)
     walk = Walk(store, circuit_id, step="conductors")
-    assert walk.progress_text == "Step 2 of 4 · Conductors"
-    assert walk.progress == 0.5
-    assert (walk.previous_step, walk.next_step) == ("device", "readings")
+    assert walk.progress_text == "Step 2 of 5 · Conductors"
+    assert walk.progress == 0.4
+    assert (walk.previous_step, walk.next_step) == ("device", "tests")
     walk.step = "results"
     assert walk.next_step is None and not walk.can_next()
 

@@ -18,15 +18,20 @@ def choice_row(
     *,
     disabled: bool = False,
     message: str | None = None,
+    clearable: bool = False,
 ) -> ft.Column:
-    """Label, then one button per choice; the selected one is filled and ticked."""
+    """Label, then one button per choice; the selected one is filled and ticked. With `clearable`
+    (an optional answer), tapping the selected one again clears the answer."""
     buttons: list[ft.Control] = []
+    current = [selected]
 
     def pick(value: str) -> Callable[[ft.Event[ft.Button]], None]:
         def handler(e: ft.Event[ft.Button]) -> None:
+            chosen = "" if clearable and current[0] == value else value
+            current[0] = chosen
             for button in buttons:
-                _style(button, button.data == value)
-            on_pick(value)
+                _style(button, button.data == chosen)
+            on_pick(chosen)
             row.update()
 
         return handler

@@ -19,6 +19,7 @@ def text_input(
     error: str | None = None,
     read_only: bool = False,
     password: bool = False,
+    multiline: bool = False,
 ) -> ft.TextField:
     """A TextField; `on_change(text)` saves and returns (helper text, error message or None)."""
 
@@ -42,4 +43,7 @@ def text_input(
         can_reveal_password=password,
         on_change=changed,
         error_max_lines=3,
+        multiline=multiline,
+        min_lines=3 if multiline else None,
+        max_lines=8 if multiline else None,
     )

@@ -26,6 +26,16 @@ _MARKS: dict[str, VerdictMark] = {
     "info": VerdictMark("", "", "neutral"),
 }
 OLD_WORDS = {"incomplete": "not-shown", "check": "not-shown"}
+_OVERALL_MARKS: dict[str, VerdictMark] = {
+    "satisfactory": VerdictMark("SATISFACTORY", "CHECK_CIRCLE", "good"),
+    "unsatisfactory": VerdictMark("UNSATISFACTORY", "CANCEL", "bad"),
+    "not-shown": VerdictMark("NOT SHOWN YET", "HELP_OUTLINE", "unknown"),
+}
+
+
+def overall_mark(outcome: str | None) -> VerdictMark:
+    """The word, icon and tone of a job's overall outcome; anything else reads as not shown yet."""
+    return _OVERALL_MARKS.get(outcome or "", _OVERALL_MARKS["not-shown"])
 """Verdict words of assessments saved by calc 0.1, read as now."""
 
 

@@ -6,8 +6,8 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.state.fields import STEP_TITLES, STEPS, Choice, FieldSpec, label_for, specs_for_step
+from mobile_app.state.form import parsed_text
 from mobile_app.state.results import ResultsPanel, results_panel
-from mobile_app.state.text import format_quantity
 from mobile_app.store import StoreError
 
 
@@ -25,11 +25,7 @@ class FieldView:
     @property
     def parsed_text(self) -> str:
         """`= 0.62 Ω` under a number field once its text parses; empty otherwise."""
-        if self.spec.kind != "number" or self.error or self.value is None or self.raw == "":
-            return ""
-        if not isinstance(self.value, int | float):
-            return ""
-        return "= " + format_quantity(float(self.value), self.spec.unit)
+        return parsed_text(self.spec, self.raw, self.value, self.error)
 
     @property
     def message(self) -> str | None:
@@ -113,6 +109,13 @@ class Walk:
     def _visible(self, spec: FieldSpec) -> bool:
         return all(self.raw(other) in allowed for other, allowed in spec.shown_when.items())
 
+    def required(self, spec: FieldSpec) -> bool:
+        """Whether a field must be filled in before going on (an RCBO needs its RCD's IΔn)."""
+        if spec.required:
+            return True
+        return bool(spec.required_when) and all(
+            self.raw(other) in allowed for other, allowed in spec.required_when.items())
+
     def field(self, name: str) -> FieldView:
         """One field's view."""
         spec = next(s for s in self._all_specs() if s.name == name)
@@ -152,7 +155,7 @@ class Walk:
         return [
             f"{label_for(view.spec.name)} is needed"
             for view in self.fields()
-            if view.spec.required and view.raw.strip() == ""
+            if self.required(view.spec) and view.raw.strip() == ""
         ]
 
     def invalid(self) -> list[str]:
@@ -160,7 +163,7 @@ class Walk:
         return [
             view.message
             for view in self.fields()
-            if view.message and view.raw.strip() and (view.spec.required or view.spec.name == "zs")
+            if view.message and view.raw.strip() and (self.required(view.spec) or view.spec.name == "zs")
         ]
 
     def blocking(self) -> list[str]:

@@ -51,18 +51,13 @@ class Boards:
         """A job's boards in order: id, designation, location, supplied_from, version, fields."""
         self.core.row("job", job_id)
         return [
-            {
-                "id": row["id"],
-                "job_id": job_id,
-                "position": row["position"],
-                "version": row["version"],
-                "designation": row["designation_raw"],
-                "location": row["location_raw"],
-                "supplied_from": row["supplied_from_raw"],
-                "fields": fields_of(row, BOARD_FIELDS),
-            }
+            _board(row)
             for row in self.core.query("SELECT * FROM boards WHERE job_id = ? ORDER BY position", (job_id,))
         ]
+
+    def get(self, board_id: int) -> dict[str, Any]:
+        """One board as `of_job` lists it."""
+        return _board(self.core.row("board", board_id))
 
     def set_field(
         self,
@@ -91,3 +86,17 @@ class Boards:
                 if name in BOARD_SUPPLY_FIELDS:
                     self.circuits.reassess_board(conn, job, self.core.row("board", board_id))
         return saved(parsed, name, version)
+
+
+def _board(row: dict[str, Any]) -> dict[str, Any]:
+    """A board row as the store hands it out."""
+    return {
+        "id": row["id"],
+        "job_id": row["job_id"],
+        "position": row["position"],
+        "version": row["version"],
+        "designation": row["designation_raw"],
+        "location": row["location_raw"],
+        "supplied_from": row["supplied_from_raw"],
+        "fields": fields_of(row, BOARD_FIELDS),
+    }

@@ -8,7 +8,7 @@ core and the parts it uses:
     store.settings   Settings   get, set
     store.library    Library    add, all, find
     store.jobs       Jobs       create, all, get, set_field, reassess, overall, audit
-    store.boards     Boards     add, of_job, set_field
+    store.boards     Boards     add, of_job, get, set_field
     store.circuits   Circuits   add, of_board, get, set_field, calc_input
     store.roster     Roster     firm_key, pin_firm_key, load, load_folder, install_key, entry_of
     store.instruments  Items    add, of_job, get, set_field, remove

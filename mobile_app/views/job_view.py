@@ -1,4 +1,5 @@
-"""A job: its details and supply, its boards, each board's circuits with their verdict marks."""
+"""A job: its overall outcome, its boards (each with its details and circuits with their verdict
+marks), links to the job's details and instruments and to its observations, and its supply."""
 
 from __future__ import annotations
 
@@ -8,10 +9,12 @@ import flet as ft
 
 from mobile_app.components.cautions import cautions_box
 from mobile_app.components.choice_row import choice_row
+from mobile_app.components.overall_block import overall_block
 from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
 from mobile_app.components.verdict_badge import verdict_badge
 from mobile_app.state.jobs import BoardView, JobField, JobScreen
+from mobile_app.state.records import overall_of
 
 
 def _input(job: JobScreen, field: JobField, after_save: Any) -> ft.Control:
@@ -64,6 +67,9 @@ def _board(shell: Any, job: JobScreen, board: BoardView) -> ft.Control:
             ft.OutlinedButton("Add circuit", icon=ft.Icons.ADD, height=48,
                               key=f"add-circuit-{board.id}", on_click=add)
         )
+    tiles.append(ft.TextButton(f"Board {board.designation} details", icon=ft.Icons.TUNE, height=44,
+                               key=f"board-details-{board.id}",
+                               on_click=lambda _e: shell.go(f"/job/{job.job_id}/board/{board.id}")))
     title = board.designation + (f" · {board.location}" if board.location else "")
     return ft.Card(
         content=ft.Container(
@@ -91,6 +97,18 @@ def build(shell: Any, job_id: str) -> ft.View:
     ]
     if job.read_only:
         body.append(ft.Text("This job is locked while in review or approved.", size=14))
+    overall = ft.Column([overall_block(overall_of(shell.store, job.job_id))], key="job-overall")
+    observations = len(shell.store.observations.of_job(job.job_id))
+    body += [
+        overall,
+        ft.Row([
+            ft.OutlinedButton("Job details, instruments", icon=ft.Icons.ASSIGNMENT, height=48, expand=True,
+                              key="open-details", on_click=lambda _e: shell.go(f"/job/{job.job_id}/details")),
+            ft.OutlinedButton(f"Observations ({observations})", icon=ft.Icons.VISIBILITY, height=48,
+                              expand=True, key="open-observations",
+                              on_click=lambda _e: shell.go(f"/job/{job.job_id}/observations")),
+        ], spacing=8, wrap=True),
+    ]
     boards = ft.Column(spacing=8, key="boards")
 
     def fill_boards() -> None:
@@ -98,17 +116,17 @@ def build(shell: Any, job_id: str) -> ft.View:
 
     def refresh_boards() -> None:
         fill_boards()
+        overall.controls = [overall_block(overall_of(shell.store, job.job_id))]
         boards.update()
+        overall.update()
 
     fill_boards()
     body += [ft.Text("Boards and circuits", size=20, weight=ft.FontWeight.BOLD), boards]
     if not job.read_only:
         body.append(ft.OutlinedButton("Add board", icon=ft.Icons.ADD, height=48, key="add-board",
                                       on_click=add_board))
-    body.append(ft.Text("Supply", size=20, weight=ft.FontWeight.BOLD))
+    body.append(ft.Text("Supply at the origin", size=20, weight=ft.FontWeight.BOLD))
     body.extend(_input(job, field, refresh_boards) for field in job.supply_fields())
-    body.append(ft.Text("Job details", size=20, weight=ft.FontWeight.BOLD))
-    body.extend(_input(job, field, lambda: None) for field in job.header_fields())
     body.append(cautions_box())
     review = ft.FilledButton("Review", icon=ft.Icons.RATE_REVIEW, height=48, key="open-review",
                              on_click=lambda _e: shell.go(f"/job/{job.job_id}/review"))

@@ -9,9 +9,10 @@ import flet as ft
 from mobile_app.components.cautions import cautions_box
 from mobile_app.components.choice_row import choice_row
 from mobile_app.components.screen import screen
+from mobile_app.components.suggestions import suggestions
 from mobile_app.components.text_input import text_input
 from mobile_app.components.verdict_badge import verdict_badge
-from mobile_app.state.fields import STEPS
+from mobile_app.state.fields import STEPS, specs_for_step
 from mobile_app.state.jobs import JobScreen
 from mobile_app.state.text import verdict_mark
 from mobile_app.state.walk import FieldView, Walk
@@ -24,28 +25,36 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: boo
 
         def picked(value: str) -> None:
             walk.set_field(name, value)
-            if any(name in s.shown_when for s in _step_specs(walk)):
+            if any(name in s.shown_when or name in s.required_when for s in _step_specs(walk)):
                 rebuild()
             else:
                 on_saved()
 
         return choice_row(f"field-{name}", view.spec.label, view.choices, view.raw, picked,
-                          message=view.message, disabled=locked)
+                          message=view.message, disabled=locked, clearable=not walk.required(view.spec))
 
     def changed(text: str) -> tuple[str, str | None]:
         saved = walk.set_field(name, text)
         on_saved()
         return saved.parsed_text, saved.message
 
-    return text_input(
+    control = text_input(
         f"field-{name}", view.spec.label, view.raw, changed,
-        numeric=view.spec.kind == "number", hint=view.spec.hint, helper=view.parsed_text,
-        error=view.message, read_only=locked,
+        numeric=view.spec.numeric, hint=view.spec.hint, helper=view.parsed_text,
+        error=view.message, read_only=locked, multiline=view.spec.multiline,
     )
+    if not view.spec.suggestions or locked:
+        return control
+
+    def chosen(words: str) -> None:
+        walk.set_field(name, words)
+        rebuild()
+
+    return ft.Column([control, suggestions(f"field-{name}-pick", view.spec.suggestions, chosen)], spacing=4)
 
 
 def _step_specs(walk: Walk) -> list[Any]:
-    return [v.spec for v in walk.fields()]
+    return [spec for step in STEPS for spec in specs_for_step(step)]
 
 
 def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
@@ -71,7 +80,7 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
         missing = walk.missing()
         blockers.value = ("To go on: " + "; ".join(missing)) if missing else ""
         nxt.disabled = not walk.can_next()
-        if walk.step == "readings":
+        if walk.step in ("tests", "readings"):
             mark = verdict_mark(walk.circuit.get("verdict"))
             live.controls = [ft.Text("Verdict so far", size=14), verdict_badge(mark, size=15)]
 
@@ -79,7 +88,7 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
         refresh_controls()
         blockers.update()
         nxt.update()
-        if walk.step == "readings":
+        if walk.step in ("tests", "readings"):
             live.update()
 
     def go_next(_e: Any) -> None:
@@ -101,7 +110,7 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
                                 "not changed.", size=14, key="walk-locked"))
         body.extend(_field(walk, view, saved, shell.render, locked) for view in walk.fields())
         body.append(blockers)
-        if walk.step == "readings":
+        if walk.step in ("tests", "readings"):
             body += [live, cautions_box()]
     bar = ft.Row([back, nxt], spacing=12)
     return screen(f"{base}/{walk.step}", walk.title, body, shell.go, back=f"/job/{job_id}", bottom=bar)
