@@ -62,7 +62,7 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     failing = page.get_by_role("button", name=re.compile("FAIL")).first
     failing.wait_for(timeout=10000)
     failing.click()
-    see(page, "Step 1 of 4")
+    see(page, "Step 1 of 5")
     url = page.url.rsplit("/", 1)[0] + "/results"
     open_app(page, url)
     see(page, "Fails: ")
@@ -118,7 +118,7 @@ def test_demo_library_outbox_settings(demo_server: str, page) -> None:
     page.set_viewport_size({"width": 390, "height": 844})
     readings = url.rsplit("/", 1)[0] + "/readings"
     open_app(page, readings)
-    see(page, "Step 3 of 4")
+    see(page, "Step 4 of 5")
     other = page.context.new_page()
     open_app(other, url.split("/circuit/", 1)[0] + "/review")
     see(other, "Status: Draft")

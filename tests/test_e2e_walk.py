@@ -129,6 +129,16 @@ def type_into(page, label: str, text: str) -> None:
     page.keyboard.type(text)
 
 
+def fill(page, label: str, text: str) -> None:
+    """Replace the text of a field found by its label, anywhere on a long screen. The field is focused,
+    not clicked: after the page scrolls, a click can land where another field was a frame before."""
+    page.get_by_label(label, exact=True).focus()
+    page.wait_for_timeout(200)
+    page.keyboard.press("Control+A")
+    page.keyboard.type(text)
+    page.wait_for_timeout(150)
+
+
 def tap(page, role_name: str) -> None:
     """Tap a button by its accessible name."""
     page.get_by_role("button", name=role_name, exact=True).click()
@@ -168,7 +178,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     shot(page, "03-job")
 
     tap(page, "Add circuit")
-    see(page, "Step 1 of 4")
+    see(page, "Step 1 of 5")
     type_into(page, "Description", "Kitchen sockets")
     tap(page, "B")
     type_into(page, "Rating In", "32 A")
@@ -176,14 +186,17 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     shot(page, "04-walk-device")
     tap(page, "Next")
 
-    see(page, "Step 2 of 4")
+    see(page, "Step 2 of 5")
     type_into(page, "Line size", "2.5mm2")
     type_into(page, "CPC size", "1.5")
     see(page, "= 1.50 mm²")
     shot(page, "05-walk-conductors")
     tap(page, "Next")
 
-    see(page, "Step 3 of 4")
+    see(page, "Step 3 of 5 · Supply-off tests")
+    tap(page, "Next")
+
+    see(page, "Step 4 of 5 · Live tests")
     type_into(page, "Zs", "0.6x2")
     see(page, "Zs: ")
     shot(page, "06-walk-readings-error")
@@ -193,7 +206,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     shot(page, "07-walk-readings-ok")
     tap(page, "Next")
 
-    see(page, "Step 4 of 4")
+    see(page, "Step 5 of 5")
     see(page, "NOT SHOWN")
     see(page, "Not shown yet")
     see(page, "0.62 Ω against ≤ 1.093 Ω")
@@ -209,10 +222,10 @@ def test_walk_reload_and_approve(server: str, page) -> None:
 
     page.reload()
     open_app(page, page.url)
-    see(page, "Step 4 of 4")
+    see(page, "Step 5 of 5")
     see(page, "Not shown yet")
     tap(page, "Back")
-    see(page, "Step 3 of 4")
+    see(page, "Step 4 of 5")
     see(page, "= 0.62 Ω")
     zs_field = page.get_by_label("Zs", exact=True)
     zs_field.click()
@@ -225,9 +238,9 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     see(page, "Status: Draft")
     page.get_by_role("button", name=re.compile("Kitchen sockets.*NOT SHOWN")).wait_for(timeout=10000)
     shot(page, "14-job-with-verdict")
-    type_into(page, "U0", "100 V")
+    fill(page, "U0", "100 V")
     page.get_by_role("button", name=re.compile("Kitchen sockets.*FAIL")).wait_for(timeout=10000)
-    type_into(page, "U0", "230 V")
+    fill(page, "U0", "230 V")
     page.get_by_role("button", name=re.compile("Kitchen sockets.*NOT SHOWN")).wait_for(timeout=10000)
 
     tap(page, "Review")

@@ -25,6 +25,8 @@ from mobile_app.store.demo import DEMO_PIN, create_demo_job
     ("number", "kwargs", "text"),
     [
         (0.6666, {}, "0.67"),
+        (0.345, {}, "0.35"),
+        (0.125, {"max_decimals": 2}, "0.13"),
         (1.13, {}, "1.13"),
         (48, {}, "48.0"),
         (6039.59, {}, "6040"),

@@ -31,8 +31,8 @@ def choice_row(
             current[0] = chosen
             for button in buttons:
                 _style(button, button.data == chosen)
-            on_pick(chosen)
             row.update()
+            on_pick(chosen)  # last: it may rebuild the screen, leaving this row off the page
 
         return handler
 

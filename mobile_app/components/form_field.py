@@ -16,9 +16,9 @@ from mobile_app.state.form import Form, FormField
 
 def form_field(key: str, form: Form, field: FormField, read_only: bool,
                after: Callable[[], None], rebuild: Callable[[], None]) -> ft.Control:
-    """The control for `field` of `form`; `after` runs after each typed save, `rebuild` redraws the
-    screen after a choice (it may show or hide other fields, or change the outcome shown) or a quick
-    choice (it replaces the text)."""
+    """The control for `field` of `form`; `after` runs after each typed save (or quick choice, which
+    puts its words in the field), `rebuild` redraws the form in place after a choice (it may show or
+    hide other fields, or change the outcome shown)."""
     name = field.spec.name
 
     if field.spec.kind == "choice":
@@ -41,7 +41,12 @@ def form_field(key: str, form: Form, field: FormField, read_only: bool,
         return control
 
     def chosen(words: str) -> None:
-        form.set_field(name, words)
-        rebuild()
+        saved = form.set_field(name, words)
+        control.value = words
+        control.helper = saved.parsed_text or None
+        control.error = saved.message
+        control.update()
+        after()
 
-    return ft.Column([control, suggestions(f"{key}-pick", field.spec.suggestions, chosen)], spacing=4)
+    return ft.Column([control, suggestions(f"{key}-pick", field.spec.suggestions, chosen)], spacing=4,
+                     horizontal_alignment=ft.CrossAxisAlignment.STRETCH)

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import datetime
 import math
+from decimal import ROUND_HALF_UP, Decimal
 from typing import Any
 
 SIGNIFICANT = 3
@@ -18,8 +19,8 @@ def significant(
     value: float, digits: int = SIGNIFICANT, max_decimals: int = 2, keep_zeros: bool = True
 ) -> str:
     """`value` to `digits` significant figures with at most `max_decimals` decimals, never an exponent:
-    0.6666 → "0.67", 1.13 → "1.13", 48 → "48.0", 6039.6 → "6040"; `keep_zeros=False` drops trailing
-    zeros (6.0 → "6")."""
+    0.6666 → "0.67", 0.345 → "0.35", 1.13 → "1.13", 48 → "48.0", 6039.6 → "6040"; `keep_zeros=False`
+    drops trailing zeros (6.0 → "6")."""
     number = float(value)
     if not math.isfinite(number):
         return "∞" if number > 0 else "—"
@@ -27,7 +28,8 @@ def significant(
         return "0"
     decimals = digits - 1 - math.floor(math.log10(abs(number)))
     decimals = max(0, min(max_decimals, decimals))
-    text = f"{round(number, decimals):.{decimals}f}"
+    # half away from zero on the shortest decimal form, as a display rounds: 0.345 → 0.35
+    text = f"{Decimal(repr(number)).quantize(Decimal(1).scaleb(-decimals), rounding=ROUND_HALF_UP):f}"
     if not keep_zeros and "." in text:
         text = text.rstrip("0").rstrip(".")
     return text

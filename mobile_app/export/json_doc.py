@@ -256,14 +256,15 @@ test results, one value per column, rounded the same way and with the unit in th
 method`, `Length (m)`, `Device` (`RCBO B32`, `gG 32 A`, `curve 100 A`), `Maker's curve` (its name),
 `Breaking capacity (kA)`, `RCD type` (the type letter, and `type S (delayed)`), `RCD IΔn (mA)`, `Line
 (mm²)`, `Protective conductor (mm²)`, `R1+R2 (Ω)`, `R2 (Ω)`, `Ring r1 (Ω)`, `Ring rn (Ω)`, `Ring r2
-(Ω)`, `Insulation test voltage (V)`, `Insulation L–L (MΩ)`, `Insulation L–E (MΩ)`, `Polarity` (`correct`
-or `wrong`), `Zs (Ω)`, `Zs from` (`measured`, or how it was worked out), `Zs limit (Ω)`, `Zs limit set
-by` (`device` or `RCD`), `RCD time at IΔn (ms)`, `RCD time at 5 IΔn (ms)`, `RCD test button` (`trips` or
-`does not trip`), `Outcome` (`PASS`, `FAIL`, `NOT SHOWN`) and `Reason` (the primary cause in words, for
-an outcome other than a pass). Then, for every check the calculation core makes, its outcome, deciding
-figure and margin (`Disconnection: outcome`, …); then `Verdict` (the word as stored), `Job`, `Client
-reference`, `Revision`, `Status`, `Calc version`, `Updated at` (local time), `Updated by`, `Input
-problems` (any reading that could not be used, with the text as typed) and `Cautions`.
+(Ω)`, `Ring (r1 + r2)/4 (Ω)`, `Insulation test voltage (V)`, `Insulation L–L (MΩ)`, `Insulation L–E
+(MΩ)`, `Polarity` (`correct` or `wrong`), `Zs (Ω)`, `Zs from` (`measured`, or how it was worked out),
+`Zs limit (Ω)`, `Zs limit set by` (`device` or `RCD`), `RCD time at IΔn (ms)`, `RCD time at 5 IΔn (ms)`,
+`RCD test button` (`trips` or `does not trip`), `Outcome` (`PASS`, `FAIL`, `NOT SHOWN`) and `Reason`
+(the primary cause in words, for an outcome other than a pass). Then, for every check the calculation
+core makes, its outcome, deciding figure and margin (`Disconnection: outcome`, …); then `Verdict` (the
+word as stored), `Job`, `Client reference`, `Revision`, `Status`, `Calc version`, `Updated at` (local
+time), `Updated by`, `Input problems` (any reading that could not be used, with the text as typed) and
+`Cautions`.
 
 Readings are rounded to three significant figures, as an installation tester shows them (at most two
 decimals; RCD times in whole milliseconds); a reading beyond the instrument's range keeps its `>`
@@ -278,16 +279,16 @@ the cautions. Then, for each board on landscape pages, its schedule of test resu
 circuit, grouped as the work is done — the circuit (reference, description, ring or SELV, points,
 wiring, reference method, length, line and protective conductor sizes), its protection (device, breaking
 capacity, RCD type and IΔn), the tests with the supply off (continuity: R1+R2, R2 or the ring's r1, rn,
-r2; insulation line to line and line to earth at its test voltage; polarity), the live tests (Zs and its
-limit; RCD times at IΔn and 5 IΔn and its test button) and the outcome with its reason in words —
-followed by a legend and the board's details. Then the observations (number, severity, location,
-circuits, finding), the limitations of the inspection, the test instruments, the overall outcome with
-every reason, and the people: who recorded, submitted and approved the record, their roles and the date
-and time of each act (local time). Figures in the schedule are rounded as in the CSV. Last, the
-calculation annex: the working of every circuit at full precision (each check and each step's result and
-verdict, its formula and the numbers, its note) and the cautions again. A record that is not approved
-carries a watermark across every page (`DRAFT · NOT APPROVED`, `IN REVIEW · NOT APPROVED`). Every page's
-footer carries the cautions and `page n of N`."""
+r2 and (r1 + r2)/4; insulation line to line and line to earth at its test voltage; polarity), the live
+tests (Zs and its limit; RCD times at IΔn and 5 IΔn and its test button) and the outcome with its reason
+in words — followed by a legend and the board's details. Then the observations (number, severity,
+location, circuits, finding), the limitations of the inspection, the test instruments, the overall
+outcome with every reason, and the people: who recorded, submitted and approved the record, their roles
+and the date and time of each act (local time). Figures in the schedule are rounded as in the CSV. Last,
+the calculation annex: the working of every circuit at full precision (each check and each step's result
+and verdict, its formula and the numbers, its note) and the cautions again. A record that is not
+approved carries a watermark across every page (`DRAFT · NOT APPROVED`, `IN REVIEW · NOT APPROVED`).
+Every page's footer carries the cautions and `page n of N`."""
 
 from __future__ import annotations
 

@@ -153,6 +153,8 @@ def _signatures(pdf: FPDF, doc: dict[str, Any]) -> None:
                            ("Submitted for review by", "submitted_by", "submitted_at"),
                            ("Reviewed and approved by", "approved_by", "approved_at")):
         name = job.get(who)
+        if who == "recorded_by" and not name:
+            name = job.get("submitted_by")  # the review screen asks the recorder's name at submission
         texts = (act, person_label(name) if name else "—", roles.get(name) or "—",
                  local_time(job.get(when)) or "—")
         table_row(pdf, _SIGNATURE_WIDTHS_MM, texts, (BOLD, PLAIN, PLAIN, PLAIN), 6, 9)

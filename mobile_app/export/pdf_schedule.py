@@ -35,7 +35,8 @@ HEADINGS: tuple[tuple[str, float], ...] = (
 )
 LEGEND = (
     "Figures are rounded as the instrument shows them; the calculation annex keeps full precision. "
-    "Continuity: R1+R2 or R2 of a radial circuit, a ring's end-to-end r1, rn, r2. Insulation: line to "
+    "Continuity: R1+R2 or R2 of a radial circuit, a ring's end-to-end r1, rn, r2 and (r1+r2)/4, "
+    "what each point of the ring reads. Insulation: line to "
     "line and line to earth at the test voltage shown; >999 is beyond the instrument's range. Zs: as "
     "measured, or worked out where marked; its limit is the largest reading that still meets the "
     "disconnection time, at the test temperature where one is recorded, set by the device or by the "
@@ -65,7 +66,7 @@ def row_texts(values: dict[str, str]) -> tuple[str, ...]:
     zs = v["zs"] + (f" ({v['zs_from']})" if v["zs"] and v["zs_from"] != "measured" else "")
     limit = f"limit {v['zs_limit']}" + (" RCD" if v["zs_limit_by"] == "RCD" else "") if v["zs_limit"] else ""
     continuity = _labelled((("R1+R2", v["r1r2"]), ("R2", v["r2"]), ("r1", v["ring_r1"]),
-                            ("rn", v["ring_rn"]), ("r2", v["ring_r2"])))
+                            ("rn", v["ring_rn"]), ("r2", v["ring_r2"]), ("(r1+r2)/4", v["ring_r1r2"])))
     insulation = _labelled((("L–L", v["ir_ll"]), ("L–E", v["ir_le"])))
     if v["ir_voltage"]:
         insulation.append(f"at {v['ir_voltage']} V")

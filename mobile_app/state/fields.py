@@ -17,7 +17,7 @@ STEPS: tuple[str, ...] = ("device", "conductors", "tests", "readings", "results"
 STEP_TITLES: dict[str, str] = {
     "device": "Circuit and protection",
     "conductors": "Conductors",
-    "tests": "Continuity, insulation, polarity",
+    "tests": "Supply-off tests",
     "readings": "Live tests",
     "results": "Results",
 }
@@ -65,7 +65,7 @@ BREAKERS = ("mcb", "rcbo")
 YES_NO = (Choice("yes", "Yes"), Choice("no", "No"))
 POLARITY = (Choice("yes", "Correct"), Choice("no", "Wrong"))
 BUTTON = (Choice("yes", "Trips"), Choice("no", "Does not trip"))
-RCD_WAVEFORMS = (Choice("AC", "AC"), Choice("A", "A"), Choice("F", "F"), Choice("B", "B"))
+RCD_WAVEFORMS = (Choice("AC", "Type AC"), Choice("A", "Type A"), Choice("F", "Type F"), Choice("B", "Type B"))
 PURPOSES = (
     Choice("new-work", "New work"),
     Choice("periodic", "Periodic inspection"),

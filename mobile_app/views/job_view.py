@@ -101,13 +101,11 @@ def build(shell: Any, job_id: str) -> ft.View:
     observations = len(shell.store.observations.of_job(job.job_id))
     body += [
         overall,
-        ft.Row([
-            ft.OutlinedButton("Job details, instruments", icon=ft.Icons.ASSIGNMENT, height=48, expand=True,
-                              key="open-details", on_click=lambda _e: shell.go(f"/job/{job.job_id}/details")),
-            ft.OutlinedButton(f"Observations ({observations})", icon=ft.Icons.VISIBILITY, height=48,
-                              expand=True, key="open-observations",
-                              on_click=lambda _e: shell.go(f"/job/{job.job_id}/observations")),
-        ], spacing=8, wrap=True),
+        ft.OutlinedButton("Job details and instruments", icon=ft.Icons.ASSIGNMENT, height=48,
+                          key="open-details", on_click=lambda _e: shell.go(f"/job/{job.job_id}/details")),
+        ft.OutlinedButton(f"Observations ({observations})", icon=ft.Icons.VISIBILITY, height=48,
+                          key="open-observations",
+                          on_click=lambda _e: shell.go(f"/job/{job.job_id}/observations")),
     ]
     boards = ft.Column(spacing=8, key="boards")
 

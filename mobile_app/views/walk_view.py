@@ -19,8 +19,13 @@ from mobile_app.state.walk import FieldView, Walk
 from mobile_app.views import results_panel_view
 
 
-def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: bool) -> ft.Control:
+def _field(
+    walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: bool, generation: int
+) -> ft.Control:
+    """One field of the step; `rebuild` redraws the step's fields (in place, keeping the scroll) after a
+    choice that shows or hides others; `generation` keeps the redrawn controls' keys new."""
     name = view.spec.name
+    key = f"field-{name}" + (f"-{generation}" if generation else "")
     if view.spec.kind == "choice":
 
         def picked(value: str) -> None:
@@ -30,7 +35,7 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: boo
             else:
                 on_saved()
 
-        return choice_row(f"field-{name}", view.spec.label, view.choices, view.raw, picked,
+        return choice_row(key, view.spec.label, view.choices, view.raw, picked,
                           message=view.message, disabled=locked, clearable=not walk.required(view.spec))
 
     def changed(text: str) -> tuple[str, str | None]:
@@ -39,7 +44,7 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: boo
         return saved.parsed_text, saved.message
 
     control = text_input(
-        f"field-{name}", view.spec.label, view.raw, changed,
+        key, view.spec.label, view.raw, changed,
         numeric=view.spec.numeric, hint=view.spec.hint, helper=view.parsed_text,
         error=view.message, read_only=locked, multiline=view.spec.multiline,
     )
@@ -47,10 +52,15 @@ def _field(walk: Walk, view: FieldView, on_saved: Any, rebuild: Any, locked: boo
         return control
 
     def chosen(words: str) -> None:
-        walk.set_field(name, words)
-        rebuild()
+        saved = walk.set_field(name, words)
+        control.value = words
+        control.helper = saved.parsed_text or None
+        control.error = saved.message
+        control.update()
+        on_saved()
 
-    return ft.Column([control, suggestions(f"field-{name}-pick", view.spec.suggestions, chosen)], spacing=4)
+    return ft.Column([control, suggestions(f"{key}-pick", view.spec.suggestions, chosen)], spacing=4,
+                     horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
 
 
 def _step_specs(walk: Walk) -> list[Any]:
@@ -99,6 +109,18 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
 
     nxt.on_click = go_next
     refresh_controls()
+    fields = ft.Column(spacing=14, horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
+    generation = [0]
+
+    def make_fields() -> list[ft.Control]:
+        return [_field(walk, view, saved, redraw, locked, generation[0]) for view in walk.fields()]
+
+    def redraw() -> None:
+        generation[0] += 1
+        fields.controls = make_fields()
+        fields.update()
+        saved()
+
     body: list[ft.Control] = [progress]
     if walk.step == "results":
         body.extend(results_panel_view.controls(walk.results()))
@@ -108,7 +130,8 @@ def build(shell: Any, job_id: str, circuit_id: str, step: str) -> ft.View:
         if locked:
             body.append(ft.Text("This job is locked while in review or approved: readings are shown, "
                                 "not changed.", size=14, key="walk-locked"))
-        body.extend(_field(walk, view, saved, shell.render, locked) for view in walk.fields())
+        fields.controls = make_fields()
+        body.append(fields)
         body.append(blockers)
         if walk.step in ("tests", "readings"):
             body += [live, cautions_box()]
