@@ -158,10 +158,6 @@ class JobScreen:
         message = self._save_errors.get(spec.name) or (f"{spec.label}: {error}" if error else None)
         return JobField(spec, raw, parsed, message)
 
-    def header_fields(self) -> list[JobField]:
-        """Client reference, site, date, description."""
-        return [self._field(spec) for spec in JOB_SPECS]
-
     def supply_fields(self) -> list[JobField]:
         """System, U0, Cmin, Ze, prospective fault current."""
         return [self._field(spec) for spec in SUPPLY_SPECS]
