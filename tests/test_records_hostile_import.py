@@ -88,7 +88,7 @@ W0 = "boards[0].circuits[0]"
 # (name, change to a good document, where the message must point, words it must hold)
 CHANGES: list[tuple[str, Callable[[dict[str, Any]], None], str, str]] = [
     ("foreign schema", put("schema", "other"), "", "schema"),
-    ("newer version", put("schema_version", 2), "", "schema_version 2"),
+    ("newer version", put("schema_version", 3), "", "schema_version 3"),
     ("version as text", put("schema_version", "1"), "", "schema_version '1'"),
     ("version as true", put("schema_version", True), "schema_version", "not true or false"),
     ("no job", drop("job"), "job", "is missing"),

@@ -81,9 +81,16 @@ def test_every_job_written_before_a_cut_comes_back_whole(tmp_path: Path) -> None
     with Store.open(tmp_path) as store:
         before = [store.documents.export(create_demo_job(store)) for _ in range(2)]
     cut = (tmp_path / STORE_FILE).stat().st_size  # closed: the -wal is in the file
-    with Store.open(tmp_path) as store:
-        create_demo_job(store)
-        create_demo_job(store)
+    with Store.open(tmp_path) as store:  # later work in small job rows: the first two stay in their page
+        for later in range(2):
+            job = store.jobs.create({"client_ref": f"later {later}", "system": "TN-C-S"})
+            board = store.boards.add(job, "DB9")
+            first = store.circuits.add(board, "1")
+            for name, raw in (("device_kind", "mcb"), ("device_curve", "B"), ("device_rating", "32"),
+                              ("line_csa", "2.5"), ("cpc_csa", "1.5"), ("zs", "0.5")):
+                store.circuits.set_field(first, name, raw)
+            for number in range(2, 61):  # each copies the first one's device and cables
+                store.circuits.set_field(store.circuits.add(board, str(number)), "zs", "0.5")
     data = (tmp_path / STORE_FILE).read_bytes()
     assert len(data) > 1.5 * cut
     (tmp_path / STORE_FILE).write_bytes(data[:cut])  # the file cut short, e.g. a copy interrupted

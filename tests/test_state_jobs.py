@@ -195,7 +195,7 @@ def test_a_damaged_store_is_announced_and_its_readable_jobs_recovered(tmp_path) 
         assert recovery.visible and "could not be read" in recovery.message
         assert store.jobs.all() == []
         said = recovery.recover(store)
-        assert said.startswith("Recovered 1 job (22 circuits) from ") and said.endswith(".sqlite.")
+        assert said.startswith("Recovered 1 job (24 circuits) from ") and said.endswith(".sqlite.")
         assert [job["client_ref"] for job in store.jobs.all()] == ["TY-2026-118"]
         assert not recovery.visible
 

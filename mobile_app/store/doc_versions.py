@@ -28,6 +28,8 @@ def _v1_to_v2(doc: Document) -> Document:
 UPGRADES: tuple[Callable[[Document], Document], ...] = (_v1_to_v2,)
 """UPGRADES[n - 1] takes a version n document to version n + 1."""
 CURRENT_VERSION = len(UPGRADES) + 1
+VERSIONS = tuple(range(1, CURRENT_VERSION + 1))
+"""The versions this code reads."""
 
 
 def upgrade_document(doc: Document) -> Document:

@@ -15,7 +15,7 @@ from mobile_app.store.assessment import Outcome
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import Core, now_iso
-from mobile_app.store.doc_versions import CURRENT_VERSION, upgrade_document
+from mobile_app.store.doc_versions import CURRENT_VERSION, VERSIONS, upgrade_document
 from mobile_app.store.document_check import check_job_document
 from mobile_app.store.errors import DocumentError
 from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS, JOB_FIELDS
@@ -194,8 +194,10 @@ class Documents:
         """
         if not isinstance(doc, dict) or doc.get("schema") != DOCUMENT_SCHEMA:
             raise DocumentError(f'"schema" is not "{DOCUMENT_SCHEMA}"')
-        doc = upgrade_document(doc)
+        if doc.get("schema_version") not in VERSIONS:
+            raise DocumentError(f"schema_version {doc.get('schema_version')!r} is not supported")
         check_job_document(doc)
+        doc = upgrade_document(doc)
         with self.core.write() as conn:
             try:
                 return self._import(conn, doc)
