@@ -17,8 +17,10 @@ NotFoundError for an unknown job or board; the store's DocumentError for an unre
 `python -m mobile_app export` is `mobile_app.export.cli.cli_export`.
 
 Modules: `bundle` (the folder and its manifest), `names` (the length budget of bundle names),
-`json_load` (reading a JSON document within its limits), `json_doc`, `csv_doc`, `pdf_doc` with `pdf_layout`
-(the three formats), `common` (cautions, errors, number formatting), `cli`. Imports point to the store
+`json_load` (reading a JSON document within its limits), `json_doc`, `csv_doc`, `pdf_doc` with
+`pdf_schedule`, `pdf_annex`, `pdf_blocks` and `pdf_layout` (the three formats), `schedule` (the schedule
+of test results' values, shared by the PDF and the CSV), `figures` (readings rounded as the instrument
+shows them, local times), `common` (cautions, errors, number formatting), `cli`. Imports point to the store
 and calc only. A name is imported from its module when first used, so importing this package loads
 neither fpdf2 nor the writers until an export runs.
 """

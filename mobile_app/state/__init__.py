@@ -7,8 +7,10 @@ behaviour is testable without a browser.
 
 from mobile_app.state.chart import ChartModel, ChartSeries, chart_for
 from mobile_app.state.fields import STEPS, Choice, FieldSpec, specs_for_step
+from mobile_app.state.form import Form, FormField
 from mobile_app.state.jobs import JobRow, JobScreen, JobsList
 from mobile_app.state.library import CurveDraft
+from mobile_app.state.records import BoardScreen, JobDetails, ObservationsScreen, Overall
 from mobile_app.state.results import Cause, CheckRow, ResultsPanel, StepCard, results_panel
 from mobile_app.state.review import ReviewState
 from mobile_app.state.settings import SettingsState
@@ -18,6 +20,7 @@ from mobile_app.state.walk import FieldView, Walk
 __all__ = [
     "CAUTIONS",
     "STEPS",
+    "BoardScreen",
     "Cause",
     "ChartModel",
     "ChartSeries",
@@ -26,9 +29,14 @@ __all__ = [
     "CurveDraft",
     "FieldSpec",
     "FieldView",
+    "Form",
+    "FormField",
+    "JobDetails",
     "JobRow",
     "JobScreen",
     "JobsList",
+    "ObservationsScreen",
+    "Overall",
     "ResultsPanel",
     "ReviewState",
     "SettingsState",

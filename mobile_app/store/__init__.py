@@ -1,4 +1,5 @@
-"""The job store on the device (sqlite-utils): jobs, boards, circuits, review, people, settings.
+"""The job store on the device (sqlite-utils): jobs, boards, circuits, instruments, observations,
+review, people, settings.
 
 It imports only calc and never Flet; exports live in `mobile_app.export`, the outbox and the sync in
 `mobile_app.sync`. One `Store` holds one connection and hands out one small part per concern, each
@@ -25,19 +26,29 @@ Public surface:
     store.jobs       create(fields=None, by=None) -> id ; all(search="") ; get(job_id)
                      set_field(job_id, name, raw, by=None, expected_version=None) -> dict
                      reassess(job_id) -> count (after a settings change or a calc update)
+                     overall(job_id) -> Overall(outcome, reasons): "satisfactory", "unsatisfactory"
+                     (a circuit fails or an observation is serious) or "not-shown"
                      audit(job_id) -> list[dict]
     store.boards     add(job_id, designation, location="", supplied_from="", by=None) -> id
-                     of_job(job_id) ; set_field(board_id, name, raw, by=None, expected_version=None)
+                     of_job(job_id) ; get(board_id)
+                     set_field(board_id, name, raw, by=None, expected_version=None)
     store.circuits   add(board_id, number, description="", by=None) -> id ; of_board(board_id)
                      get(circuit_id) ; set_field(circuit_id, name, raw, by=None, expected_version=None)
                      calc_input(circuit_id) -> dict
+    store.instruments, store.observations   (a job's lists; only a draft's can change)
+                     add(job_id, fields=None, by=None) -> id ; of_job(job_id) ; get(item_id)
+                     set_field(item_id, name, raw, by=None, expected_version=None) ; remove(item_id)
+                     observations.set_circuits(item_id, circuit_ids, by=None) -> ids (its job's)
     store.review     submit(job_id, by) ; return_to_draft(job_id, reviewer_id, comment)
                      approve(job_id, supervisor_id, pin) ; open_revision(job_id, reason, by) -> id
     store.documents  export(job_id) -> dict ; import_(doc) -> id (the job as it was exported: status,
                      revision, review, people, assessments, audit; one transaction)
 
-JOB_FIELDS, BOARD_FIELDS and CIRCUIT_FIELDS name every field. A board's system and Ze, when filled
-in, take the place of the job's supply (a TT outbuilding board). A field save returns the field, its
+JOB_FIELDS, BOARD_FIELDS and CIRCUIT_FIELDS name every field (fields.py: INSTRUMENT_FIELDS,
+OBSERVATION_FIELDS, SEVERITIES, PURPOSES; yes-or-no fields hold "yes" or "no"; a beyond-range reading
+typed ">999" keeps ">999" as its value). A board's system, Ze (or Zdb) and PFC, when filled in, take
+the place of the job's supply (a TT outbuilding board, a board at the end of a sub-main), and its RA is
+the TT electrode's. A field save returns the field, its
 text as typed, parsed value, error and the row's new version (a circuit's also its verdict); a
 circuit's `get()["assessment_error"]` says why calc could not assess it (verdict "incomplete").
 
@@ -60,10 +71,11 @@ person_id, entity, entity_id, field, what, old, new.
 Modules: `store` (Store), `core` (Core, the lock, write transactions), `schema` (migrations, a
 damaged file moved aside), `salvage` (rows of a damaged file into a fresh store), `pages` (rows
 read from an SQLite file's pages), one module per part (`people`, `settings`, `library`, `jobs`,
-`boards`, `circuits`, `review`, `documents`), `rows` (what the parts share about a row's fields),
+`boards`, `circuits`, `items`, `review`, `documents`), `outcome` (a job's overall outcome),
+`doc_versions` (older job documents brought up to date), `rows` (what the parts share about a row's fields),
 `fields` (parsing what was typed), `document_check` (a document's limits and shape before an
 import), `assessment` (a circuit's calc input and assessment, pure),
-`pins` (scrypt hashes), `errors`, `demo` (the demo job).
+`pins` (PIN verifiers), `errors`, `demo` with `demo_data` (the demo job).
 """
 
 from mobile_app.store.errors import (
