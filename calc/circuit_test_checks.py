@@ -158,7 +158,10 @@ def resistance_per_m(conductor: Conductor) -> float | None:
 
 def expected_r1r2_ohm(inp: CircuitInput, cpc_only: bool = False) -> float | None:
     """R1+R2 (or R2 alone) expected from the length and the IEC 60228 resistances, taken to the test
-    temperature (20 °C when not given) with each conductor's own β (IEC 60228 Annex B)."""
+    temperature (20 °C when not given) with each conductor's own β (IEC 60228 Annex B).
+
+    A ring's length is the whole loop; at the point farthest round it the two legs are in parallel, so
+    each point reads about a quarter of the end-to-end figure (common practice, (r1 + r2)/4)."""
     if inp.length_m is None:
         return None
     r_line, r_cpc = resistance_per_m(inp.line), resistance_per_m(inp.cpc)
@@ -166,11 +169,12 @@ def expected_r1r2_ohm(inp: CircuitInput, cpc_only: bool = False) -> float | None
         return None
     test_c = inp.readings.test_temp_c if inp.readings.test_temp_c is not None else 20.0
     cpc = r_cpc * resistance_ratio(beta_c(inp.cpc.material), 20.0, test_c)
+    share = 0.25 if inp.ring else 1.0
     if cpc_only:
-        return cpc * inp.length_m
+        return cpc * inp.length_m * share
     assert r_line is not None
     line = r_line * resistance_ratio(beta_c(inp.line.material), 20.0, test_c)
-    return (line + cpc) * inp.length_m
+    return (line + cpc) * inp.length_m * share
 
 
 def continuity_check(inp: CircuitInput) -> tuple[Check, float | None]:

@@ -188,3 +188,15 @@ def test_tests_round_trip_through_the_normalised_input(circuit):
     )
     first = assess(circuit).to_dict()
     assert assess(first["inputs"]).to_dict() == first
+
+
+def test_a_rings_expected_r1r2_is_a_quarter_of_its_loop(circuit):
+    # Common practice: on a ring each point reads about (r1 + r2)/4; IEC 60228: 2.5 mm² 7.41 Ω/km,
+    # 1.5 mm² 12.1 Ω/km, so a 60 m loop gives (7.41 + 12.1) × 0.06 / 4 = 0.293 Ω.
+    circuit["circuit"]["ring"] = True
+    circuit["circuit"]["length_m"] = 60
+    circuit["measured"]["r1r2"] = 0.30
+    circuit["measured"]["ring"] = {"r1": 0.44, "rn": 0.44, "r2": 0.74}
+    result = assess(circuit)
+    assert result.expected_r1r2_ohm == pytest.approx((7.41 + 12.1) * 0.06 / 4)
+    assert result.continuity_ok is True
