@@ -1,7 +1,9 @@
 """Units at the edge: text as typed ("620 mΩ", "2.5mm2", "1.5 kA") to floats in base units.
 
-One pint registry for the whole core, made here. Conversion factors are cached per unit text, so
-only the first "mΩ" costs a pint look-up; numbers then convert with one multiplication.
+One pint registry for the whole core, made here on first use: importing pint and building its registry
+takes most of a second (several in the browser build), and a value typed without a unit never needs it.
+Conversion factors are cached per unit text, so only the first "mΩ" costs a pint look-up; numbers then
+convert with one multiplication.
 """
 
 from __future__ import annotations
@@ -9,14 +11,21 @@ from __future__ import annotations
 import math
 import re
 from dataclasses import dataclass
-from functools import lru_cache
-
-import pint
+from functools import cache, lru_cache
+from typing import TYPE_CHECKING
 
 from calc.errors import InputError
 
-UREG = pint.UnitRegistry()
-"""The core's one unit registry."""
+if TYPE_CHECKING:
+    import pint
+
+
+@cache
+def registry() -> pint.UnitRegistry:
+    """The core's one unit registry, made on first use."""
+    import pint
+
+    return pint.UnitRegistry()
 
 
 @dataclass(frozen=True)
@@ -60,7 +69,7 @@ def _normalise_unit(unit: str, kind: Kind) -> str:
 def _factor(unit: str, kind: Kind) -> float:
     """Multiplier from `unit` to the kind's base unit; raises ValueError with a person's message."""
     try:
-        quantity = UREG.Quantity(1.0, _normalise_unit(unit, kind))
+        quantity = registry().Quantity(1.0, _normalise_unit(unit, kind))
     except Exception as exc:  # pint's parser raises many kinds on arbitrary text; all mean "not a unit"
         raise ValueError(f'"{unit}" is not a unit') from exc
     if not quantity.is_compatible_with(kind.base):

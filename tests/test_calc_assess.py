@@ -4,6 +4,8 @@ typed, and errors that name the field."""
 from __future__ import annotations
 
 import json
+import os
+from pathlib import Path
 
 import pytest
 
@@ -200,3 +202,23 @@ def test_nothing_printed_says_from_memory(circuit):
     circuit["circuit"]["rcd"] = {"idn": 0.03}
     text = json.dumps(assess(circuit).to_dict(), ensure_ascii=False).lower()
     assert "memory" not in text
+
+
+def test_the_unit_registry_is_built_only_when_a_unit_is_parsed() -> None:
+    # Building pint's registry takes most of a second (several in the browser build): a value typed
+    # without a unit assesses without it, and the first unit builds it with the same result.
+    import subprocess
+    import sys
+
+    script = (
+        "import sys, calc\n"
+        "from samples import BASE_CIRCUIT\n"
+        "assert calc.assess(BASE_CIRCUIT).verdict == 'pass'\n"
+        "assert 'pint' not in sys.modules, 'pint imported for plain numbers'\n"
+        "assert calc.parse_value('measured.zs', '620 mΩ') == 0.62\n"
+        "assert 'pint' in sys.modules\n"
+    )
+    tests = str(Path(__file__).parent)
+    done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True,
+                          cwd=Path(__file__).parents[1], env={**os.environ, "PYTHONPATH": tests})
+    assert done.returncode == 0, done.stderr
