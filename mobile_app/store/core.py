@@ -58,6 +58,9 @@ def save_reason(error: sqlite3.Error) -> str:
 
 _LOCKS: weakref.WeakKeyDictionary[sqlite_utils.Database, threading.RLock] = weakref.WeakKeyDictionary()
 _LOCKS_GUARD = threading.Lock()
+_AFTER_COMMIT: weakref.WeakKeyDictionary[sqlite_utils.Database, Callable[[], object]] = (
+    weakref.WeakKeyDictionary()
+)
 
 
 def db_lock(db: sqlite_utils.Database) -> threading.RLock:
@@ -68,6 +71,19 @@ def db_lock(db: sqlite_utils.Database) -> threading.RLock:
         if lock is None:
             lock = _LOCKS[db] = threading.RLock()
         return lock
+
+
+def after_commit(db: sqlite_utils.Database, hook: Callable[[], object] | None) -> None:
+    """Call `hook` after each write transaction on `db` commits (None removes it).
+
+    The seam for a platform that must copy the store file somewhere once a save is committed (the
+    browser build copies it to persistent browser storage); the store itself never asks which
+    platform it runs on.
+    """
+    if hook is None:
+        _AFTER_COMMIT.pop(db, None)
+    else:
+        _AFTER_COMMIT[db] = hook
 
 
 @contextlib.contextmanager
@@ -95,6 +111,9 @@ def write_transaction(db: sqlite_utils.Database) -> Iterator[sqlite3.Connection]
             if conn.in_transaction:
                 conn.execute("ROLLBACK")
             raise
+        hook = _AFTER_COMMIT.get(db)
+        if hook is not None:
+            hook()
 
 
 class Core:
