@@ -1,7 +1,9 @@
 """Write assets/index.html: the web client's own page from flet-web, with our name and description.
 
 Flet serves an index.html found in the assets folder instead of its own (and patches both alike), so
-the browser tab and the home-screen name say Boardside before the first frame paints. Run
+the browser tab and the home-screen name say Boardside before the first frame paints. The page also
+loads assets/guard.js first, which keeps the client from asking a public CDN for its animation runtime
+(the script is pointed at assets/rive-unavailable.js). Run
 `python tests/make_index.py` after upgrading flet-web; `tests/test_state_assets.py` fails until then.
 """
 
@@ -22,7 +24,8 @@ def flet_web_index() -> str:
 
 
 def patched_index(text: str) -> str:
-    """flet-web's index.html with our title, description and home-screen name."""
+    """flet-web's index.html with our title, description and home-screen name, loading guard.js first."""
+    text = re.sub(r"(<base [^>]*>\n)", r'\1  <script src="guard.js"></script>\n', text, count=1)
     text = re.sub(r"<title>.*?</title>", f"<title>{NAME}</title>", text)
     text = re.sub(r'(<meta name="description" content=")[^"]*(">)', rf"\g<1>{DESCRIPTION}\g<2>", text)
     return re.sub(r'(<meta name="apple-mobile-web-app-title" content=")[^"]*(">)', rf"\g<1>{NAME}\g<2>", text)

@@ -45,3 +45,12 @@ def test_index_html_is_flet_webs_own_with_our_names() -> None:
     assert ours == patched_index(flet_web_index())
     assert "<title>Boardside</title>" in ours
     assert '<meta name="apple-mobile-web-app-title" content="Boardside">' in ours
+
+
+def test_index_html_keeps_the_client_on_its_own_host() -> None:
+    # The client adds a script from a public CDN on every start (its animation runtime): guard.js, loaded
+    # before anything else, points it at a local stand-in (checked in a browser by tests/test_e2e_web.py).
+    ours = (ASSETS / "index.html").read_text(encoding="utf-8")
+    assert ours.index("<base ") < ours.index("<script") == ours.index('<script src="guard.js"></script>')
+    assert "rive-unavailable.js" in (ASSETS / "guard.js").read_text(encoding="utf-8")
+    assert "window.RiveNative" in (ASSETS / "rive-unavailable.js").read_text(encoding="utf-8")
