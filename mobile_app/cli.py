@@ -1,9 +1,9 @@
 """Command line of the field app.
 
 `python -m mobile_app [--port P] [--data DIR] [--demo]` serves the app in web mode on 127.0.0.1.
-Subcommands: `demo`, `export`, `sync`, `package`, `office init|enrol`, `verify`. Each subcommand's work
-lives in its own module; this file only parses arguments and turns typed errors into one-line messages
-(exit 2).
+Subcommands: `demo`, `export`, `sync`, `package`, `build-web`, `office init|enrol`, `verify`. Each
+subcommand's work lives in its own module; this file only parses arguments and turns typed errors into
+one-line messages (exit 2).
 """
 
 from __future__ import annotations
@@ -39,6 +39,11 @@ def build_parser() -> argparse.ArgumentParser:
     package = sub.add_parser("package", help="lay out a folder for `flet build apk|ipa|web`")
     package.add_argument("out", type=Path)
 
+    web = sub.add_parser("build-web", help="write the static, offline browser build into a folder")
+    web.add_argument("out", type=Path)
+    web.add_argument("--cache", type=Path, default=None,
+                     help="folder for downloaded browser wheels (default: the user's cache folder)")
+
     sync = sub.add_parser("sync", help="send what waits in the outbox to the office folder")
     sync.add_argument("--data", type=Path, default=None, dest="sub_data")
 
@@ -73,6 +78,10 @@ def main(argv: list[str] | None = None) -> int:
         from mobile_app.packaging import cli_package
 
         return cli_package(args.out)
+    if args.command == "build-web":
+        from mobile_app.webbuild import cli_build_web
+
+        return cli_build_web(args.out, args.cache)
     if args.command == "sync":
         from mobile_app.sync.cli import cli_sync
 

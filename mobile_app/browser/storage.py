@@ -1,0 +1,36 @@
+"""The job store on browser storage: the worker's IndexedDB mount, one tab owning it.
+
+The page's Python worker (site/python-worker.js) mounts the store's folder on IndexedDB only in the tab
+that holds the store's Web Lock, and offers `flush()`, which copies the folder to browser storage. Here
+the store is opened in that folder and `flush()` is installed as the store's after-commit hook, so every
+committed write is copied at once (not on a timer).
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Any
+
+from mobile_app.records import Store
+from mobile_app.records.core import after_commit
+
+
+def bridge() -> Any:
+    """The worker's storage functions (`boardside_js`: dataDir, openStorage, flush, lastFlushError)."""
+    import boardside_js  # type: ignore[import-not-found]  # registered by the page's Python worker
+
+    return boardside_js
+
+
+async def claim(js: Any) -> bool:
+    """Whether this tab owns the store: the worker holds its lock and has mounted its folder."""
+    return bool(await js.openStorage())
+
+
+def open_store(js: Any) -> Store:
+    """Open the store in the mounted folder, copy every commit to browser storage, copy it now once
+    (opening may have created or migrated the file)."""
+    store = Store.open(Path(str(js.dataDir)))
+    after_commit(store.db, js.flush)
+    js.flush()
+    return store

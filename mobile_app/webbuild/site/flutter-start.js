@@ -1,0 +1,29 @@
+// Boardside's start of the Flutter engine, appended by the build after flet-web's loader and build
+// configuration (the head of its flutter_bootstrap.js). Unlike flet-web's own tail it registers no
+// service worker: Flutter's worker would replace Boardside's at the same scope with one that
+// unregisters itself. The CanvasKit build is always the full one, so the site carries one CanvasKit.
+
+window.addEventListener('flutter-first-frame', () => {
+    document.getElementById('loading')?.remove();
+}, { once: true });
+
+var flutterConfig = {
+    multiViewEnabled: flet.multiView,
+    entrypointBaseUrl: flet.entrypointBaseUrl,
+    assetBase: flet.assetBase,
+    canvasKitBaseUrl: flet.canvasKitBaseUrl,
+    canvasKitVariant: "full",
+    fontFallbackBaseUrl: flet.fontFallbackBaseUrl
+};
+if (flet.webRenderer != "auto") {
+    flutterConfig.renderer = flet.webRenderer;
+}
+
+_flutter.loader.load({
+    config: flutterConfig,
+    onEntrypointLoaded: async function (engineInitializer) {
+        const engine = await engineInitializer.initializeEngine(flutterConfig);
+        flet.flutterApp = await engine.runApp();
+        flet.flutterAppResolve(flet.flutterApp);
+    }
+});

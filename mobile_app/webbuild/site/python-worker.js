@@ -1,0 +1,173 @@
+// Python for Boardside's static build, in a module worker: Pyodide, the app archives, the job store's
+// browser storage and the Flet connection.
+//
+// Written for Boardside after flet-web's python-worker.js (same messages to and from the Flet client),
+// with these differences: the runtime is imported by a path relative to this file; nothing is
+// installed at run time (the archives carry every dependency, so no package index is asked); the work
+// starts when the page loads ("start") and the app connects when the client asks ("connect"); and the
+// job store's folder is a browser-storage mount that one tab at a time owns.
+import { loadPyodide } from "./pyodide/pyodide.mjs";
+
+const fletJs = {};
+let starting = null;
+
+self.onmessage = async (event) => {
+  const message = event.data;
+  if (message && message.type === "start") {
+    starting = start(message.python);
+    starting.catch(() => {});
+  } else if (message && message.type === "connect") {
+    self.postMessage(await connect(message));
+  } else if (typeof fletJs.send === "function") {
+    fletJs.send(message);
+  } else {
+    console.error("Boardside: a message for Python arrived before the app started");
+  }
+};
+
+// Start-up milestones, in the worker's performance timeline and its console (for the benchmark).
+function mark(name) {
+  performance.mark("boardside:" + name);
+  console.debug(`boardside: ${name} at ${Math.round(performance.now())} ms`);
+}
+
+async function fetchBytes(url) {
+  const response = await fetch(url);
+  if (!response.ok) {
+    throw new Error(`could not load ${url}: HTTP ${response.status}`);
+  }
+  return new Uint8Array(await response.arrayBuffer());
+}
+
+// The job store's folder: an IndexedDB-backed mount that only the tab holding the store's lock uses.
+function storage(pyodide, config) {
+  const FS = pyodide.FS;
+  let mounted = false;
+  let flushing = null;
+  let again = false;
+  let lastError = null;
+
+  function sync(populate) {
+    return new Promise((resolve, reject) => {
+      FS.syncfs(populate, (error) => (error ? reject(error) : resolve()));
+    });
+  }
+
+  async function claim() {
+    if (!(self.navigator && self.navigator.locks)) {
+      return true;
+    }
+    return new Promise((resolve) => {
+      self.navigator.locks.request(config.lockName, { ifAvailable: true }, (lock) => {
+        if (!lock) {
+          resolve(false);
+          return null;
+        }
+        resolve(true);
+        return new Promise(() => {}); // held until this worker ends with its tab
+      });
+    });
+  }
+
+  async function open() {
+    if (mounted) {
+      return true;
+    }
+    if (!(await claim())) {
+      return false;
+    }
+    FS.mkdirTree(config.dataDir);
+    FS.mount(FS.filesystems.IDBFS, {}, config.dataDir);
+    await sync(true);
+    mounted = true;
+    return true;
+  }
+
+  // Copy the store's files to browser storage; called after every committed write. Calls that come
+  // while a copy runs are folded into one more copy after it, so the last commit is always copied.
+  function flush() {
+    if (!mounted) {
+      return Promise.resolve();
+    }
+    if (flushing) {
+      again = true;
+      return flushing;
+    }
+    flushing = (async () => {
+      try {
+        do {
+          again = false;
+          await sync(false);
+        } while (again);
+        lastError = null;
+      } catch (error) {
+        lastError = String(error);
+        console.error("Boardside: the store could not be copied to browser storage:", error);
+      } finally {
+        flushing = null;
+      }
+    })();
+    return flushing;
+  }
+
+  return {
+    dataDir: config.dataDir,
+    open,
+    flush,
+    lastError: () => lastError,
+  };
+}
+
+async function start(config) {
+  mark("worker-start");
+  const archives = Promise.all(config.archives.map((archive) => fetchBytes(archive.url)));
+  const pyodide = await loadPyodide({
+    env: { HOME: config.home },
+  });
+  mark("pyodide-loaded");
+  self.pyodide = pyodide;
+  const store = storage(pyodide, config);
+  const storeOpened = store.open();
+  pyodide.registerJsModule("flet_js", fletJs);
+  pyodide.registerJsModule("boardside_js", {
+    dataDir: store.dataDir,
+    openStorage: store.open,
+    flush: store.flush,
+    lastFlushError: store.lastError,
+    mark,
+  });
+  const bytes = await archives;
+  config.archives.forEach((archive, index) => {
+    pyodide.unpackArchive(bytes[index], "zip", { extractDir: config.home });
+  });
+  mark("archives-unpacked");
+  pyodide.globals.set("boardside_home", config.home);
+  pyodide.runPython("import sys; sys.path.insert(0, boardside_home)");
+  const entry = pyodide.pyimport(config.module);
+  mark("entry-imported");
+  await storeOpened;
+  mark("storage-open");
+  await entry.prepare();
+  mark("prepared");
+  return entry;
+}
+
+async function connect(message) {
+  try {
+    const entry = await starting;
+    fletJs.args = message.args;
+    fletJs.documentUrl = message.documentUrl;
+    entry.run();
+    if (typeof fletJs.start_connection !== "function") {
+      return "the app did not start a Flet connection";
+    }
+    await fletJs.start_connection((packet) => {
+      const bytes = packet.toJs();
+      self.postMessage(bytes, [bytes.buffer]);
+    });
+    mark("connected");
+    return "initialized";
+  } catch (error) {
+    return String(error);
+  }
+}

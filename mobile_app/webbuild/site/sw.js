@@ -1,0 +1,77 @@
+// Boardside's service worker: keeps the whole site in the browser so it starts with no network.
+//
+// The build writes the site's files into SITE below, in groups: "runtime" (the Flet web client and
+// Python), "libraries" (the app's Python dependencies) and "app" (Boardside's own code, page, icons).
+// Each group is cached under a name made from its files' hashes, so an update downloads only the
+// groups that changed; the others are kept as they are. Requests are answered from the cache; a file
+// not in the cache is fetched from the site's own host; requests for any other host are refused here,
+// never sent.
+const SITE = "@SITE_FILES@";
+const PREFIX = "boardside-";
+
+function cacheName(group) {
+  return PREFIX + group.name + "-" + group.version;
+}
+
+async function isComplete(cache, group) {
+  const keys = await cache.keys();
+  const cached = new Set(keys.map((request) => request.url));
+  return group.files.every((file) => cached.has(new URL(file, self.registration.scope).href));
+}
+
+async function fill(group) {
+  const cache = await caches.open(cacheName(group));
+  if (await isComplete(cache, group)) {
+    return;
+  }
+  // "no-cache": revalidate with the host, so a stale copy in the HTTP cache is never kept.
+  await cache.addAll(group.files.map((file) => new Request(file, { cache: "no-cache" })));
+}
+
+self.addEventListener("install", (event) => {
+  event.waitUntil(Promise.all(SITE.groups.map(fill)));
+});
+
+self.addEventListener("activate", (event) => {
+  const current = new Set(SITE.groups.map(cacheName));
+  event.waitUntil(
+    caches.keys().then((names) =>
+      Promise.all(
+        names.filter((name) => name.startsWith(PREFIX) && !current.has(name)).map((name) => caches.delete(name)),
+      ),
+    ).then(() => self.clients.claim()),
+  );
+});
+
+async function fromCache(request) {
+  for (const group of SITE.groups) {
+    const cache = await caches.open(cacheName(group));
+    const found = await cache.match(request, { ignoreSearch: true });
+    if (found) {
+      return found;
+    }
+  }
+  return null;
+}
+
+async function answer(request) {
+  const url = new URL(request.url);
+  const page = request.mode === "navigate" ? new URL(SITE.page, self.registration.scope) : url;
+  const cached = await fromCache(new Request(page.href));
+  if (cached) {
+    return cached;
+  }
+  return fetch(request);
+}
+
+self.addEventListener("fetch", (event) => {
+  const url = new URL(event.request.url);
+  if (url.origin !== self.location.origin) {
+    event.respondWith(Response.error());
+    return;
+  }
+  if (event.request.method !== "GET") {
+    return;
+  }
+  event.respondWith(answer(event.request));
+});

@@ -1,0 +1,180 @@
+"""The static browser build end to end in a real Chromium at 390×844, with no server-side Python.
+
+Also: the server form (`python -m mobile_app`) asks no other host either.
+
+Builds the site (`build_site`, as `python -m mobile_app build-web` does), serves it with a plain static
+server on loopback, and with every request to another host aborted and counted: creates a job, walks a
+circuit to its verdict, reloads, stops the server, goes offline, reloads again and finds the job and the
+reading (the store is on browser storage, the site in the service worker's cache); then a second tab is
+refused the store until the first one closes. Screenshots go to test-artifacts/web-*.png.
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Iterator
+from pathlib import Path
+
+import pytest
+from test_e2e_walk import (
+    CHROMIUM,
+    CHROMIUM_ARGS,
+    free_port,
+    see,
+    shot,
+    start_server,
+    stop_server,
+    tap,
+    type_into,
+    wait_http,
+)
+from web_site import Elsewhere, build, serve
+
+pytestmark = [
+    pytest.mark.browser,
+    pytest.mark.skipif(not CHROMIUM.exists(), reason="needs Debian chromium at /usr/bin/chromium"),
+]
+START_MS = 90000
+"""Longest wait for the app to start (Python boots in the page; the first load also downloads it)."""
+
+
+@pytest.fixture(scope="module")
+def site(tmp_path_factory: pytest.TempPathFactory) -> Path:
+    """Boardside's static site, built once for this module."""
+    out = tmp_path_factory.mktemp("web") / "site"
+    build(out)
+    return out
+
+
+def start(page, url: str) -> None:
+    """Load `url`, wait until the app has painted and switch Flutter's accessibility tree on."""
+    page.goto(url)
+    started(page)
+
+
+def started(page) -> None:
+    """Wait for the first frame of a page just loaded and switch the accessibility tree on."""
+    page.wait_for_function("!document.getElementById('loading')", timeout=START_MS)
+    page.locator("flt-semantics-placeholder").dispatch_event("click")
+
+
+def walk_one_circuit(page) -> None:
+    """A new job with one B32 circuit walked to its verdict (the same walk as the server-form test)."""
+    tap(page, "New job")
+    type_into(page, "Client reference", "WEB-101 Quarry Road")
+    type_into(page, "Site address", "9 Quarry Road")
+    tap(page, "Create job")
+    see(page, "Status: Draft")
+    tap(page, "Add circuit")
+    see(page, "Step 1 of 4")
+    type_into(page, "Description", "Kitchen sockets")
+    tap(page, "B")
+    type_into(page, "Rating In", "32 A")
+    see(page, "= 32.0 A")
+    tap(page, "Next")
+    see(page, "Step 2 of 4")
+    type_into(page, "Line size", "2.5mm2")
+    type_into(page, "CPC size", "1.5")
+    see(page, "= 1.50 mm²")
+    tap(page, "Next")
+    see(page, "Step 3 of 4")
+    type_into(page, "Zs", "620 mΩ")
+    see(page, "= 0.62 Ω")
+    shot(page, "web-03-readings")
+    tap(page, "Next")
+    see(page, "Step 4 of 4")
+    # IEC 60898-1 Table 7: a B32 breaker trips instantaneously above 5 × 32 = 160 A; here
+    # If = 230 × 0.95 / 0.62 ≈ 352 A, so disconnection is within 0.4 s and the circuit passes.
+    see(page, "If = 230 × 0.95 / 0.62")
+    see(page, "All checks pass")
+    shot(page, "web-04-verdict")
+
+
+def find_job_and_reading(page) -> None:
+    """The jobs list has the job, its circuit passes, and the readings step shows the Zs as typed."""
+    see(page, "WEB-101 Quarry Road", timeout_ms=START_MS)
+    page.get_by_text("WEB-101 Quarry Road").first.click()
+    see(page, "Status: Draft")
+    page.get_by_role("button", name=re.compile("Kitchen sockets.*PASS")).click(timeout=20000)
+    see(page, "Step 1 of 4")
+    tap(page, "Next")
+    tap(page, "Next")
+    see(page, "Step 3 of 4")
+    see(page, "= 0.62 Ω")
+    zs = page.get_by_label("Zs", exact=True)
+    zs.click()
+    from playwright.sync_api import expect
+
+    expect(zs).to_have_value("620 mΩ", timeout=5000)
+
+
+@pytest.fixture
+def browser_context() -> Iterator[object]:
+    """A fresh Chromium profile with a phone-sized viewport."""
+    from playwright.sync_api import sync_playwright
+
+    with sync_playwright() as pw:
+        browser = pw.chromium.launch(executable_path=str(CHROMIUM), args=CHROMIUM_ARGS)
+        yield browser.new_context(viewport={"width": 390, "height": 844})
+        browser.close()
+
+
+def test_walk_reload_offline_and_second_tab(site: Path, browser_context) -> None:
+    elsewhere = Elsewhere()
+    elsewhere.guard(browser_context)
+    server, url = serve(site)
+    try:
+        page = browser_context.new_page()
+        start(page, url)
+        see(page, "No jobs yet", timeout_ms=START_MS)
+        shot(page, "web-01-jobs-empty")
+        walk_one_circuit(page)
+        assert page.evaluate("navigator.serviceWorker.ready.then((r) => Boolean(r.active))")
+
+        page.reload()
+        started(page)
+        see(page, "Step 4 of 4", timeout_ms=START_MS)
+        see(page, "All checks pass")
+        shot(page, "web-05-after-reload")
+    finally:
+        stop_server(server)
+
+    browser_context.set_offline(True)
+    page.goto(url)
+    started(page)
+    see(page, "WEB-101 Quarry Road", timeout_ms=START_MS)
+    shot(page, "web-06-offline-jobs")
+    find_job_and_reading(page)
+    shot(page, "web-07-offline-reading")
+
+    second = browser_context.new_page()
+    start(second, url)
+    see(second, "Open in another tab", timeout_ms=START_MS)
+    shot(second, "web-08-second-tab")
+    page.close()
+    tap(second, "Try again")
+    see(second, "WEB-101 Quarry Road", timeout_ms=30000)
+    shot(second, "web-09-second-tab-after-close")
+
+    assert elsewhere.urls == []
+
+
+def test_server_form_asks_no_other_host(tmp_path: Path, browser_context) -> None:
+    # The web client asks a public CDN for its animation runtime on every start; assets/guard.js
+    # points that script at the local stand-in, which the server serves from assets/.
+    elsewhere = Elsewhere()
+    elsewhere.guard(browser_context)
+    port = free_port()
+    server = start_server(tmp_path, port)
+    try:
+        wait_http(f"http://127.0.0.1:{port}/")
+        page = browser_context.new_page()
+        asked: list[str] = []
+        page.on("request", lambda request: asked.append(request.url))
+        start(page, f"http://127.0.0.1:{port}/")
+        see(page, "No jobs yet", timeout_ms=30000)
+        page.wait_for_timeout(1500)
+    finally:
+        stop_server(server)
+    assert f"http://127.0.0.1:{port}/rive-unavailable.js" in asked
+    assert elsewhere.urls == []
