@@ -12,6 +12,7 @@ refused the store until the first one closes. Screenshots go to test-artifacts/w
 from __future__ import annotations
 
 import re
+import time
 from collections.abc import Iterator
 from pathlib import Path
 
@@ -58,6 +59,41 @@ def started(page) -> None:
     page.locator("flt-semantics-placeholder").dispatch_event("click")
 
 
+STORED_COPY = """async (text) => {
+    const db = await new Promise((resolve, reject) => {
+        const request = indexedDB.open("/data");
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    const entry = await new Promise((resolve, reject) => {
+        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get("/data/boardside.sqlite");
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    db.close();
+    if (!entry) return false;
+    const wanted = new TextEncoder().encode(text);
+    const bytes = entry.contents;
+    outer: for (let i = 0; i + wanted.length <= bytes.length; i++) {
+        for (let j = 0; j < wanted.length; j++) if (bytes[i + j] !== wanted[j]) continue outer;
+        return true;
+    }
+    return false;
+}"""
+"""Whether the store file's copy in browser storage (IndexedDB, as the worker's mount keeps it) holds
+`text` as UTF-8."""
+
+
+def copied_within(page, text: str, seconds: float) -> bool:
+    """Whether the browser-storage copy of the store holds `text` within `seconds` of now."""
+    deadline = time.monotonic() + seconds
+    while time.monotonic() < deadline:
+        if page.evaluate(STORED_COPY, text):
+            return True
+        page.wait_for_timeout(50)
+    return False
+
+
 def walk_one_circuit(page) -> None:
     """A new job with one B32 circuit walked to its verdict (the same walk as the server-form test)."""
     tap(page, "New job")
@@ -80,6 +116,8 @@ def walk_one_circuit(page) -> None:
     see(page, "Step 3 of 4")
     type_into(page, "Zs", "620 mΩ")
     see(page, "= 0.62 Ω")
+    # copied to browser storage right after the save commits, not on a later timer
+    assert copied_within(page, "620 mΩ", 1.0)
     shot(page, "web-03-readings")
     tap(page, "Next")
     see(page, "Step 4 of 4")

@@ -4,6 +4,10 @@ The page's Python worker (site/python-worker.js) mounts the store's folder on In
 that holds the store's Web Lock, and offers `flush()`, which copies the folder to browser storage. Here
 the store is opened in that folder and `flush()` is installed as the store's after-commit hook, so every
 committed write is copied at once (not on a timer).
+
+In the browser the store keeps a rollback journal instead of a write-ahead log: after each commit the
+database file then holds every committed change by itself, so the copy in browser storage never
+depends on a log and an index file copied alongside it.
 """
 
 from __future__ import annotations
@@ -28,9 +32,10 @@ async def claim(js: Any) -> bool:
 
 
 def open_store(js: Any) -> Store:
-    """Open the store in the mounted folder, copy every commit to browser storage, copy it now once
-    (opening may have created or migrated the file)."""
+    """Open the store in the mounted folder with a rollback journal, copy every commit to browser
+    storage, and copy it now once (opening may have created or migrated the file)."""
     store = Store.open(Path(str(js.dataDir)))
+    store.db.execute("PRAGMA journal_mode=DELETE")
     after_commit(store.db, js.flush)
     js.flush()
     return store

@@ -79,8 +79,44 @@ function storage(pyodide, config) {
     FS.mkdirTree(config.dataDir);
     FS.mount(FS.filesystems.IDBFS, {}, config.dataDir);
     await sync(true);
+    eachFile(config.dataDir, remember);
     mounted = true;
     return true;
+  }
+
+  // IndexedDB keeps a file again only when its modification time differs from its copy's; real times
+  // have millisecond steps, so two saves within one millisecond would look unchanged. So before each
+  // copy every file changed since its last copy gets the next number of a counter as its time (a date
+  // in 1970 that no real write gives), and the copies keep those numbers.
+  let counter = 0;
+  const copiedAt = new Map();
+
+  function eachFile(folder, visit) {
+    for (const name of FS.readdir(folder)) {
+      if (name === "." || name === "..") {
+        continue;
+      }
+      const path = folder + "/" + name;
+      const stat = FS.stat(path);
+      if (FS.isDir(stat.mode)) {
+        eachFile(path, visit);
+      } else {
+        visit(path, stat.mtime.getTime());
+      }
+    }
+  }
+
+  function remember(path, time) {
+    copiedAt.set(path, time);
+    counter = Math.max(counter, time);
+  }
+
+  function stampChanged(path, time) {
+    if (copiedAt.get(path) !== time) {
+      counter += 1;
+      FS.utime(path, counter, counter);
+      copiedAt.set(path, counter);
+    }
   }
 
   // Copy the store's files to browser storage; called after every committed write. Calls that come
@@ -97,6 +133,7 @@ function storage(pyodide, config) {
       try {
         do {
           again = false;
+          eachFile(config.dataDir, stampChanged);
           await sync(false);
         } while (again);
         lastError = null;
