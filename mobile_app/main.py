@@ -115,6 +115,11 @@ def _routes() -> list[tuple[re.Pattern[str], Callable[..., ft.View]]]:
     ]
 
 
+def import_screens() -> None:
+    """Import every screen's code now (the browser build does it before it takes its start-up snapshot)."""
+    _routes()
+
+
 def route_view(shell: Shell, route: str) -> ft.View:
     """The view for a route; unknown routes show the jobs list."""
     path = route.split("?", 1)[0]

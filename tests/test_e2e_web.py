@@ -163,17 +163,22 @@ def test_walk_reload_offline_and_second_tab(site: Path, browser_context) -> None
     server, url = serve(site)
     try:
         page = browser_context.new_page()
+        milestones: list[str] = []
+        page.on("console", lambda message: milestones.append(message.text))
         start(page, url)
         see(page, "No jobs yet", timeout_ms=START_MS)
         shot(page, "web-01-jobs-empty")
         walk_one_circuit(page)
         assert page.evaluate("navigator.serviceWorker.ready.then((r) => Boolean(r.active))")
 
+        assert any("boardside: snapshot-kept" in text for text in milestones)
         page.reload()
         started(page)
         see(page, "Step 4 of 4", timeout_ms=START_MS)
         see(page, "All checks pass")
         shot(page, "web-05-after-reload")
+        # the reload started Python from the snapshot kept at the first start
+        assert any("boardside: pyodide-restored" in text for text in milestones)
     finally:
         stop_server(server)
 

@@ -6,6 +6,7 @@ The browser side (it starts, keeps the store, works offline) is tests/test_e2e_w
 
 from __future__ import annotations
 
+import ast
 import dataclasses
 import json
 import re
@@ -22,9 +23,12 @@ from mobile_app.webbuild import OutputExistsError, boardside_spec
 from mobile_app.webbuild.archive import dependency_lists, node
 from mobile_app.webbuild.client import (
     BUILD_CONFIG,
+    SNAPSHOT_RESTORE,
+    SNAPSHOT_RESTORE_GROWING,
     ClientError,
     bootstrap,
     font_manifest,
+    growing_restore,
     runtime,
     web_dir,
 )
@@ -64,6 +68,30 @@ def test_bootstrap_keeps_the_loader_and_drops_flutters_service_worker() -> None:
         bootstrap("no build configuration here", "START\n")
 
 
+def test_pyodides_snapshot_restore_grows_the_memory_first() -> None:
+    module = (web_dir() / "pyodide" / "pyodide.asm.mjs").read_text(encoding="utf-8")
+    patched = growing_restore(module)
+    assert patched.count("wasmMemory.grow(") == module.count("wasmMemory.grow(") + 1
+    assert len(patched) - len(module) == len(SNAPSHOT_RESTORE_GROWING) - len(SNAPSHOT_RESTORE)
+    with pytest.raises(ClientError, match="found it 0 times"):
+        growing_restore("no restore here")
+
+
+def test_warm_imports_every_flet_name_the_screens_use() -> None:
+    # The browser entry imports these before its start-up snapshot; a name missing here is imported
+    # on first use instead (slower), a name too many costs memory in every snapshot.
+    from mobile_app.browser.entry import SCREEN_CONTROLS
+
+    app = ROOT / "mobile_app"
+    used: set[str] = set()
+    for path in [app / "main.py", *(app / "views").glob("*.py"), *(app / "components").glob("*.py")]:
+        for found in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(found, ast.Attribute) and getattr(found.value, "id", None) == "ft":
+                used.add(found.attr)
+    # type names, and what only the server form uses (ft.run starts the connection: not in a snapshot)
+    assert set(SCREEN_CONTROLS) == used - {"Control", "Event", "run", "AppView"}
+
+
 def test_font_manifest_keeps_material_icons_and_adds_roboto() -> None:
     families = json.loads((web_dir() / "assets" / "FontManifest.json").read_text(encoding="utf-8"))
     assert [f["family"] for f in font_manifest(families)] == ["MaterialIcons", "Roboto"]
@@ -101,11 +129,12 @@ def test_dependency_lists_cover_every_requirement_in_the_browser() -> None:
 
 def test_the_site_holds_what_the_page_needs(site) -> None:
     out = site.out
-    for name in ("index.html", "sw.js", "manifest.json", "flutter_bootstrap.js", "main.dart.wasm",
-                 "main.dart.js", "canvaskit/skwasm.wasm", "canvaskit/canvaskit.wasm",
+    for name in ("index.html", "sw.js", "manifest.json", "flutter_bootstrap.js",
+                 "main.dart.js", "canvaskit/canvaskit.wasm",
                  "pyodide/pyodide.asm.wasm", "pyodide/python_stdlib.zip", "rive-unavailable.js"):
         assert (out / name).is_file(), name
     for left_out in ("flutter_service_worker.js", "pyodide/python.exe", "canvaskit/wimp.wasm",
+                     "main.dart.wasm", "canvaskit/skwasm.wasm",
                      "canvaskit/chromium/canvaskit.wasm", "assets/packages"):
         assert not (out / left_out).exists(), left_out
     cached = set(site.files())

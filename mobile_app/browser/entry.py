@@ -1,7 +1,9 @@
-"""The page's Python entry (static build): `prepare()` while the web client loads, `run()` when it connects.
+"""The page's Python entry (static build): `warm()` and `prepare()` while the web client loads, `run()`
+when it connects.
 
-`prepare` claims the job store (one tab owns it), opens it and imports the first screen, all before the
-client asks, so the jobs list is sent as soon as it connects. A tab that does not own the store shows a
+`warm` imports the app's code and nothing else (the worker keeps a memory snapshot after it, so later
+starts skip it); `prepare` claims the job store (one tab owns it) and opens it, all before the client
+asks, so the jobs list is sent as soon as it connects. A tab that does not own the store shows a
 screen saying so, with a way to try again once the other tab is closed; it never opens its own copy.
 """
 
@@ -11,16 +13,45 @@ from typing import Any
 
 _state: dict[str, Any] = {}
 
+SCREEN_CONTROLS: tuple[str, ...] = (
+    "AnimationStyle", "AppBar", "Border", "BottomAppBar", "Button", "ButtonStyle", "Card", "Colors",
+    "Column", "Container", "CrossAxisAlignment", "FilledButton", "FontWeight", "Icon", "IconButton",
+    "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
+    "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar", "ProgressRing",
+    "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "SnackBar", "Text",
+    "TextButton", "TextField", "Theme", "ThemeMode", "View",
+)
+"""The Flet names the screens use (Flet imports each on first use; tests/test_webbuild.py keeps this
+list in step with mobile_app/views and mobile_app/components)."""
+
+
+def warm() -> None:
+    """Import the screens' code and the Flet controls they build.
+
+    The worker keeps a memory snapshot after this, so later starts skip it. Nothing here may touch the
+    page (no JavaScript object may be held by Python in a snapshot) nor load a compiled extension
+    (msgpack's, which the Flet connection loads), which a snapshot cannot restore.
+    """
+    import flet as ft
+
+    import mobile_app.browser.storage  # noqa: F401
+    from mobile_app.main import import_screens
+
+    import_screens()
+    for name in SCREEN_CONTROLS:
+        getattr(ft, name)
+
 
 async def prepare() -> None:
-    """Claim and open the store, and import the screens' code (runs before the client connects)."""
+    """Claim and open the store (runs before the client connects)."""
     from mobile_app.browser import storage
 
     js = storage.bridge()
     _state["js"] = js
     if await storage.claim(js):
         _state["store"] = storage.open_store(js)
-    import mobile_app.main  # noqa: F401  (the routes and the first screen's code)
+    import flet.app  # noqa: F401  (the connection's code, with msgpack's extension: not in the snapshot)
+    import flet.messaging.pyodide_connection  # noqa: F401
 
 
 def run() -> None:

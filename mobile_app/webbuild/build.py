@@ -27,6 +27,9 @@ SITE_TEMPLATES = Path(__file__).resolve().parent / "site"
 MARKER = "boardside-site.json"
 """Written last into a finished site: lists its groups and files; an earlier build may be replaced."""
 OWN_SCRIPTS = ("python.js", "python-worker.js", "boot.js")
+SNAPSHOT_CACHE = "boardside-snapshot-"
+"""Name prefix of the cache where the page's Python worker keeps its start-up snapshot (python-worker.js),
+versioned by the runtime and both archives; the service worker keeps the current one only."""
 ASSET_FILES = ("manifest.json", "favicon.png", "guard.js", "rive-unavailable.js")
 
 
@@ -160,10 +163,10 @@ def page(spec: AppSpec, config: dict) -> str:
     return text
 
 
-def service_worker(groups: tuple[Group, ...]) -> str:
-    """sw.js from site/sw.js with the site's cache groups."""
-    site = {"page": "index.html", "groups": [{"name": g.name, "version": g.version, "files": list(g.files)}
-                                             for g in groups]}
+def service_worker(groups: tuple[Group, ...], keep: list[str]) -> str:
+    """sw.js from site/sw.js with the site's cache groups and the other caches it keeps (`keep`)."""
+    site = {"page": "index.html", "keep": keep,
+            "groups": [{"name": g.name, "version": g.version, "files": list(g.files)} for g in groups]}
     text = (SITE_TEMPLATES / "sw.js").read_text(encoding="utf-8")
     return text.replace('"@SITE_FILES@"', json.dumps(site, indent=1))
 
@@ -181,6 +184,7 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
         libraries, app_archive = build_archives(spec, out, client.runtime(source), cache or default_cache(),
                                                 Path(work), notes)
     app_files = copy_assets(spec, out)
+    snapshot_cache = SNAPSHOT_CACHE + group_version(out, [*runtime_files, libraries, app_archive])
     config = {
         "python": {
             "archives": [{"url": libraries}, {"url": app_archive}],
@@ -188,6 +192,7 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
             "home": "/app",
             "dataDir": "/data",
             "lockName": "boardside-store",
+            "snapshotCache": snapshot_cache,
         },
         "serviceWorker": "sw.js",
     }
@@ -197,7 +202,7 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
         Group(name, tuple(files), group_version(out, files))
         for name, files in (("runtime", runtime_files), ("libraries", [libraries]), ("app", app_files))
     )
-    (out / "sw.js").write_text(service_worker(groups), encoding="utf-8")
+    (out / "sw.js").write_text(service_worker(groups, [snapshot_cache]), encoding="utf-8")
     site = Site(out, groups, tuple(notes))
     marker = {"groups": {g.name: {"version": g.version, "files": list(g.files)} for g in groups}}
     (out / MARKER).write_text(json.dumps(marker, indent=1), encoding="utf-8")

@@ -1,9 +1,10 @@
 """The Flet web client and the Python runtime of the static build, taken from the installed flet-web.
 
-flet-web ships 75 MB of client; a page needs about half. Only the files below are copied: the engine in
-both of its builds (WebAssembly for Chromium browsers, JavaScript for the others), the renderers those
-builds pick with the full CanvasKit forced (see site/flutter-start.js), the fonts Boardside draws with,
-and the Pyodide runtime without its package installer.
+flet-web ships 75 MB of client; a page needs about half, and one browser only one of the engine's two
+builds. Only the files below are copied: the engine's JavaScript build with the full CanvasKit renderer,
+which every browser runs (forced in site/flutter-start.js; the WebAssembly build with its skwasm
+renderer, which only Chromium browsers pick, would add 12 MB to every phone's download), the fonts
+Boardside draws with, and the Pyodide runtime without its package installer.
 """
 
 from __future__ import annotations
@@ -16,13 +17,8 @@ from pathlib import Path
 from mobile_app.webbuild.errors import ClientError
 
 CLIENT_FILES: tuple[str, ...] = (
-    # the engine: dart2wasm for Chromium browsers, dart2js for WebKit and Gecko
-    "main.dart.wasm",
-    "main.dart.mjs",
+    # the engine (dart2js) and its renderer, the full CanvasKit
     "main.dart.js",
-    # renderers: skwasm with dart2wasm; the full CanvasKit with dart2js
-    "canvaskit/skwasm.js",
-    "canvaskit/skwasm.wasm",
     "canvaskit/canvaskit.js",
     "canvaskit/canvaskit.wasm",
     # assets the engine reads at start, and the fonts Boardside uses
@@ -48,6 +44,14 @@ Boardside draws no KaTeX formula and no Cupertino icon)."""
 ROBOTO = {"family": "Roboto", "fonts": [{"asset": "fonts/roboto.woff2"}]}
 """The text font, added the way flet-web adds it when it serves with no CDN."""
 
+PYODIDE_MODULE = "pyodide/pyodide.asm.mjs"
+SNAPSHOT_RESTORE = "return Module.HEAP8.set(t),l}"
+SNAPSHOT_RESTORE_GROWING = (
+    "return t.length>Module.HEAP8.length&&(wasmMemory.grow(Math.ceil((t.length-Module.HEAP8.length)/65536)),"
+    "updateMemoryViews()),Module.HEAP8.set(t),l}"
+)
+"""Pyodide restores a memory snapshot into the memory it starts with and fails ("offset is out of
+bounds") when the snapshot's memory had grown: the build makes the restore grow the memory first."""
 BOOTSTRAP = "flutter_bootstrap.js"
 BUILD_CONFIG = "_flutter.buildConfig = "
 
@@ -76,7 +80,20 @@ def copy_client(source: Path, out: Path) -> list[str]:
         target = out / name
         target.parent.mkdir(parents=True, exist_ok=True)
         shutil.copyfile(source / name, target)
+    module = out / PYODIDE_MODULE
+    module.write_text(growing_restore(module.read_text(encoding="utf-8")), encoding="utf-8")
     return [*CLIENT_FILES, *write_font_manifest(source, out), write_bootstrap(source, out)]
+
+
+def growing_restore(pyodide_module: str) -> str:
+    """Pyodide's module with a snapshot restore that first grows the memory to the snapshot's size.
+
+    ClientError when the restore is not found exactly once (another Pyodide: check the patch).
+    """
+    found = pyodide_module.count(SNAPSHOT_RESTORE)
+    if found != 1:
+        raise ClientError(PYODIDE_MODULE, f"expected the snapshot restore once, found it {found} times")
+    return pyodide_module.replace(SNAPSHOT_RESTORE, SNAPSHOT_RESTORE_GROWING)
 
 
 def font_manifest(families: list[dict]) -> list[dict]:

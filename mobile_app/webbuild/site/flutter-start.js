@@ -1,7 +1,8 @@
 // Boardside's start of the Flutter engine, appended by the build after flet-web's loader and build
 // configuration (the head of its flutter_bootstrap.js). Unlike flet-web's own tail it registers no
 // service worker: Flutter's worker would replace Boardside's at the same scope with one that
-// unregisters itself. The CanvasKit build is always the full one, so the site carries one CanvasKit.
+// unregisters itself. Every browser runs the engine's JavaScript build with the full CanvasKit
+// (the renderer comes from the page's flet.webRenderer), so the site carries one engine and one renderer.
 
 window.addEventListener('flutter-first-frame', () => {
     document.getElementById('loading')?.remove();

@@ -4,8 +4,12 @@
 // Written for Boardside after flet-web's python-worker.js (same messages to and from the Flet client),
 // with these differences: the runtime is imported by a path relative to this file; nothing is
 // installed at run time (the archives carry every dependency, so no package index is asked); the work
-// starts when the page loads ("start") and the app connects when the client asks ("connect"); and the
-// job store's folder is a browser-storage mount that one tab at a time owns.
+// starts when the page loads ("start") and the app connects when the client asks ("connect"); Python
+// starts from a snapshot after the first start; and the job store's folder is a browser-storage mount
+// that one tab at a time owns.
+//
+// The entry module (config.module) offers warm() (imports only, before the snapshot), prepare() (may
+// use the page: runs before the client connects) and run() (starts the Flet app on the connection).
 import { loadPyodide } from "./pyodide/pyodide.mjs";
 
 const fletJs = {};
@@ -155,13 +159,81 @@ function storage(pyodide, config) {
   };
 }
 
+// Python starts from a memory snapshot taken on this device at its first start (kept gzip-compressed in
+// the browser's Cache Storage under the version of the runtime and both archives): starting the
+// interpreter and importing the app from nothing takes seconds, restoring memory a fraction of that.
+// The snapshot is taken after the entry module's warm(), which only imports (no JavaScript object may
+// be held by Python at that point); a snapshot that does not restore is marked and never tried again.
+const SNAPSHOT = "python-snapshot";
+const SNAPSHOT_FAILED = "python-snapshot-failed";
+
+async function squeeze(bytes, direction) {
+  if (!self.CompressionStream) {
+    return bytes;
+  }
+  const transform = direction === "in" ? new CompressionStream("gzip") : new DecompressionStream("gzip");
+  return new Uint8Array(await new Response(new Blob([bytes]).stream().pipeThrough(transform)).arrayBuffer());
+}
+
+async function keepSnapshot(cache, bytes) {
+  try {
+    await cache.put(SNAPSHOT, new Response(await squeeze(bytes, "in")));
+    mark("snapshot-kept");
+  } catch (error) {
+    console.warn("Boardside: no start-up snapshot kept:", error);
+  }
+}
+
+function unpackArchives(pyodide, config, bytes) {
+  config.archives.forEach((archive, index) => {
+    pyodide.unpackArchive(bytes[index], "zip", { extractDir: config.home });
+  });
+  mark("archives-unpacked");
+}
+
+async function restored(config, cache, archives) {
+  const stored = cache && !(await cache.match(SNAPSHOT_FAILED)) && (await cache.match(SNAPSHOT));
+  if (!stored) {
+    return null;
+  }
+  try {
+    const snapshot = await squeeze(new Uint8Array(await stored.arrayBuffer()), "out");
+    const pyodide = await loadPyodide({ env: { HOME: config.home }, _loadSnapshot: snapshot });
+    mark("pyodide-restored");
+    unpackArchives(pyodide, config, await archives);
+    return { pyodide, entry: pyodide.pyimport(config.module) };
+  } catch (error) {
+    console.warn("Boardside: the start-up snapshot did not restore; starting afresh:", error);
+    await cache.put(SNAPSHOT_FAILED, new Response(String(error)));
+    return null;
+  }
+}
+
+async function afresh(config, cache, archives) {
+  const pyodide = await loadPyodide({ env: { HOME: config.home }, _makeSnapshot: Boolean(cache) });
+  mark("pyodide-loaded");
+  unpackArchives(pyodide, config, await archives);
+  pyodide.globals.set("boardside_home", config.home);
+  pyodide.runPython("import sys; sys.path.insert(0, boardside_home)");
+  const entry = pyodide.pyimport(config.module);
+  entry.warm();
+  mark("warmed");
+  const extensions = pyodide.runPython(
+    "import sys; [n for n, m in list(sys.modules.items()) if str(getattr(m, '__file__', '')).endswith('.so')]",
+  ).toJs();
+  if (cache && extensions.length === 0) {
+    keepSnapshot(cache, pyodide.makeMemorySnapshot());
+  } else if (cache) {
+    console.warn("Boardside: no start-up snapshot, warm() loaded compiled extensions:", extensions);
+  }
+  return { pyodide, entry };
+}
+
 async function start(config) {
   mark("worker-start");
   const archives = Promise.all(config.archives.map((archive) => fetchBytes(archive.url)));
-  const pyodide = await loadPyodide({
-    env: { HOME: config.home },
-  });
-  mark("pyodide-loaded");
+  const cache = self.caches ? await self.caches.open(config.snapshotCache).catch(() => null) : null;
+  const { pyodide, entry } = (await restored(config, cache, archives)) || (await afresh(config, cache, archives));
   self.pyodide = pyodide;
   const store = storage(pyodide, config);
   const storeOpened = store.open();
@@ -173,15 +245,6 @@ async function start(config) {
     lastFlushError: store.lastError,
     mark,
   });
-  const bytes = await archives;
-  config.archives.forEach((archive, index) => {
-    pyodide.unpackArchive(bytes[index], "zip", { extractDir: config.home });
-  });
-  mark("archives-unpacked");
-  pyodide.globals.set("boardside_home", config.home);
-  pyodide.runPython("import sys; sys.path.insert(0, boardside_home)");
-  const entry = pyodide.pyimport(config.module);
-  mark("entry-imported");
   await storeOpened;
   mark("storage-open");
   await entry.prepare();

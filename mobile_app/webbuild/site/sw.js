@@ -5,7 +5,8 @@
 // Each group is cached under a name made from its files' hashes, so an update downloads only the
 // groups that changed; the others are kept as they are. Requests are answered from the cache; a file
 // not in the cache is fetched from the site's own host; requests for any other host are refused here,
-// never sent.
+// never sent. Caches named in SITE.keep (the Python worker's start-up snapshot of this version) stay;
+// other caches of Boardside's from earlier versions are deleted when this version takes over.
 const SITE = "@SITE_FILES@";
 const PREFIX = "boardside-";
 
@@ -33,7 +34,7 @@ self.addEventListener("install", (event) => {
 });
 
 self.addEventListener("activate", (event) => {
-  const current = new Set(SITE.groups.map(cacheName));
+  const current = new Set([...SITE.groups.map(cacheName), ...SITE.keep]);
   event.waitUntil(
     caches.keys().then((names) =>
       Promise.all(
