@@ -7,7 +7,8 @@ same way (a plain static server on loopback), then measured the same way:
 - offline cold start (target ≤ 10 s and ≤ 1.3× the hello-world): a new browser process on the profile
   of that first visit, offline with the server stopped, to the jobs list (Boardside's store holds a
   500-circuit job and a short one) or the hello text;
-- open the 500-circuit job (target ≤ 2 s): from the tap on it to its screen;
+- open the 500-circuit job (target ≤ 2 s): from the tap on it to its screen (its boards folded), and
+  from the tap on a board's "Show circuits" to its 50 circuits;
 - last keystroke → verdict on screen (target ≤ 300 ms); baseline: the hello-world echoing a text field;
 - site size (target ≤ 45 MB, ≤ 18 MB gzip-compressed) and what an update of Boardside's code downloads
   (target ≤ 5 MB): measured from the static server's log while the new service worker installs.
@@ -33,7 +34,7 @@ from pathlib import Path
 sys.path[:0] = [str(Path(__file__).resolve().parent), str(Path(__file__).resolve().parent.parent)]
 
 from bench_app import round_trip_ms  # noqa: E402
-from bench_records import build_job  # noqa: E402
+from bench_records import CIRCUITS_PER_BOARD, build_job  # noqa: E402
 from test_e2e_walk import CHROMIUM, CHROMIUM_ARGS, ROOT, free_port, stop_server, wait_http  # noqa: E402
 from web_site import Elsewhere  # noqa: E402
 
@@ -199,6 +200,7 @@ class App:
     cold_s: list[float] = dataclasses.field(default_factory=list)
     milestones: list[dict[str, int]] = dataclasses.field(default_factory=list)
     open_job_s: list[float] = dataclasses.field(default_factory=list)
+    unfold_s: list[float] = dataclasses.field(default_factory=list)
     keystroke_ms: list[float] = dataclasses.field(default_factory=list)
     elsewhere: list[str] = dataclasses.field(default_factory=list)
 
@@ -239,6 +241,10 @@ def cold_start(pw, app: App) -> None:
         page.get_by_text("500 circuits").first.click()
         page.get_by_text("Status: Draft").first.wait_for(timeout=START_MS)
         app.open_job_s.append(time.perf_counter() - started)
+        started = time.perf_counter()
+        page.get_by_role("button", name="Show circuits").first.click()
+        page.get_by_text(f"Circuit {CIRCUITS_PER_BOARD}", exact=True).first.wait_for(timeout=START_MS)
+        app.unfold_s.append(time.perf_counter() - started)
         if not app.keystroke_ms:
             page.goto(f"{app.server.url}#/job/{app.store[2]}/circuit/{app.store[3]}/readings")
             page.get_by_text("Verdict so far").first.wait_for(timeout=START_MS)
@@ -314,7 +320,8 @@ def report(site, hello, build_s: float, ours: App, base: App, update: tuple[int,
           f"ratio {cold / base_cold:.2f}, target 1.3)")
     print(f"  where it goes (s from the worker's start): {where_time_goes(ours.milestones)}")
     print(f"  hello-world:                               {where_time_goes(base.milestones)}")
-    print(f"open 500-circuit job   {median(ours.open_job_s):6.2f} s   (target 2 s)")
+    print(f"open 500-circuit job   {median(ours.open_job_s):6.2f} s   (target 2 s; its boards folded)")
+    print(f"  show one board's {CIRCUITS_PER_BOARD} circuits {median(ours.unfold_s):.2f} s")
     print(f"keystroke → verdict    {verdict:6.0f} ms  (target 300 ms; hello-world echo {echo:.0f} ms, "
           f"ratio {verdict / echo:.2f})")
     print(f"site size              {site.size_bytes() / mb:6.1f} MB  (target 45 MB; hello-world "

@@ -218,3 +218,24 @@ def test_changing_the_final_circuit_scope_reassesses_draft_jobs(tmp_path) -> Non
         assert store.circuits.get(circuit)["assessment"]["disconnection_ok"] is True
         settings.set("final_circuit_max_a", "63")
         assert store.circuits.get(circuit)["verdict"] == "fail"
+
+
+def test_a_big_job_folds_its_boards_with_their_counts(store) -> None:
+    # common practice: a list of hundreds of rows is no way to find one; the folded board says
+    # how many circuits it holds and how many fail or are not shown.
+    from mobile_app.state.jobs import FOLD_OVER
+
+    job = JobScreen(store, JobsList(store).new_job("Big"))
+    board = job.boards()[0].id
+    walk = Walk(store, job.add_circuit(board))
+    for name, raw in (("device_curve", "B"), ("device_rating", "32"), ("line_csa", "2.5"),
+                      ("cpc_csa", "1.5"), ("zs", "2.0")):
+        walk.set_field(name, raw)
+    with store.batch():
+        for number in range(2, FOLD_OVER + 1):
+            store.circuits.add(board, str(number))
+    views = job.boards()
+    assert views[0].summary == f"{FOLD_OVER} circuits · 1 failing · {FOLD_OVER - 1} not shown"
+    assert not job.folds(views)
+    store.circuits.add(board, str(FOLD_OVER + 1))
+    assert job.folds(job.boards())

@@ -28,12 +28,17 @@ class JobRow:
     @property
     def summary(self) -> str:
         """`8 circuits · 2 failing · 1 not shown`."""
-        parts = [f"{self.circuits} circuit" + ("" if self.circuits == 1 else "s")]
-        if self.failing:
-            parts.append(f"{self.failing} failing")
-        if self.not_shown:
-            parts.append(f"{self.not_shown} not shown")
-        return " · ".join(parts)
+        return count_summary(self.circuits, self.failing, self.not_shown)
+
+
+def count_summary(circuits: int, failing: int, not_shown: int) -> str:
+    """`8 circuits · 2 failing · 1 not shown` (the counts that are not zero after the first)."""
+    parts = [f"{circuits} circuit" + ("" if circuits == 1 else "s")]
+    if failing:
+        parts.append(f"{failing} failing")
+    if not_shown:
+        parts.append(f"{not_shown} not shown")
+    return " · ".join(parts)
 
 
 STATUS_FILTERS: tuple[Choice, ...] = (
@@ -104,6 +109,17 @@ class BoardView:
     designation: str
     location: str
     circuits: tuple[CircuitRow, ...]
+
+    @property
+    def summary(self) -> str:
+        """`50 circuits · 2 failing · 1 not shown`."""
+        verdicts = [c.verdict for c in self.circuits]
+        return count_summary(len(verdicts), verdicts.count("fail"), verdicts.count("not-shown"))
+
+
+FOLD_OVER = 60
+"""A job with more circuits than this shows its boards folded (a line each, opened one by one): a
+screen of hundreds of circuits takes seconds to build and is no way to find one."""
 
 
 @dataclass(frozen=True)
@@ -199,6 +215,11 @@ class JobScreen:
                 )
             )
         return views
+
+    @staticmethod
+    def folds(boards: list[BoardView]) -> bool:
+        """Whether the boards start folded: the job has more than FOLD_OVER circuits."""
+        return sum(len(board.circuits) for board in boards) > FOLD_OVER
 
     def add_board(self, designation: str = "") -> int:
         """Add a board named `designation` (or the next DBn)."""

@@ -43,6 +43,25 @@ def _input(job: JobScreen, field: JobField, after_save: Any) -> ft.Control:
     )
 
 
+def _folded_board(board: BoardView, unfold: Any) -> ft.Control:
+    """A board of a big job, folded: its name and counts, and a way to show its circuits."""
+    title = board.designation + (f" · {board.location}" if board.location else "")
+    return ft.Card(
+        content=ft.Container(
+            ft.Column(
+                [
+                    ft.Text(title, size=18, weight=ft.FontWeight.BOLD),
+                    ft.Text(board.summary, size=14),
+                    ft.OutlinedButton("Show circuits", icon=ft.Icons.EXPAND_MORE, height=48,
+                                      key=f"show-board-{board.id}", on_click=lambda _e: unfold(board.id)),
+                ],
+                spacing=4,
+            ),
+            padding=12,
+        )
+    )
+
+
 def _board(shell: Any, job: JobScreen, board: BoardView) -> ft.Control:
     tiles: list[ft.Control] = [
         ft.ListTile(
@@ -108,9 +127,19 @@ def build(shell: Any, job_id: str) -> ft.View:
                           on_click=lambda _e: shell.go(f"/job/{job.job_id}/observations")),
     ]
     boards = ft.Column(spacing=8, key="boards")
+    opened: set[int] = shell.session_value(f"open-boards-{job_id}", set)
+
+    def unfold(board_id: int) -> None:
+        opened.add(board_id)
+        refresh_boards()
 
     def fill_boards() -> None:
-        boards.controls = [_board(shell, job, board) for board in job.boards()]
+        views = job.boards()
+        folds = job.folds(views)
+        boards.controls = [
+            _folded_board(board, unfold) if folds and board.id not in opened else _board(shell, job, board)
+            for board in views
+        ]
 
     def refresh_boards() -> None:
         fill_boards()
