@@ -163,6 +163,8 @@ def test_archives_carry_compiled_libraries_and_our_code(site) -> None:
     libraries = archive_names(site, "libraries")
     app = archive_names(site, "app")
     assert "msgpack/_cmsgpack.cpython-314-wasm32-emscripten.so" in libraries  # the browser wheel
+    with zipfile.ZipFile(next(site.out.glob("libraries-*.zip"))) as archive:
+        assert {i.compress_type for i in archive.infolist()} == {zipfile.ZIP_STORED}
     assert "pint/default_en.txt" in libraries and "flet/controls/material/icons.json" in libraries
     assert not any(n.startswith(("webdav4/", "httpx/", "fpdf/", "flet_web/", "pip/")) for n in libraries)
     assert not any("/tests/" in n or "/testsuite/" in n or n.endswith(".dart") for n in libraries)

@@ -136,13 +136,17 @@ def compile_bytecode(pyodide_dir: Path, sourceless: Path, cached: Path) -> None:
 
 
 def write_zip(folder: Path, target: Path) -> Path:
-    """Zip `folder`'s files in sorted order with fixed times; return the archive's path."""
-    with zipfile.ZipFile(target, "w", compression=zipfile.ZIP_DEFLATED, compresslevel=9) as archive:
+    """Zip `folder`'s files in sorted order with fixed times, stored uncompressed; return its path.
+
+    The page's worker copies stored entries straight into Python's file system with no decompression
+    (python-worker.js); a static host's compression, and the size budget's, work on the whole file.
+    """
+    with zipfile.ZipFile(target, "w", compression=zipfile.ZIP_STORED) as archive:
         for path in sorted(p for p in folder.rglob("*") if p.is_file()):
             info = zipfile.ZipInfo(path.relative_to(folder).as_posix(), date_time=ZIP_TIME)
-            info.compress_type = zipfile.ZIP_DEFLATED
+            info.compress_type = zipfile.ZIP_STORED
             info.external_attr = 0o644 << 16
-            archive.writestr(info, path.read_bytes(), compresslevel=9)
+            archive.writestr(info, path.read_bytes())
     return target
 
 

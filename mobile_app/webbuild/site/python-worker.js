@@ -184,10 +184,49 @@ async function keepSnapshot(cache, bytes) {
   }
 }
 
-function unpackArchives(pyodide, config, bytes) {
-  config.archives.forEach((archive, index) => {
-    pyodide.unpackArchive(bytes[index], "zip", { extractDir: config.home });
-  });
+// The entries of a zip archive whose files are stored uncompressed, as the build writes them:
+// [path, bytes] from the central directory (APPNOTE 4.3.12, 4.3.16), bytes viewed in place.
+function* storedEntries(bytes) {
+  const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+  let end = bytes.length - 22;
+  while (end >= 0 && view.getUint32(end, true) !== 0x06054b50) {
+    end -= 1;
+  }
+  if (end < 0) {
+    throw new Error("not a zip archive");
+  }
+  const decoder = new TextDecoder();
+  let at = view.getUint32(end + 16, true);
+  for (let left = view.getUint16(end + 10, true); left > 0; left -= 1) {
+    const method = view.getUint16(at + 10, true);
+    const size = view.getUint32(at + 20, true);
+    const nameLength = view.getUint16(at + 28, true);
+    const skip = nameLength + view.getUint16(at + 30, true) + view.getUint16(at + 32, true);
+    const local = view.getUint32(at + 42, true);
+    const name = decoder.decode(bytes.subarray(at + 46, at + 46 + nameLength));
+    if (method !== 0) {
+      throw new Error(`${name} is compressed in its archive`);
+    }
+    const start = local + 30 + view.getUint16(local + 26, true) + view.getUint16(local + 28, true);
+    yield [name, bytes.subarray(start, start + size)];
+    at += 46 + skip;
+  }
+}
+
+function unpackArchives(pyodide, config, archives) {
+  const FS = pyodide.FS;
+  const folders = new Set();
+  for (const bytes of archives) {
+    for (const [name, data] of storedEntries(bytes)) {
+      const path = config.home + "/" + name;
+      const folder = path.slice(0, path.lastIndexOf("/"));
+      if (!folders.has(folder)) {
+        FS.mkdirTree(folder);
+        folders.add(folder);
+      }
+      FS.writeFile(path, data);
+    }
+  }
   mark("archives-unpacked");
 }
 
