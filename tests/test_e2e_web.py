@@ -121,10 +121,11 @@ def walk_one_circuit(page) -> None:
     shot(page, "web-03-readings")
     tap(page, "Next")
     see(page, "Step 4 of 4")
-    # IEC 60898-1 Table 7: a B32 breaker trips instantaneously above 5 × 32 = 160 A; here
-    # If = 230 × 0.95 / 0.62 ≈ 352 A, so disconnection is within 0.4 s and the circuit passes.
-    see(page, "If = 230 × 0.95 / 0.62")
-    see(page, "All checks pass")
+    # IEC 60898-1 Table 7: a B32 breaker trips instantaneously above 5 × 32 = 160 A, so its maximum
+    # Zs is 230 × 0.95 / 160 = 1.366 Ω, and 0.8 × that = 1.093 Ω measured cold (rule of thumb, common
+    # practice); 0.62 Ω passes that check, while the checks that need more readings are not shown.
+    see(page, "0.62 Ω against ≤ 1.093 Ω")
+    see(page, "Not shown yet")
     shot(page, "web-04-verdict")
 
 
@@ -133,7 +134,7 @@ def find_job_and_reading(page) -> None:
     see(page, "WEB-101 Quarry Road", timeout_ms=START_MS)
     page.get_by_text("WEB-101 Quarry Road").first.click()
     see(page, "Status: Draft")
-    page.get_by_role("button", name=re.compile("Kitchen sockets.*PASS")).click(timeout=20000)
+    page.get_by_role("button", name=re.compile("Kitchen sockets.*NOT SHOWN")).click(timeout=20000)
     see(page, "Step 1 of 4")
     tap(page, "Next")
     tap(page, "Next")
@@ -175,7 +176,7 @@ def test_walk_reload_offline_and_second_tab(site: Path, browser_context) -> None
         page.reload()
         started(page)
         see(page, "Step 4 of 4", timeout_ms=START_MS)
-        see(page, "All checks pass")
+        see(page, "0.62 Ω against ≤ 1.093 Ω")
         shot(page, "web-05-after-reload")
         # the reload started Python from the snapshot kept at the first start
         assert any("boardside: pyodide-restored" in text for text in milestones)

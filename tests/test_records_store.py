@@ -342,7 +342,7 @@ def test_reassess_job_applies_a_changed_setting_to_a_draft_job(store: Store) -> 
 def test_the_after_commit_hook_runs_once_per_committed_write(store: Store) -> None:
     # The browser build copies the store file to browser storage from this hook, so every save that
     # commits must call it once, after the commit; a write that rolls back must not.
-    from mobile_app.records.core import after_commit
+    from mobile_app.store.core import after_commit
 
     calls: list[int] = []
 
@@ -350,16 +350,16 @@ def test_the_after_commit_hook_runs_once_per_committed_write(store: Store) -> No
         calls.append(store.db.conn.in_transaction)
 
     after_commit(store.db, copied)
-    job_id = store.create_job({"client_ref": "Hook"})
+    job_id = store.jobs.create({"client_ref": "Hook"})
     assert calls == [False]
     with store.batch():
-        store.set_job_field(job_id, "site_address", "1 Lane")
-        store.set_job_field(job_id, "description", "two fields, one commit")
+        store.jobs.set_field(job_id, "site_address", "1 Lane")
+        store.jobs.set_field(job_id, "description", "two fields, one commit")
     assert calls == [False, False]
     with pytest.raises(ZeroDivisionError), store.batch():
-        store.set_job_field(job_id, "site_address", "2 Lane")
+        store.jobs.set_field(job_id, "site_address", "2 Lane")
         raise ZeroDivisionError
-    assert len(calls) == 2 and store.get_job(job_id)["fields"]["site_address"]["raw"] == "1 Lane"
+    assert len(calls) == 2 and store.jobs.get(job_id)["fields"]["site_address"]["raw"] == "1 Lane"
     after_commit(store.db, None)
-    store.set_job_field(job_id, "site_address", "3 Lane")
+    store.jobs.set_field(job_id, "site_address", "3 Lane")
     assert len(calls) == 2

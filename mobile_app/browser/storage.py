@@ -15,8 +15,8 @@ from __future__ import annotations
 from pathlib import Path
 from typing import Any
 
-from mobile_app.records import Store
-from mobile_app.records.core import after_commit
+from mobile_app.store import Store
+from mobile_app.store.core import after_commit
 
 
 def bridge() -> Any:

@@ -20,7 +20,8 @@ from pathlib import Path, PurePosixPath
 from mobile_app.webbuild.errors import DependencyError
 
 SKIP_PARTS = frozenset({"__pycache__", "tests", "testsuite", "test"})
-"""Folders never packed: bytecode of the build's Python, and test suites of libraries."""
+"""Folders never packed: bytecode of the build's Python, and test suites of libraries (test_*.py files
+are left out too)."""
 SKIP_SUFFIXES = frozenset({".pyc", ".pyo", ".so", ".pyd", ".dll", ".dylib", ".pyi", ".exe", ".dart"})
 SKIP_NAMES = frozenset({"pubspec.yaml", "pubspec.lock"})
 """Files never packed: bytecode and extensions of the build's platform, type stubs, launchers, and the
@@ -47,7 +48,7 @@ def dependency_lists() -> dict[str, dict[str, str]]:
 
 def _packable(name: PurePosixPath, browser_build: bool = False) -> bool:
     """Whether a file goes into an archive; a wheel built for the browser keeps its extensions."""
-    if any(part in SKIP_PARTS for part in name.parts):
+    if any(part in SKIP_PARTS for part in name.parts) or name.name.startswith("test_"):
         return False
     if name.suffix in SKIP_SUFFIXES and not (browser_build and name.suffix == ".so"):
         return False
