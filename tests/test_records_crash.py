@@ -24,8 +24,10 @@ KILLS = 25
 CHILD = """
 import sys
 from pathlib import Path
+import calc
 from mobile_app.store import Store
 store = Store.open(Path(sys.argv[1]))
+calc.parse_value("measured.zs", "1 mΩ")  # the unit registry is made on the first unit: before "ready"
 run = int(sys.argv[2])
 ids = [int(i) for i in sys.argv[3].split(",")]
 print("ready", flush=True)
