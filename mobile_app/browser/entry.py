@@ -49,7 +49,7 @@ async def prepare() -> None:
     js = storage.bridge()
     _state["js"] = js
     if await storage.claim(js):
-        _state["store"] = storage.open_store(js)
+        _state["store"] = storage.open_store(js, _copy_failed)
     import flet.app  # noqa: F401  (the connection's code, with msgpack's extension: not in the snapshot)
     import flet.messaging.pyodide_connection  # noqa: F401
 
@@ -61,9 +61,21 @@ def run() -> None:
     ft.run(_main)
 
 
+def _copy_failed(reason: str) -> None:
+    """Say on screen that browser storage refused the copy of the store (the work stays in the page)."""
+    import flet as ft
+
+    page = _state.get("page")
+    if page is not None:
+        page.show_dialog(ft.SnackBar(ft.Text(
+            f"Not kept by the browser ({reason}). Keep this tab open and free some space on the device;"
+            " the next save tries again."), duration=10000))
+
+
 async def _main(page: Any) -> None:
     from mobile_app.main import make_main
 
+    _state["page"] = page
     store = _state.get("store")
     if store is not None:
         make_main(store)(page)
@@ -79,7 +91,7 @@ async def _main(page: Any) -> None:
         if not await storage.claim(_state["js"]):
             page.show_dialog(ft.SnackBar(ft.Text("Still open in another tab."), duration=2500))
             return
-        _state["store"] = storage.open_store(_state["js"])
+        _state["store"] = storage.open_store(_state["js"], _copy_failed)
         page.views.clear()
         make_main(_state["store"])(page)
 

@@ -12,6 +12,8 @@ depends on a log and an index file copied alongside it.
 
 from __future__ import annotations
 
+import asyncio
+from collections.abc import Callable
 from pathlib import Path
 from typing import Any
 
@@ -20,7 +22,7 @@ from mobile_app.store.core import after_commit
 
 
 def bridge() -> Any:
-    """The worker's storage functions (`boardside_js`: dataDir, openStorage, flush, lastFlushError)."""
+    """The worker's storage functions (`boardside_js`: dataDir, openStorage, flush, mark)."""
     import boardside_js  # type: ignore[import-not-found]  # registered by the page's Python worker
 
     return boardside_js
@@ -31,11 +33,21 @@ async def claim(js: Any) -> bool:
     return bool(await js.openStorage())
 
 
-def open_store(js: Any) -> Store:
+def open_store(js: Any, copy_failed: Callable[[str], None]) -> Store:
     """Open the store in the mounted folder with a rollback journal, copy every commit to browser
-    storage, and copy it now once (opening may have created or migrated the file)."""
+    storage, and copy it now once (opening may have created or migrated the file). `copy_failed` hears
+    why a copy failed (the save is committed in the page, but not yet kept by the browser)."""
     store = Store.open(Path(str(js.dataDir)))
     store.db.execute("PRAGMA journal_mode=DELETE")
-    after_commit(store.db, js.flush)
-    js.flush()
+
+    async def watch(copied: Any) -> None:
+        failure = await copied
+        if failure:
+            copy_failed(str(failure))
+
+    def copy() -> None:
+        asyncio.ensure_future(watch(js.flush()))
+
+    after_commit(store.db, copy)
+    copy()
     return store

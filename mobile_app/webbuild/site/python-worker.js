@@ -49,7 +49,6 @@ function storage(pyodide, config) {
   let mounted = false;
   let flushing = null;
   let again = false;
-  let lastError = null;
 
   function sync(populate) {
     return new Promise((resolve, reject) => {
@@ -125,9 +124,10 @@ function storage(pyodide, config) {
 
   // Copy the store's files to browser storage; called after every committed write. Calls that come
   // while a copy runs are folded into one more copy after it, so the last commit is always copied.
+  // Resolves to null, or to why the copy failed (browser storage full, or taken away).
   function flush() {
     if (!mounted) {
-      return Promise.resolve();
+      return Promise.resolve(null);
     }
     if (flushing) {
       again = true;
@@ -140,10 +140,10 @@ function storage(pyodide, config) {
           eachFile(config.dataDir, stampChanged);
           await sync(false);
         } while (again);
-        lastError = null;
+        return null;
       } catch (error) {
-        lastError = String(error);
         console.error("Boardside: the store could not be copied to browser storage:", error);
+        return String(error);
       } finally {
         flushing = null;
       }
@@ -151,12 +151,7 @@ function storage(pyodide, config) {
     return flushing;
   }
 
-  return {
-    dataDir: config.dataDir,
-    open,
-    flush,
-    lastError: () => lastError,
-  };
+  return { dataDir: config.dataDir, open, flush };
 }
 
 // Python starts from a memory snapshot taken on this device at its first start (kept gzip-compressed in
@@ -273,7 +268,6 @@ async function start(config) {
   const archives = Promise.all(config.archives.map((archive) => fetchBytes(archive.url)));
   const cache = self.caches ? await self.caches.open(config.snapshotCache).catch(() => null) : null;
   const { pyodide, entry } = (await restored(config, cache, archives)) || (await afresh(config, cache, archives));
-  self.pyodide = pyodide;
   const store = storage(pyodide, config);
   const storeOpened = store.open();
   pyodide.registerJsModule("flet_js", fletJs);
@@ -281,7 +275,6 @@ async function start(config) {
     dataDir: store.dataDir,
     openStorage: store.open,
     flush: store.flush,
-    lastFlushError: store.lastError,
     mark,
   });
   await storeOpened;
