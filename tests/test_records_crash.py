@@ -116,8 +116,10 @@ SUPPLY_KILLS = 8
 SUPPLY_CHILD = """
 import sys
 from pathlib import Path
+import calc
 from mobile_app.store import Store
 store = Store.open(Path(sys.argv[1]))
+calc.parse_value("supply.ze", "1 Ω")  # the unit registry is made on the first unit: before "ready"
 print("ready", flush=True)
 n = 0
 while True:
