@@ -89,8 +89,11 @@ def test_every_job_written_before_a_cut_comes_back_whole(tmp_path: Path) -> None
             for name, raw in (("device_kind", "mcb"), ("device_curve", "B"), ("device_rating", "32"),
                               ("line_csa", "2.5"), ("cpc_csa", "1.5"), ("zs", "0.5")):
                 store.circuits.set_field(first, name, raw)
-            for number in range(2, 61):  # each copies the first one's device and cables
-                store.circuits.set_field(store.circuits.add(board, str(number)), "zs", "0.5")
+            for number in range(2, 61):  # each copies the first one's device kind and curve
+                circuit = store.circuits.add(board, str(number))
+                for name, raw in (("device_rating", "32"), ("line_csa", "2.5"), ("cpc_csa", "1.5"),
+                                  ("zs", "0.5")):
+                    store.circuits.set_field(circuit, name, raw)
     data = (tmp_path / STORE_FILE).read_bytes()
     assert len(data) > 1.5 * cut
     (tmp_path / STORE_FILE).write_bytes(data[:cut])  # the file cut short, e.g. a copy interrupted

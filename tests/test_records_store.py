@@ -177,13 +177,14 @@ def test_calc_input_follows_the_contract_shape(store: Store) -> None:
     }
 
 
-def test_a_new_circuit_copies_device_and_cables_but_not_readings(store: Store) -> None:
+def test_a_new_circuit_copies_what_a_board_shares_but_not_rating_sizes_or_readings(store: Store) -> None:
     circuit_id = make_circuit(store)
     board_id = store.circuits.get(circuit_id)["board_id"]
     second = store.circuits.get(store.circuits.add(board_id, "2", "radial"))
-    assert second["fields"]["device_rating"]["raw"] == "32"
-    assert second["fields"]["cpc_csa"]["raw"] == "1.5"
-    assert second["fields"]["zs"]["raw"] == ""
+    assert (second["fields"]["device_kind"]["raw"], second["fields"]["device_curve"]["raw"]) == ("mcb", "B")
+    assert second["fields"]["line_insulation"]["raw"] == "thermoplastic-70"
+    for own in ("device_rating", "line_csa", "cpc_csa", "zs"):
+        assert second["fields"][own]["raw"] == "", own
     assert second["verdict"] == "not-shown"
     assert [c["number"] for c in store.circuits.of_board(board_id)] == ["1", "2"]
 
@@ -193,6 +194,8 @@ def test_list_jobs_counts_verdicts_and_searches(store: Store) -> None:
     board_id = store.circuits.get(circuit_id)["board_id"]
     store.circuits.add(board_id, "2")
     failing = store.circuits.add(board_id, "3")
+    for name in ("device_rating", "line_csa", "cpc_csa"):  # not copied from circuit 1
+        store.circuits.set_field(failing, name, B32_RING[name])
     store.circuits.set_field(failing, "zs", "5")
     other = store.jobs.create({"client_ref": "100%_sure", "site_address": "Quay"})
     (row,) = store.jobs.all("T-1")
@@ -363,3 +366,16 @@ def test_the_after_commit_hook_runs_once_per_committed_write(store: Store) -> No
     after_commit(store.db, None)
     store.jobs.set_field(job_id, "site_address", "3 Lane")
     assert len(calls) == 2
+
+
+def test_preview_assesses_typed_text_and_writes_nothing(store: Store) -> None:
+    circuit_id = make_circuit(store)
+    before = store.circuits.get(circuit_id)
+    # B32 on IEC 60898-1: instantaneous at 5 In = 160 A, so Zs 13 Ω (If ≈ 17 A) does not clear in 0.4 s
+    preview = store.circuits.preview(circuit_id, {"zs": "13"})
+    assert preview["verdict"] == "fail"
+    assert preview["fields"]["zs"] == {"raw": "13", "value": 13.0, "error": None}
+    typo = store.circuits.preview(circuit_id, {"zsc": "0,4x"})
+    assert typo["fields"]["zsc"]["value"] is None and typo["fields"]["zsc"]["error"]
+    assert typo["verdict"] == "not-shown"  # a reading that does not parse leaves the verdict open
+    assert store.circuits.get(circuit_id) == before

@@ -119,12 +119,14 @@ def test_save_error_keeps_typed_text(store) -> None:
     assert view.save_error is not None and view.save_error.startswith("Not saved")
 
 
-def test_second_circuit_copies_the_first_ones_device(store) -> None:
+def test_second_circuit_copies_the_first_ones_device_kind_and_curve_not_rating_or_sizes(store) -> None:
     job, first = new_circuit(store)
     fill_to_readings(Walk(store, first))
     second = job.add_circuit(job.boards()[0].id)
     walk = Walk(store, second)
-    assert walk.raw("device_rating") == "32"
+    assert (walk.raw("device_kind"), walk.raw("device_curve")) == ("mcb", "B")
+    assert walk.raw("line_insulation") == "thermoplastic-70"
+    assert (walk.raw("device_rating"), walk.raw("line_csa"), walk.raw("cpc_csa")) == ("", "", "")
     assert walk.raw("zs") == ""
     assert walk.title.startswith("Circuit 2 ")
 

@@ -1,5 +1,5 @@
-"""Circuits: added with the previous circuit's device and cables, saved field by field with the raw
-text kept, reassessed by the calculation core in the same transaction."""
+"""Circuits: added with what a board's circuits share copied from the previous one, saved field by
+field with the raw text kept, reassessed by the calculation core in the same transaction."""
 
 from __future__ import annotations
 
@@ -13,15 +13,15 @@ from mobile_app.store.core import Core, now_iso
 from mobile_app.store.fields import (
     BOARD_SUPPLY_FIELDS,
     CIRCUIT_FIELDS,
-    CIRCUIT_OWN_FIELDS,
     RECORD_ONLY_CIRCUIT_FIELDS,
+    SHARED_CIRCUIT_FIELDS,
     SUPPLY_FIELDS,
 )
 from mobile_app.store.library import Library
 from mobile_app.store.rows import check_version, fields_of, parse, saved, set_clause
 from mobile_app.store.settings import Settings
 
-COPIED_TO_NEXT_CIRCUIT = tuple(f for f in CIRCUIT_FIELDS if f not in CIRCUIT_OWN_FIELDS)
+COPIED_TO_NEXT_CIRCUIT = SHARED_CIRCUIT_FIELDS
 # the fields of each row whose parse error leaves a circuit's assessment not shown
 _ASSESSED = {
     "job": SUPPLY_FIELDS,
@@ -39,7 +39,9 @@ class Circuits:
         self.settings = settings
 
     def add(self, board_id: int, number: str, description: str = "", by: int | None = None) -> int:
-        """Add a circuit; device and cables are copied from the board's previous circuit."""
+        """Add a circuit; what a board's circuits share (`COPIED_TO_NEXT_CIRCUIT`: the kind and curve
+        of device, breaking capacity, RCD, the cables' materials and insulation, the wiring) is copied
+        from the board's previous circuit, not its rating, sizes or readings."""
         with self.core.write() as conn:
             board = self.core.row("board", board_id)
             job = self.core.draft_job(board["job_id"])
@@ -157,6 +159,24 @@ class Circuits:
                 self.core.audit(conn, job["id"], by, "circuit", circuit_id, name, old, parsed.raw)
                 self.core.touch_job(conn, job["id"])
         return dict(saved(parsed, name, version), verdict=verdict)
+
+    def preview(self, circuit_id: int, typed: dict[str, str]) -> dict[str, Any]:
+        """What the circuit would be with the fields in `typed` saved as typed, written nowhere: each
+        typed field parsed (`fields`: {name: {"raw", "value", "error"}}), and the `verdict` and
+        `assessment` the calculation core gives it (the live verdict while a person types)."""
+        circuit = self.core.row("circuit", circuit_id)
+        board = self.core.row("board", circuit["board_id"])
+        job = self.core.row("job", board["job_id"])
+        fields: dict[str, dict[str, Any]] = {}
+        for name, raw in typed.items():
+            parsed = parse("circuit", name, raw, self.library)
+            circuit.update({f"{name}_raw": parsed.raw, f"{name}_value": parsed.value,
+                            f"{name}_error": parsed.error})
+            fields[name] = {"raw": parsed.raw, "value": parsed.value, "error": parsed.error}
+        outcome = self.assess(job, board, circuit)
+        assessment = json.loads(outcome.assessment_json) if outcome.assessment_json else None
+        return {"fields": fields, "verdict": outcome.verdict, "assessment": assessment,
+                "assessment_error": outcome.error}
 
     def calc_input(self, circuit_id: int) -> dict[str, Any]:
         """The dict given to `calc.assess` for this circuit (the job's supply and the circuit)."""

@@ -9,6 +9,7 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
+from mobile_app.store.circuits import COPIED_TO_NEXT_CIRCUIT
 from mobile_app.store.demo_data import (
     BOARDS,
     DEMO_CURVE_NAME,
@@ -20,7 +21,11 @@ from mobile_app.store.demo_data import (
     PEOPLE,
 )
 from mobile_app.store.errors import StoreError
+from mobile_app.store.fields import READING_FIELDS
 from mobile_app.store.store import Store
+
+_OWN = ("number", "description", "points_served", "length_m", "ring", *READING_FIELDS)
+"""A demo circuit's own fields; the rest, when not given, are the previous circuit's (as typed)."""
 
 __all__ = ["BOARDS", "DEMO_CURVE_NAME", "DEMO_PIN", "JOB", "cli_demo", "create_demo_job"]
 
@@ -52,9 +57,12 @@ def _add_job(store: Store, recorder: int, curve_id: int) -> int:
         board_id = store.boards.add(job_id, designation, location, supplied_from, by=recorder)
         for name, raw in board_fields.items():
             store.boards.set_field(board_id, name, raw, by=recorder)
-        for number, description, fields in circuits:
+        previous: dict[str, str] = {}
+        for number, description, given in circuits:
             circuit_id = store.circuits.add(board_id, number, description, by=recorder)
             circuit_ids[(designation, number)] = circuit_id
+            fields = {n: r for n, r in previous.items() if n not in COPIED_TO_NEXT_CIRCUIT} | given
+            previous = {n: r for n, r in fields.items() if n not in _OWN}
             for name, raw in fields.items():
                 if name == "device_kind" and raw == "curve":
                     store.circuits.set_field(circuit_id, "library_device_id", str(curve_id), by=recorder)

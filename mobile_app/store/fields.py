@@ -110,8 +110,29 @@ TEST_FIELDS = (
 """The circuit's tests beyond its loop readings (continuity, insulation, polarity, the RCD's)."""
 READING_FIELDS = ("zs", "zsc", "r1r2", "ze", "test_temp_c", *TEST_FIELDS)
 """What is measured on each circuit: never copied to the next circuit added."""
-CIRCUIT_OWN_FIELDS = ("number", "description", "points_served", "length_m", "ring", *READING_FIELDS)
-"""A circuit's own fields: the rest (device, cables, wiring) is copied to the next circuit added."""
+SHARED_CIRCUIT_FIELDS = (
+    "role",
+    "device_kind",
+    "device_curve",
+    "breaking_capacity",
+    "rcd_idn",
+    "rcd_type",
+    "rcd_waveform",
+    "rcd_additional",
+    "line_material",
+    "line_insulation",
+    "cpc_material",
+    "cpc_arrangement",
+    "cpc_insulation",
+    "cpc_bunched",
+    "cpc_protected",
+    "wiring_type",
+    "reference_method",
+    "selv",
+)
+"""What a board's circuits usually share (the kind and curve of device, its breaking capacity and RCD,
+the cables' materials, insulation and wiring): copied to the next circuit added. The rating, the
+sizes, a library device and its let-through figure differ from circuit to circuit and are not."""
 RECORD_ONLY_CIRCUIT_FIELDS = ("number", "description", "points_served", "wiring_type", "reference_method")
 """Circuit fields that are recorded and printed but not used by the calculation."""
 SUPPLY_FIELDS = ("system", "u0", "cmin", "ze", "pfc")
