@@ -15,7 +15,8 @@ from typing import Any
 
 import flet as ft
 
-from mobile_app.components.palette import app_theme, theme_mode
+from mobile_app.components.palette import FONTS, app_theme, theme_mode
+from mobile_app.state.recorder import Recorder
 from mobile_app.state.recovery import Recovery
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.walk import Walk
@@ -44,14 +45,26 @@ class Shell:
         self.page.show_dialog(ft.SnackBar(ft.Text(message), duration=2500))
 
     def walk(self, circuit_id: int, step: str) -> Walk:
-        """The walk state of a circuit, kept for the session so unsaved text survives step changes."""
+        """The walk state of a circuit, kept for the session so unsaved text survives step changes;
+        its saves are recorded under the person recording on this device."""
         walk = self._walks.get(circuit_id)
         if walk is None:
             walk = self._walks[circuit_id] = Walk(self.store, circuit_id, step)
         else:
             walk.step = step
             walk.reload()
+        walk.by = Recorder(self.store).person_id
         return walk
+
+    def save_typed(self) -> None:
+        """Save what was typed and not saved yet on any walk of the session (the screen is being
+        left, or the browser tab closed)."""
+        for walk in self._walks.values():
+            if walk.unsaved:
+                try:
+                    walk.save()
+                except StoreError as exc:
+                    print(f"Boardside: typed text not saved: {exc}", file=sys.stderr)
 
     def session_value(self, key: str, factory: Callable[[], Any]) -> Any:
         """A state object kept for the session (e.g. a curve being entered), made on first use."""
@@ -73,6 +86,7 @@ class Shell:
         Each build gets a fresh View key, so Flet adds the new tree instead of diffing it against the
         old one by control keys (a keyed diff would freeze the new controls and refuse later updates).
         """
+        self.save_typed()
         try:
             view = route_view(self, self.page.route or "/")
         except NotFoundError as exc:
@@ -140,12 +154,14 @@ def make_main(store: Any) -> Callable[[ft.Page], None]:
 
     def main(page: ft.Page) -> None:
         page.title = "Boardside"
+        page.fonts = FONTS
         page.theme = app_theme()
         page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
         shell = Shell(page, store, recovery)
         shell.apply_theme()
         page.on_route_change = lambda _e: shell.render()
+        page.on_disconnect = lambda _e: shell.save_typed()
         shell.render()
 
     return main

@@ -12,6 +12,7 @@ from mobile_app.state import JobScreen, JobsList, Walk
 from mobile_app.state.entry import UNITS, join_unit, quick_picks, shorthand, split_unit
 from mobile_app.state.live import live_verdict, shorten
 from mobile_app.state.pending import PAUSE_S
+from mobile_app.state.walk import SaveResult
 from mobile_app.store import Store
 
 
@@ -154,6 +155,17 @@ def test_a_save_over_another_tabs_change_keeps_both_and_asks(store) -> None:
     mine.keep_mine("zs")
     assert store.circuits.get(mine.circuit_id)["fields"]["zs"]["raw"] == "0.62"
     assert mine.field("zs").conflict is None
+
+
+def test_a_pause_with_nothing_due_does_not_read_a_newer_version(store) -> None:
+    clock = Clock()
+    mine = b32_circuit(store, clock)
+    mine.edit("zs", "0.6")
+    Walk(store, mine.circuit_id).set_field("zs", "0.71")
+    assert mine.save_due() == SaveResult()  # an earlier keystroke's timer: not due yet, nothing read
+    mine.edit("zs", "0.62")
+    clock.now += PAUSE_S + 0.01
+    assert mine.save_due().conflicts == ("zs",)
 
 
 def test_taking_theirs_gives_up_the_typed_text(store) -> None:

@@ -26,9 +26,10 @@ def screen(
     tab: int | None = None,
     actions: list[ft.Control] | None = None,
     bottom: ft.Control | None = None,
+    bottom_height: int = 80,
 ) -> ft.View:
     """A View: AppBar (up arrow when `back` is a route), the body in a column (narrower on wide
-    screens), tabs or a bottom bar."""
+    screens), tabs or a bottom bar (`bottom_height` tall, pinned above the on-screen keyboard)."""
     leading = (
         ft.IconButton(ft.Icons.ARROW_BACK, tooltip="Up one level", on_click=lambda _e: go(back), key="up")
         if back
@@ -73,7 +74,7 @@ def screen(
             )
         ],
         navigation_bar=navigation,
-        bottom_appbar=ft.BottomAppBar(bottom, height=80, padding=8) if bottom else None,
+        bottom_appbar=ft.BottomAppBar(bottom, height=bottom_height, padding=8) if bottom else None,
         scroll=ft.ScrollMode.AUTO,
         padding=0,
         horizontal_alignment=ft.CrossAxisAlignment.CENTER,

@@ -1,4 +1,4 @@
-"""A text or number input that saves on every change and shows the parsed value or the error."""
+"""A text or number input that shows the parsed value or the error as it is typed."""
 
 from __future__ import annotations
 
@@ -20,8 +20,15 @@ def text_input(
     read_only: bool = False,
     password: bool = False,
     multiline: bool = False,
+    autofocus: bool = False,
+    on_focus: Callable[[], None] | None = None,
+    on_blur: Callable[[], None] | None = None,
+    on_submit: Callable[[], None] | None = None,
+    expand: bool | None = None,
 ) -> ft.TextField:
-    """A TextField; `on_change(text)` saves and returns (helper text, error message or None)."""
+    """A TextField; `on_change(text)` keeps (or saves) it and returns (helper text, error or None).
+    Numbers are typed on the numeric keyboard; `on_blur` runs when the field is left and
+    `on_submit` on the keyboard's action key."""
 
     def changed(e: ft.Event[ft.TextField]) -> None:
         shown, problem = on_change(e.control.value or "")
@@ -46,4 +53,9 @@ def text_input(
         multiline=multiline,
         min_lines=3 if multiline else None,
         max_lines=8 if multiline else None,
+        autofocus=autofocus,
+        on_focus=(lambda _e: on_focus()) if on_focus else None,
+        on_blur=(lambda _e: on_blur()) if on_blur else None,
+        on_submit=(lambda _e: on_submit()) if on_submit else None,
+        expand=expand,
     )

@@ -1,4 +1,5 @@
-"""A verdict as icon + word on a solid colour: never colour alone."""
+"""A verdict as icon + word: never colour alone, and never shaped like a button (it does nothing
+when tapped): a flat, square-cornered tag with no shadow, smaller than any button beside it."""
 
 from __future__ import annotations
 
@@ -9,19 +10,19 @@ from mobile_app.state.text import VerdictMark
 
 
 def verdict_badge(mark: VerdictMark, size: int = 16, key: str | None = None) -> ft.Container:
-    """A rounded badge: icon and word, white on the verdict's colour."""
+    """A flat tag: icon and word, white on the verdict's colour, square corners."""
     background, foreground = tone(mark.tone)
     return ft.Container(
         key=key,
         content=ft.Row(
             [
-                ft.Icon(getattr(ft.Icons, mark.icon), color=foreground, size=size + 4),
+                ft.Icon(getattr(ft.Icons, mark.icon), color=foreground, size=size + 2),
                 ft.Text(mark.word, color=foreground, size=size, weight=ft.FontWeight.BOLD),
             ],
-            spacing=6,
+            spacing=4,
             tight=True,
         ),
         bgcolor=background,
-        border_radius=8,
-        padding=ft.Padding.symmetric(horizontal=10, vertical=6),
+        border_radius=3,
+        padding=ft.Padding.symmetric(horizontal=6, vertical=2),
     )

@@ -42,6 +42,8 @@ UNITS: dict[str, Units] = {
     "breaking_capacity": _KILOAMPS,
     "let_through_at": _KILOAMPS,
     "pfc": _KILOAMPS,
+    "insulation_line_line": Units(("MΩ",), "MΩ", "MΩ"),
+    "insulation_line_earth": Units(("MΩ",), "MΩ", "MΩ"),
 }
 """Fields that take a number in one of several units (the first chip is the usual one)."""
 
@@ -50,7 +52,7 @@ _NUMBER = re.compile(r"^\s*(>?\s*\d+(?:[.,]\d*)?|>?\s*[.,]\d+)\s*(.*?)\s*$")
 
 
 def units_for(name: str) -> Units | None:
-    """The unit chips of a field, or None for a field with one unit (shown as a suffix) or none."""
+    """The unit chips of a field, or None for a field whose label names its one unit (or none)."""
     return UNITS.get(name)
 
 
@@ -124,8 +126,11 @@ def picked(name: str, raws: dict[str, str]) -> str | None:
     return None
 
 
+_SIZE_UNITS = re.compile(r"\s*(mm²|mm2|mm|A)$")
+
+
 def _same_number(raw: str, text: str) -> bool:
-    a, b = raw.strip().replace(",", "."), text.strip().replace(",", ".")
+    a, b = (_SIZE_UNITS.sub("", t.strip()).replace(",", ".") for t in (raw, text))
     if a == b:
         return True
     try:

@@ -66,13 +66,20 @@ class FieldView:
 
 @dataclass(frozen=True)
 class SaveResult:
-    """What a save did: fields saved, fields now in conflict, and whether the step must be drawn
-    again (a shorthand filled other fields, a choice showed or hid some, or another tab's save was
+    """What a save did: fields saved, fields now in conflict, fields the store refused (their text
+    kept, the reason at the field), and whether the step must be drawn again (a shorthand filled
+    other fields, a choice showed or hid some, a reason is to be shown, or another tab's save was
     taken in)."""
 
     saved: tuple[str, ...] = ()
     conflicts: tuple[str, ...] = ()
     redraw: bool = False
+    failed: tuple[str, ...] = ()
+
+    @property
+    def anything(self) -> bool:
+        """Whether the save did or refused anything a screen must show."""
+        return bool(self.saved or self.conflicts or self.failed)
 
 
 def field_message(name: str, error: str | None) -> str | None:
@@ -284,7 +291,7 @@ class Walk:
         """A choice tapped: saved at once; the step is drawn again from what was saved."""
         self.pending.edit(name, value, self.stored(name), self.clock())
         result = self.save([name])
-        return SaveResult(result.saved, result.conflicts, True)
+        return SaveResult(result.saved, result.conflicts, True, result.failed)
 
     def fill(self, pick: QuickPick) -> SaveResult:
         """A quick pick tapped: each field it fills saved at once."""
@@ -292,7 +299,7 @@ class Walk:
             self.pending.edit(name, text, self.stored(name), self.clock())
             self._chips.pop(name, None)
         result = self.save([name for name, _text in pick.fills])
-        return SaveResult(result.saved, result.conflicts, True)
+        return SaveResult(result.saved, result.conflicts, True, result.failed)
 
     def set_field(self, name: str, raw: str) -> FieldView:
         """Type and save one field at once (what a pause or leaving the field does)."""
@@ -310,8 +317,11 @@ class Walk:
         the screen showed; a failed save keeps the text and says why."""
         wanted = [n for n in (self.pending.names() if names is None else names)
                   if n in self.pending.text and n not in self.pending.conflicts]
+        if not wanted:  # nothing read again either: the screen still shows the version it showed
+            return SaveResult()
         saved: list[str] = []
         conflicts: list[str] = []
+        failed: list[str] = []
         redraw = False
         for name in wanted:
             expansion = self._expansion(name)
@@ -323,14 +333,16 @@ class Walk:
                 self.pending.done(name)
             elif outcome == "conflict":
                 conflicts.append(name)
+            elif outcome == "failed":
+                failed.append(name)
             redraw = redraw or outcome == "merged"
             if outcome == "merged":
                 saved.append(name)
                 self.pending.done(name)
         before = self.version
         self.reload()
-        redraw = redraw or bool(conflicts) or self.version != before
-        return SaveResult(tuple(saved), tuple(conflicts), redraw)
+        redraw = redraw or bool(conflicts) or bool(failed) or self.version != before
+        return SaveResult(tuple(saved), tuple(conflicts), redraw, tuple(failed))
 
     def _save_one(self, name: str, fills: dict[str, str]) -> str:
         """Save one typed field (or what its shorthand stands for): `saved`, `merged` (the circuit
@@ -380,7 +392,7 @@ class Walk:
         self.reload()
         self.pending.base[name] = self.stored(name)
         result = self.save([name])
-        return SaveResult(result.saved, result.conflicts, True)
+        return SaveResult(result.saved, result.conflicts, True, result.failed)
 
     def take_theirs(self, name: str) -> SaveResult:
         """Settle a conflict for the other save: the typed text is given up."""

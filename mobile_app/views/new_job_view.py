@@ -1,4 +1,5 @@
-"""New job: client reference and site; supply defaults come from the settings."""
+"""New job: client reference and site, and who is recording on this device; supply defaults come from
+the settings."""
 
 from __future__ import annotations
 
@@ -8,15 +9,21 @@ import flet as ft
 
 from mobile_app.components.screen import screen
 from mobile_app.state.jobs import JobsList
+from mobile_app.state.recorder import Recorder
 
 
 def build(shell: Any) -> ft.View:
     """The new-job form."""
+    recorder = Recorder(shell.store)
     reference = ft.TextField(key="new-client-ref", label="Client reference", autofocus=True)
     site = ft.TextField(key="new-site", label="Site address")
+    name = ft.TextField(key="new-recorder", label="Your name (kept with each change you save)",
+                        value=recorder.name)
 
     def create(_e: Any) -> None:
-        job_id = JobsList(shell.store).new_job(reference.value or "", site.value or "")
+        recorder.set(name.value or "")
+        job_id = JobsList(shell.store).new_job(reference.value or "", site.value or "",
+                                               by=recorder.person_id)
         shell.go(f"/job/{job_id}")
 
     body: list[ft.Control] = [
@@ -24,6 +31,7 @@ def build(shell: Any) -> ft.View:
                 size=14),
         reference,
         site,
+        name,
         ft.FilledButton("Create job", icon=ft.Icons.CHECK, key="create-job", height=48,
                         on_click=create),
     ]
