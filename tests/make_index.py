@@ -1,4 +1,5 @@
-"""Write assets/index.html: the web client's own page from flet-web, with our name and description.
+"""Write assets/index.html: the web client's own page from flet-web, with our name and description,
+and our script asking phones for the decimal keypad on number fields (assets/decimal-keys.js).
 
 Flet serves an index.html found in the assets folder instead of its own (and patches both alike), so
 the browser tab and the home-screen name say Boardside before the first frame paints. The page also
@@ -16,6 +17,7 @@ import flet_web
 
 NAME = "Boardside"
 DESCRIPTION = "Walk each circuit from measured Zs to a verdict, with the working shown."
+DECIMAL_KEYS = '<script src="decimal-keys.js"></script>'
 
 
 def flet_web_index() -> str:
@@ -24,9 +26,12 @@ def flet_web_index() -> str:
 
 
 def patched_index(text: str) -> str:
-    """flet-web's index.html with our title, description and home-screen name, loading guard.js first."""
+    """flet-web's index.html with our title, description and home-screen name, loading guard.js first
+    and decimal-keys.js before the client starts."""
     text = re.sub(r"(<base [^>]*>\n)", r'\1  <script src="guard.js"></script>\n', text, count=1)
     text = re.sub(r"<title>.*?</title>", f"<title>{NAME}</title>", text)
+    text = text.replace('<script src="flutter_bootstrap.js"',
+                        f'{DECIMAL_KEYS}\n  <script src="flutter_bootstrap.js"', 1)
     text = re.sub(r'(<meta name="description" content=")[^"]*(">)', rf"\g<1>{DESCRIPTION}\g<2>", text)
     return re.sub(r'(<meta name="apple-mobile-web-app-title" content=")[^"]*(">)', rf"\g<1>{NAME}\g<2>", text)
 
