@@ -6,6 +6,8 @@
   baseline: from typing into the jobs search to the list's answer.
 - memory: the server's RSS (its whole process group) with the demo job open (target 250 MB);
   baseline: the same server before any browser connects.
+- entry: taps and keystrokes to record a typical final circuit after a B32 one (rating, cable pair,
+  R1+R2, Zs; target 6 taps and 12 keystrokes), counted as `tests/test_e2e_entry.py` counts them.
 Medians of several runs. Run: `.venv/bin/python tests/bench_app.py`.
 """
 
@@ -21,6 +23,7 @@ from pathlib import Path
 
 sys.path[:0] = [str(Path(__file__).resolve().parent), str(Path(__file__).resolve().parent.parent)]
 
+from test_e2e_entry import TARGET_KEYS, TARGET_TAPS, enter_typical_circuit  # noqa: E402
 from test_e2e_walk import (  # noqa: E402
     CHROMIUM,
     CHROMIUM_ARGS,
@@ -127,6 +130,11 @@ def main() -> int:
                 for name, raw in (("device_curve", "B"), ("device_rating", "32"),
                                   ("line_csa", "2.5"), ("cpc_csa", "1.5")):
                     walk.set_field(name, raw)
+                entry_job = JobScreen(store, JobsList(store).new_job("Bench entry"))
+                first = Walk(store, entry_job.add_circuit(entry_job.boards()[0].id))
+                for name, raw in (("device_curve", "B"), ("device_rating", "32"),
+                                  ("line_csa", "2.5"), ("cpc_csa", "1.5")):
+                    first.set_field(name, raw)
             page = browser.new_context(viewport={"width": 390, "height": 844}).new_page()
             open_app(page, f"http://127.0.0.1:{port}/job/{job}")
             page.get_by_text("Boards and circuits").first.wait_for(timeout=30000)
@@ -145,6 +153,8 @@ def main() -> int:
             open_app(page, f"http://127.0.0.1:{port}/")
             for i in range(RUNS + 2):
                 echoes.append(round_trip_ms(page, "Search jobs", f"zz{i}q", "No jobs match."))
+            hands = enter_typical_circuit(page, f"http://127.0.0.1:{port}/job/{entry_job.job_id}",
+                                          shots=False)
         finally:
             stop_server(process)
         browser.close()
@@ -156,6 +166,8 @@ def main() -> int:
     print(f"reading→verdict  {verdict:6.0f} ms  (target 200 ms; search echo {echo:.0f} ms, "
           f"ratio {verdict / echo:.2f})")
     print(f"server RSS       {open_mb:6.0f} MB  (target 250 MB; idle before a browser {idle_mb:.0f} MB)")
+    print(f"typical circuit  {hands.taps:6d} taps, {hands.keys} keystrokes  (target {TARGET_TAPS} taps, "
+          f"{TARGET_KEYS} keystrokes; B32, 2.5/1.5, R1+R2 and Zs after a B32 circuit)")
     return 0
 
 

@@ -123,9 +123,10 @@ class Hands:
         self.keys += 1
 
 
-def test_a_typical_circuit_in_few_taps_and_keystrokes(site: Site, browser) -> None:
-    page = phone(browser)
-    open_app(page, f"{site.url}/job/{site.job_id}")
+def enter_typical_circuit(page, job_url: str, shots: bool = True) -> Hands:
+    """From a job's screen, add a circuit after a B32 one and record it as at the board: rating 32 A,
+    cable 2.5/1.5, R1+R2 0.31 Ω, Zs 0.62 Ω, on to the results; returns the hands that did it."""
+    open_app(page, job_url)
     see(page, "Boards and circuits")
     hands = Hands(page)
     hands.tap("Add circuit")
@@ -133,26 +134,36 @@ def test_a_typical_circuit_in_few_taps_and_keystrokes(site: Site, browser) -> No
     selected_chip(page, "B").wait_for(timeout=5000)  # the curve carried over from circuit 1
     hands.tap("32 A")
     see(page, "= 32.0 A")
-    shot(page, "40-entry-rating-chip")
+    if shots:
+        shot(page, "40-entry-rating-chip")
     hands.tap("Next")
     see(page, "Step 2 of 5")
     hands.tap("2.5/1.5")
     see(page, "= 1.50 mm²")
-    shot(page, "41-entry-cable-pair")
+    if shots:
+        shot(page, "41-entry-cable-pair")
     hands.tap("Next")
     see(page, "Step 3 of 5")
     page.wait_for_timeout(500)  # R1+R2 is focused when the step opens
     hands.type("0.31")
     see(page, "= 0.31 Ω")
-    shot(page, "42-entry-r1r2")
+    if shots:
+        shot(page, "42-entry-r1r2")
     hands.enter()  # the keyboard's action key: on to the live tests
     see(page, "Step 4 of 5")
     page.wait_for_timeout(500)  # Zs is focused
     hands.type("0.62")
     see(page, "= 0.62 Ω")
-    shot(page, "43-entry-zs")
+    if shots:
+        shot(page, "43-entry-zs")
     hands.enter()
     see(page, "Step 5 of 5")
+    return hands
+
+
+def test_a_typical_circuit_in_few_taps_and_keystrokes(site: Site, browser) -> None:
+    page = phone(browser)
+    hands = enter_typical_circuit(page, f"{site.url}/job/{site.job_id}")
     shot(page, "44-entry-results")
     circuit = stored(site, last_circuit(site, site.board_id))
     assert {k: circuit[k] for k in ("device_kind", "device_curve", "device_rating", "line_csa", "cpc_csa",

@@ -3,7 +3,9 @@ the keyboard; the last step shows the results.
 
 Typing is judged at once and saved after a short pause (a page task, no thread) or when the field
 is left; every way off the screen saves what was typed first. The fields are drawn from the walk's
-state only: a choice redraws the step from what was saved, never from a button's own idea of it.
+state only: after a choice or a save the step is drawn again from what was saved, never from a
+button's own idea of it; a field whose view did not change keeps its control (and the focus and
+the text being typed in it), the others are made anew.
 """
 
 from __future__ import annotations
@@ -27,6 +29,12 @@ from mobile_app.state.walk import FieldView, SaveResult, Walk
 from mobile_app.views import results_panel_view
 
 
+def _signature(view: FieldView, required: bool) -> tuple[Any, ...]:
+    """What a field's control shows: when it changes, the control is made anew."""
+    return (view.raw, view.unit, view.picked, view.conflict, view.message, view.choices, required,
+            view.expands)
+
+
 class _Step:
     """The controls of one step and what redraws them."""
 
@@ -36,6 +44,7 @@ class _Step:
         self.locked = locked
         self.base = base
         self.generation = 0
+        self.made: dict[str, tuple[tuple[Any, ...], ft.Control]] = {}
         self.fields = ft.Column(spacing=14, horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
         self.blockers = ft.Text("", color=ft.Colors.ERROR, size=14, key="walk-blockers")
         self.bar = ft.Container(content=live_bar(walk.live()))
@@ -48,12 +57,19 @@ class _Step:
         """Make the step's fields from the walk's state; the lead field is focused when the step
         first opens."""
         focus = self.walk.lead_field() if first and not self.locked else None
-        self.fields.controls = [self._control(view, focus) for view in self.walk.fields()]
+        controls = []
+        for view in self.walk.fields():
+            name, signature = view.spec.name, _signature(view, self.walk.required(view.spec))
+            made = self.made.get(name)
+            if made is None or made[0] != signature:
+                self.generation += 1
+                made = self.made[name] = (signature, self._control(view, focus))
+            controls.append(made[1])
+        self.fields.controls = controls
         self.refresh()
 
     def redraw(self) -> None:
-        """Draw the fields anew (new keys) in place, keeping the scroll."""
-        self.generation += 1
+        """Draw the fields again in place, keeping the scroll: changed ones with new keys."""
         self.draw()
         update_if_shown(self.fields)
 
@@ -65,11 +81,8 @@ class _Step:
         self.bar.content = live_bar(self.walk.live())
         update_if_shown(self.blockers, self.next, self.bar)
 
-    def after(self, result: SaveResult) -> None:
-        if result.redraw:
-            self.redraw()
-        else:
-            self.refresh()
+    def after(self, _result: SaveResult) -> None:
+        self.redraw()
 
     # acts
 
@@ -85,6 +98,9 @@ class _Step:
 
     def typed(self, name: str, text: str) -> tuple[str, str | None]:
         view = self.walk.edit(name, text)
+        made = self.made.get(name)
+        if made is not None:  # the control shows what was typed: keep it at the next redraw
+            self.made[name] = (_signature(view, self.walk.required(view.spec)), made[1])
         self.refresh()
         self.shell.page.run_task(self._save_after_pause)
         return view.parsed_text, view.message
@@ -104,7 +120,7 @@ class _Step:
 
     def _control(self, view: FieldView, focus: str | None) -> ft.Control:
         walk, name = self.walk, view.spec.name
-        key = f"field-{name}" + (f"-{self.generation}" if self.generation else "")
+        key = f"field-{name}-{self.generation}"
         if view.spec.kind == "choice":
             return choice_row(key, view.spec.label, view.choices, view.raw,
                               lambda value: self.after(walk.pick(name, value)), message=view.message,
