@@ -155,7 +155,7 @@ def test_the_page_asks_no_other_host_and_registers_only_our_worker(site) -> None
     assert "<title>Boardside</title>" in index and "<base" not in index
     assert re.findall(r'(?:src|href)="([^"]+)"', index) == [
         "icons/apple-touch-icon-192.png", "favicon.png", "manifest.json", "guard.js", "python.js", "boot.js",
-        "icons/loading-animation.png", "flutter_bootstrap.js"]
+        "icons/loading-animation.png", "decimal-keys.js", "flutter_bootstrap.js"]
     assert 'from "./pyodide/pyodide.mjs"' in (site.out / "python-worker.js").read_text(encoding="utf-8")
 
 

@@ -14,12 +14,13 @@ from typing import Any
 _state: dict[str, Any] = {}
 
 SCREEN_CONTROLS: tuple[str, ...] = (
-    "AnimationStyle", "AppBar", "Border", "BottomAppBar", "Button", "ButtonStyle", "Card", "Colors",
-    "Column", "Container", "CrossAxisAlignment", "FilledButton", "FontWeight", "Icon", "IconButton",
-    "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
+    "AnimationStyle", "AppBar", "Border", "BorderSide", "BottomAppBar", "Button", "ButtonStyle", "Card",
+    "Colors", "Column", "Container", "CrossAxisAlignment", "FilledButton", "FontWeight", "Icon",
+    "IconButton", "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
     "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar", "ProgressRing",
-    "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "SnackBar", "Text",
-    "TextButton", "TextField", "Theme", "ThemeMode", "View",
+    "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "Semantics", "SnackBar",
+    "Text", "TextButton", "TextField", "TextOverflow", "TextStyle", "TextTheme", "Theme", "ThemeMode",
+    "View",
 )
 """The Flet names the screens use (Flet imports each on first use; tests/test_webbuild.py keeps this
 list in step with mobile_app/views and mobile_app/components)."""

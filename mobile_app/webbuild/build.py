@@ -30,7 +30,8 @@ OWN_SCRIPTS = ("python.js", "python-worker.js", "boot.js")
 SNAPSHOT_CACHE = "boardside-snapshot-"
 """Name prefix of the cache where the page's Python worker keeps its start-up snapshot (python-worker.js),
 versioned by the runtime and both archives; the service worker keeps the current one only."""
-ASSET_FILES = ("manifest.json", "favicon.png", "guard.js", "rive-unavailable.js")
+ASSET_FILES = ("manifest.json", "favicon.png", "guard.js", "rive-unavailable.js", "decimal-keys.js",
+               "fonts/DejaVuSans.ttf", "fonts/LICENSE-DejaVu.txt")
 
 
 @dataclass(frozen=True)
