@@ -41,6 +41,8 @@ SPEC = {"role": "final", "device_kind": "mcb", "device_curve": "B", "device_rati
         "line_csa": "2.5", "line_material": "copper", "line_insulation": "thermoplastic-70",
         "cpc_csa": "1.5", "cpc_material": "copper", "cpc_arrangement": "in-cable",
         "zsc": "0.45", "r1r2": "0.3", "test_temp_c": "20"}
+NOT_SHARED = ("device_rating", "line_csa", "cpc_csa")
+"""Set on every circuit: a new circuit does not take its rating and sizes from the previous one."""
 
 
 def build_job(store: Store) -> int:
@@ -55,6 +57,8 @@ def build_job(store: Store) -> int:
         store.circuits.set_field(first, "zs", "0.62")
         for n in range(2, CIRCUITS_PER_BOARD + 1):
             circuit_id = store.circuits.add(board_id, str(n), f"Circuit {n} of board {b + 1}")
+            for name in NOT_SHARED:  # a new circuit takes only what a board's circuits share
+                store.circuits.set_field(circuit_id, name, SPEC[name])
             store.circuits.set_field(circuit_id, "zs", f"{0.4 + n / 40:.2f}")
     return job_id
 

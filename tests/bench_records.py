@@ -69,6 +69,8 @@ def build_job(store: Store) -> int:
         store.circuits.set_field(first, "zs", "0.62")
         for n in range(2, CIRCUITS_PER_BOARD + 1):
             circuit_id = store.circuits.add(board_id, str(n))
+            for name in ("device_rating", "line_csa", "cpc_csa"):  # not taken from the previous circuit
+                store.circuits.set_field(circuit_id, name, SPEC[name])
             store.circuits.set_field(circuit_id, "zs", f"{0.4 + n / 100:.2f}")
     return job_id
 

@@ -66,7 +66,14 @@ def prepare(folder: Path) -> list[int]:
             "cpc_csa": "1.5",
         }.items():
             store.circuits.set_field(first, name, raw)
-        return [first] + [store.circuits.add(board_id, str(n)) for n in (2, 3, 4)]
+        return [first] + [sized(store, store.circuits.add(board_id, str(n))) for n in (2, 3, 4)]
+
+
+def sized(store: Store, circuit_id: int) -> int:
+    """Give a new circuit the rating and sizes, which it does not take from the previous one."""
+    for name, raw in (("device_rating", "32"), ("line_csa", "2.5"), ("cpc_csa", "1.5")):
+        store.circuits.set_field(circuit_id, name, raw)
+    return circuit_id
 
 
 @pytest.mark.slow
@@ -138,7 +145,7 @@ def test_sigkill_during_supply_changes_leaves_every_circuit_assessed_with_the_sa
     with Store.open(tmp_path) as store:
         board_id = store.boards.of_job(1)[0]["id"]
         for number in range(5, 41):
-            store.circuits.set_field(store.circuits.add(board_id, str(number)), "r1r2", "0.2")
+            store.circuits.set_field(sized(store, store.circuits.add(board_id, str(number))), "r1r2", "0.2")
     chance = random.Random(4181)
     total_acked = 0
     for run in range(1, SUPPLY_KILLS + 1):
