@@ -76,6 +76,22 @@ def test_enqueue_twice_gives_the_same_entry(db, bundle):
     assert len(outbox.waiting()) == 1
 
 
+def test_a_newer_export_of_a_revision_replaces_the_one_waiting(db, tmp_path, bundle):
+    outbox = Outbox(db)
+    first = outbox.queue_export(bundle, 12, 1, now=T0)
+    outbox.mark_staging(first.id, ".half-uploaded.partial/")  # a stopped run left a folder
+    newer = make_bundle(tmp_path / "exports", "job12-ACME-rev1-2026-12-03", {"job12.json": b'{"a": 2}'})
+    second = outbox.queue_export(newer, 12, 1, now=T0)
+    assert second.replaced == (first.id,)
+    assert [row["id"] for row in outbox.due(T0, force=True)] == [second.id]
+    assert [row["id"] for row in outbox.staged()] == [first.id]  # still cleaned on the server
+    other_job = make_bundle(tmp_path / "exports", "job13", {"job13.json": b"{}"})
+    assert outbox.queue_export(other_job, 13, 1, now=T0).replaced == ()
+    later_revision = make_bundle(tmp_path / "exports", "job12-rev2", {"job12.json": b'{"r": 2}'})
+    assert outbox.queue_export(later_revision, 12, 2, now=T0).replaced == ()
+    assert len(outbox.waiting()) == 3
+
+
 def test_enqueue_refuses_unfinished_or_tampered_bundles(db, tmp_path, bundle):
     outbox = Outbox(db)
     (bundle / "manifest.json").unlink()

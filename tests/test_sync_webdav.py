@@ -175,7 +175,7 @@ def test_the_background_task_reports_a_missing_folder(tmp_path):
         report = wait_for(reports, lambda r: r.error_kind == "config")
     finally:
         task.stop()
-    assert report.error == "no office folder is set (sync_url)" and report.waiting == 1
+    assert report.error == "no office folder is set on this device" and report.waiting == 1
 
 
 @pytest.mark.skipif(shutil.which("openssl") is None, reason="needs the openssl command")

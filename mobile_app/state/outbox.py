@@ -1,55 +1,113 @@
-"""The outbox screen: exports waiting to be sent to the office, and what was sent."""
+"""The outbox screen: exports waiting to be sent to the office, and what was sent, when and where.
+
+It says what is true: with no office folder set nothing can be tried, so it says that (with the
+way to set one) and names no next try; an export of a job's revision replaces that revision's
+export still waiting instead of queuing a second copy; a sent export shows when it went and to
+which folder.
+"""
 
 from __future__ import annotations
 
+import datetime
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from mobile_app.store import StoreError
 from mobile_app.sync import Outbox, OutboxError
+from mobile_app.sync.outbox import iso, utc_now
+
+NO_FOLDER = "No office folder set"
+NO_FOLDER_DETAIL = ("Exports wait on this device until an office folder is set in Settings; "
+                    "nothing is tried before then.")
+
+
+def local_time(stamp: object) -> str:
+    """An ISO-8601 time as local time written out: `2 Dec 2026, 07:22 CET`; blank if none."""
+    if not stamp:
+        return ""
+    try:
+        moment = datetime.datetime.fromisoformat(str(stamp))
+    except ValueError:
+        return str(stamp)
+    if moment.tzinfo is None:
+        moment = moment.replace(tzinfo=datetime.UTC)
+    local = moment.astimezone()
+    return f"{local.day} {local:%b %Y, %H:%M} {local.tzname() or ''}".rstrip()
 
 
 @dataclass(frozen=True)
 class OutboxRow:
-    """One export in the outbox."""
+    """One export in the outbox: its name, the job and revision, and what happened to it.
+
+    `state` is "waiting" or "sent"; `when` says when it was queued or sent, `where` the folder it
+    went to (sent only), `problem` the last failure in plain words (waiting only).
+    """
 
     id: int
     title: str
     detail: str
-    sent: bool
+    state: str
+    when: str
+    where: str = ""
+    problem: str = ""
 
+    @property
+    def sent(self) -> bool:
+        """True once the office folder holds it, verified."""
+        return self.state == "sent"
 
-def _when(stamp: object) -> str:
-    """`2026-12-02T07:22:48.049+00:00` as `2026-12-02 07:22 UTC`."""
-    text = str(stamp or "")
-    return f"{text[:16].replace('T', ' ')} UTC" if len(text) >= 16 else text
-
-
-def _row(entry: dict[str, Any], sent: bool) -> OutboxRow:
-    name = entry.get("bundle_name") or entry.get("name") or f"Export {entry.get('id')}"
-    parts = [f"job {entry.get('job_id')}", f"revision {entry.get('revision')}"]
-    if sent and entry.get("sent_at"):
-        parts.append(f"sent {_when(entry['sent_at'])}")
-    if not sent and entry.get("last_error"):
-        parts.append(str(entry["last_error"]))
-    if not sent and entry.get("next_try_at"):
-        parts.append(f"next try {_when(entry['next_try_at'])}")
-    return OutboxRow(int(entry.get("id") or 0), str(name), " · ".join(parts), sent)
+    @property
+    def lines(self) -> list[str]:
+        """What the row says under its title, one line each."""
+        lines = [self.detail, self.when]
+        if self.where:
+            lines.append(f"to {self.where}")
+        if self.problem:
+            lines.append(self.problem)
+        return [line for line in lines if line]
 
 
 class OutboxState:
-    """Rows of the outbox, waiting first."""
+    """Rows of the outbox, waiting first, and what the screen says about the office folder."""
 
     def __init__(self, store: Any) -> None:
         self.store = store
         self.outbox = Outbox(store.db)
 
+    @property
+    def configured(self) -> bool:
+        """True when an office folder is set on this device."""
+        return bool(str(self.store.settings.get("sync_url", "") or "").strip())
+
+    @property
+    def notice(self) -> str | None:
+        """`No office folder set` when none is, else None."""
+        return None if self.configured else NO_FOLDER
+
+    def _waiting(self, entry: dict[str, Any]) -> OutboxRow:
+        when = f"queued {local_time(entry.get('queued_at'))}"
+        problem = ""
+        if self.configured and entry.get("last_error"):
+            tried = local_time(entry.get("last_try_at"))
+            problem = f"last try {tried} failed: {entry['last_error']}"
+            upcoming = entry.get("next_try_at")
+            if upcoming and str(upcoming) > iso(utc_now()):
+                problem += f"; next try after {local_time(upcoming)}"
+        elif not self.configured:
+            problem = "waits for an office folder"
+        return OutboxRow(int(entry["id"]), _title(entry), _detail(entry), "waiting", when, problem=problem)
+
+    @staticmethod
+    def _sent(entry: dict[str, Any]) -> OutboxRow:
+        where = str(entry.get("sent_to") or "")
+        return OutboxRow(int(entry["id"]), _title(entry), _detail(entry), "sent",
+                         f"sent {local_time(entry.get('sent_at'))}",
+                         where=where or f"the office folder, as {entry.get('remote_path')}")
+
     def rows(self) -> list[OutboxRow]:
-        """Waiting exports, then sent ones."""
-        waiting = [_row(e, False) for e in self.outbox.waiting()]
-        sent = [_row(e, True) for e in self.outbox.sent()]
-        return waiting + sent
+        """Waiting exports, then sent ones (most recent first)."""
+        return [self._waiting(e) for e in self.outbox.waiting()] + [self._sent(e) for e in self.outbox.sent()]
 
     def summary(self) -> str:
         """`2 waiting · 5 sent`."""
@@ -59,10 +117,16 @@ class OutboxState:
 
     def send_now(self) -> str:
         """Send every waiting export now; returns what happened in plain words."""
-        from mobile_app.sync import SyncError, load_target, sync_once
+        from mobile_app.sync import NotConfiguredError, SyncError, load_target, sync_once
 
+        if not self.outbox.waiting():
+            return "Nothing waits to be sent"
         try:
             report = sync_once(self.store, load_target(self.store), force=True)
+        except NotConfiguredError as exc:
+            if self.configured:
+                return f"Not sent: {exc}"
+            return f"Not sent: {NO_FOLDER.lower()}. Set the office folder in Settings first."
         except SyncError as exc:
             return f"Not sent: {exc}"
         if report.error:
@@ -70,7 +134,8 @@ class OutboxState:
         return f"{len(report.sent)} sent, {report.waiting} waiting"
 
     def export_job(self, job_id: int) -> str:
-        """Export a job's bundle (JSON, CSV, PDF) and queue it for the office."""
+        """Export a job's bundle (JSON, CSV, PDF) and queue it for the office; an export of the same
+        revision still waiting is replaced by it."""
         from mobile_app.export import export_bundle
 
         out_dir = Path(self.store.path).parent / "exports"
@@ -78,7 +143,18 @@ class OutboxState:
         try:
             bundle = export_bundle(self.store, job_id, out_dir)
             revision = int(self.store.jobs.get(job_id).get("revision") or 1)
-            self.outbox.enqueue(Path(bundle.path), job_id, revision)
+            queued = self.outbox.queue_export(Path(bundle.path), job_id, revision)
         except (StoreError, OutboxError, OSError, ValueError) as exc:
             return f"Not exported: {exc}"
-        return f"Exported {Path(bundle.path).name} to the outbox"
+        name = Path(bundle.path).name
+        if queued.replaced:
+            return f"Exported {name}: it replaces this revision's export that was waiting"
+        return f"Exported {name} to the outbox"
+
+
+def _title(entry: dict[str, Any]) -> str:
+    return str(entry.get("bundle_name") or f"Export {entry.get('id')}")
+
+
+def _detail(entry: dict[str, Any]) -> str:
+    return f"job {entry.get('job_id')} · revision {entry.get('revision')}"

@@ -5,7 +5,10 @@ Public surface:
     from mobile_app.sync import Outbox, sync_store
     outbox = Outbox(store.db)          # the outbox table in the store's database; takes the store's lock
     outbox.enqueue(bundle_dir, job_id, revision) -> id ; waiting() ; sent() ; due(now, force) ;
-    get(id) ; next_try_at() ; mark_sent(id) ; mark_failed(id, message, kind, next_try_at) ; last_error()
+    get(id) ; next_try_at() ; mark_sent(id, now, sent_to) ; mark_failed(id, message, kind, next_try_at) ;
+    last_error()
+    outbox.queue_export(bundle_dir, job_id, revision) -> Queued(id, replaced)   # a newer export of
+                                       # the same job and revision replaces one still waiting
     SyncTarget(url, user, password, timeout_s=30, ca_file=None)
     save_target(store, url, user, password) ; load_target(store) -> SyncTarget
     check_url(url) ; scrub(text, target)
@@ -51,6 +54,7 @@ if TYPE_CHECKING:
         BundleError,
         Outbox,
         OutboxError,
+        Queued,
         UnknownBundleError,
     )
     from mobile_app.sync.runner import (
@@ -92,6 +96,7 @@ if TYPE_CHECKING:
 _MODULE_OF = {
     "Outbox": "outbox",
     "OutboxError": "outbox",
+    "Queued": "outbox",
     "BundleError": "outbox",
     "UnknownBundleError": "outbox",
     "SyncLimits": "runner",
@@ -140,6 +145,7 @@ __all__ = [
     "Outbox",
     "OutboxError",
     "ProtocolError",
+    "Queued",
     "SecretError",
     "ServerError",
     "SlowServerError",

@@ -4,9 +4,12 @@ One row per bundle in the table `outbox` of the store's database (created here i
 where the bundle lies, its files with their sizes and SHA-256, the deterministic remote folder name
 (bundle name + the first 16 hex digits of the bundle hash, so the same bundle never lands under two
 names), its state (`waiting` or `sent`), attempts, next try time, the last error in plain words
-and its kind, when it was queued, last tried and sent, and the temporary folder on the server its
-upload went to while it was not yet moved into place (`staging`). All times are ISO-8601 UTC text of one
-fixed format, so they sort as text. Nothing here touches the network or deletes a file.
+and its kind, when it was queued, last tried and sent, where it was sent (`sent_to`: the office folder's
+address and the bundle's folder there), and the temporary folder on the server its upload went to
+while it was not yet moved into place (`staging`). A newer export of the same job and revision queued
+with `queue_export` replaces one still waiting (state `replaced`, `replaced_by` the newer row), so the
+office never receives two copies of one revision. All times are ISO-8601 UTC text of one fixed
+format, so they sort as text. Nothing here touches the network or deletes a file.
 
 Every use of the database takes the lock the store takes (`core.db_lock`), and every write is one of
 the store's write transactions, so threads sharing one Store never interleave their transactions.
@@ -50,7 +53,10 @@ _COLUMNS: dict[str, type] = {
     "last_try_at": str,
     "sent_at": str,
     "staging": str,
+    "sent_to": str,
+    "replaced_by": int,
 }
+_ADDED_SINCE = ("staging", "sent_to", "replaced_by")  # columns added after the table's first release
 
 
 class OutboxError(Exception):
@@ -100,6 +106,14 @@ def file_sha256(path: Path) -> str:
         for block in iter(lambda: fh.read(1 << 20), b""):
             digest.update(block)
     return digest.hexdigest()
+
+
+@dataclass(frozen=True)
+class Queued:
+    """What queuing an export did: its outbox id and the ids of the waiting rows it replaced."""
+
+    id: int
+    replaced: tuple[int, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -185,9 +199,12 @@ class Outbox:
         """Create the outbox table and its indexes if they are missing (and a column added since)."""
         with self._lock:
             if TABLE in self.db.table_names():
-                if "staging" not in self.db[TABLE].columns_dict:
+                missing = [c for c in _ADDED_SINCE if c not in self.db[TABLE].columns_dict]
+                if missing:
                     with write_transaction(self.db) as conn:
-                        conn.execute(f"ALTER TABLE {TABLE} ADD COLUMN staging TEXT")
+                        for column in missing:
+                            kind = "INTEGER" if _COLUMNS[column] is int else "TEXT"
+                            conn.execute(f"ALTER TABLE {TABLE} ADD COLUMN {column} {kind}")
                 return
             with write_transaction(self.db):
                 if TABLE in self.db.table_names():
@@ -238,6 +255,21 @@ class Outbox:
                 "queued_at": iso(now or utc_now()),
             }).last_pk)
 
+    def queue_export(self, bundle_dir: Path, job_id: int, revision: int,
+                     now: datetime | None = None) -> Queued:
+        """Queue a job's new export: like `enqueue`, and any other export of the same job and
+        revision still waiting is marked `replaced` by it (it is not sent; a temporary folder its
+        upload left on the server is still cleaned up). An export already sent stays as it was."""
+        with write_transaction(self.db) as conn:
+            entry_id = self.enqueue(bundle_dir, job_id, revision, now)
+            older = [int(row["id"]) for row in self._rows(
+                "status = 'waiting' and job_id = ? and revision = ? and id != ?",
+                [job_id, revision, entry_id], order_by="id")]
+            for old_id in older:
+                conn.execute(f"UPDATE {TABLE} SET status = 'replaced', replaced_by = ?, next_try_at = NULL"
+                             " WHERE id = ?", (entry_id, old_id))
+        return Queued(entry_id, tuple(older))
+
     def get(self, entry_id: int) -> dict[str, Any]:
         """One outbox row as a dict; raises UnknownBundleError."""
         rows = self._rows("id = ?", [entry_id])
@@ -264,13 +296,13 @@ class Outbox:
         """The earliest next try time of the waiting rows, or None when nothing waits."""
         return self._scalar(f"select min(next_try_at) from {TABLE} where status = 'waiting'")
 
-    def mark_sent(self, entry_id: int, now: datetime | None = None) -> None:
-        """Record that a bundle arrived whole and was verified."""
+    def mark_sent(self, entry_id: int, now: datetime | None = None, sent_to: str | None = None) -> None:
+        """Record that a bundle arrived whole and was verified (at `sent_to`, its folder's address)."""
         moment = iso(now or utc_now())
         with write_transaction(self.db):
             self.db[TABLE].update(entry_id, {
                 "status": "sent", "sent_at": moment, "last_try_at": moment, "staging": None,
-                "last_error": None, "last_error_kind": None, "next_try_at": None})
+                "last_error": None, "last_error_kind": None, "next_try_at": None, "sent_to": sent_to})
 
     def mark_staging(self, entry_id: int, staging: str | None) -> None:
         """Record where on the server a bundle is being uploaded before it is moved into place
@@ -279,8 +311,9 @@ class Outbox:
             self.db[TABLE].update(entry_id, {"staging": staging})
 
     def staged(self) -> list[dict[str, Any]]:
-        """Waiting rows that may have left a temporary upload folder on the server."""
-        return self._rows("status = 'waiting' and staging is not null", order_by="id")
+        """Rows not sent (waiting or replaced) that may have left a temporary upload folder on the
+        server."""
+        return self._rows("status in ('waiting', 'replaced') and staging is not null", order_by="id")
 
     def mark_failed(self, entry_id: int, message: str, kind: str, next_try_at: datetime,
                     now: datetime | None = None) -> None:

@@ -235,9 +235,14 @@ def _send_one(run: _Run, row: dict[str, Any], rest: list[dict[str, Any]]) -> boo
         run.fail(rest, exc)
         return False
     else:
-        run.outbox.mark_sent(row["id"], utc_now())
+        run.outbox.mark_sent(row["id"], utc_now(), sent_to=sent_to(run.transport.target.url, row))
         run.report.sent.append(row["id"])
     return True
+
+
+def sent_to(url: str, row: dict[str, Any]) -> str:
+    """Where a bundle went: the office folder's address and the bundle's folder in it."""
+    return f"{url.rstrip('/')}/{row['remote_path']}/"
 
 
 def _stopped(run: _Run) -> None:

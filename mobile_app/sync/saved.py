@@ -127,6 +127,6 @@ def load_target(store: Any) -> SyncTarget:
     that cannot be opened here) or InsecureTargetError."""
     url = store.settings.get("sync_url") or ""
     if not url:
-        raise NotConfiguredError("no office folder is set (sync_url)")
+        raise NotConfiguredError("no office folder is set on this device")
     return SyncTarget(check_url(url), store.settings.get("sync_user") or "", load_password(store),
                       ca_file=store.settings.get("sync_ca_file") or None)

@@ -27,7 +27,7 @@ class SyncError(Exception):
 
 
 class NotConfiguredError(SyncError, LookupError):
-    """No office folder (sync_url) is set on this device."""
+    """No office folder is set on this device (setting `sync_url`)."""
 
 
 class SecretError(NotConfiguredError):

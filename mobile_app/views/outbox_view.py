@@ -1,4 +1,4 @@
-"""Outbox: exports waiting for the office, what was sent, and "send now" with progress."""
+"""Outbox: exports waiting for the office, what was sent (when and where), and "send now"."""
 
 from __future__ import annotations
 
@@ -7,14 +7,43 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.screen import screen
-from mobile_app.state.outbox import OutboxState
+from mobile_app.state.outbox import NO_FOLDER_DETAIL, OutboxRow, OutboxState
+
+
+def _row(row: OutboxRow) -> ft.Control:
+    return ft.ListTile(
+        key=f"outbox-{row.id}",
+        leading=ft.Icon(ft.Icons.CLOUD_DONE if row.sent else ft.Icons.SCHEDULE),
+        title=ft.Text(row.title, size=15),
+        subtitle=ft.Text(("Sent · " if row.sent else "Waiting · ") + "\n".join(row.lines), size=13),
+    )
+
+
+def _no_folder(shell: Any) -> ft.Control:
+    """The plain notice that nothing can be sent yet, with the way to change that."""
+    return ft.Container(
+        key="outbox-no-folder",
+        padding=12,
+        border_radius=8,
+        border=ft.Border.all(2, ft.Colors.OUTLINE),
+        content=ft.Column(
+            [
+                ft.Row([ft.Icon(ft.Icons.FOLDER_OFF_OUTLINED),
+                        ft.Text("No office folder set", size=16, weight=ft.FontWeight.BOLD)]),
+                ft.Text(NO_FOLDER_DETAIL, size=14),
+                ft.FilledButton("Set office folder", icon=ft.Icons.SETTINGS, height=48,
+                                key="set-office-folder", on_click=lambda _e: shell.go("/settings")),
+            ],
+            spacing=8,
+            tight=True,
+        ),
+    )
 
 
 def build(shell: Any) -> ft.View:
     """The outbox screen."""
     outbox = OutboxState(shell.store)
     busy = ft.ProgressRing(visible=False, width=28, height=28, key="outbox-busy")
-    message = ft.Text("", size=15, key="outbox-message")
 
     def send(_e: Any) -> None:
         busy.visible = True
@@ -30,21 +59,17 @@ def build(shell: Any) -> ft.View:
 
     send_button = ft.FilledButton("Send now", icon=ft.Icons.CLOUD_UPLOAD, height=48, key="send-now",
                                   on_click=send)
-    rows = outbox.rows()
-    listing: list[ft.Control] = [
-        ft.ListTile(
-            leading=ft.Icon(ft.Icons.CLOUD_DONE if r.sent else ft.Icons.SCHEDULE),
-            title=ft.Text(r.title, size=15),
-            subtitle=ft.Text(("Sent · " if r.sent else "Waiting · ") + r.detail, size=13),
-        )
-        for r in rows
-    ] or [ft.Text("Nothing waits. Export a job from its review screen to queue it here.", size=15)]
+    listing: list[ft.Control] = [_row(r) for r in outbox.rows()] or [
+        ft.Text("Nothing waits. Export a job from its review screen to queue it here.", size=15)]
     body: list[ft.Control] = [
         ft.Text(outbox.summary(), size=18, weight=ft.FontWeight.BOLD, key="outbox-summary"),
-        ft.Row([send_button, busy], spacing=12),
-        message,
+    ]
+    if outbox.configured:
+        body.append(ft.Row([send_button, busy], spacing=12))
+    else:
+        body.append(_no_folder(shell))
+    body += [
         *listing,
-        ft.Text("The office folder is set in Settings. Nothing on this device is deleted by sending.",
-                size=13),
+        ft.Text("Nothing on this device is deleted by sending.", size=13),
     ]
     return screen("/outbox", "Outbox", body, shell.go, tab=2)
