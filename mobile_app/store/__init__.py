@@ -23,6 +23,9 @@ Public surface:
     store.people     add(name, role, pin=None) -> id ; set_pin(person_id, pin) ; all() ; get(person_id)
     store.settings   get(key, default=None) ; set(key, value)
     store.library    add(name, points, rating_a=None) -> id ; all() ; find(device_id) -> dict | None
+                     users(device_id) -> the circuits using a saved curve
+    store.curves     update(device_id, name, points, rating_a=None, by=None) -> circuits reassessed
+                     (refused with InUseError while a job in review or approved uses the curve)
     store.jobs       create(fields=None, by=None) -> id ; all(search="") ; get(job_id)
                      set_field(job_id, name, raw, by=None, expected_version=None) -> dict
                      reassess(job_id) -> count (after a settings change or a calc update)
@@ -33,12 +36,15 @@ Public surface:
                      of_job(job_id) ; get(board_id)
                      set_field(board_id, name, raw, by=None, expected_version=None)
     store.circuits   add(board_id, number, description="", by=None) -> id ; of_board(board_id)
+                     copy(circuit_id, by=None) -> id (next reference, readings blank)
                      get(circuit_id) ; set_field(circuit_id, name, raw, by=None, expected_version=None)
                      calc_input(circuit_id) -> dict
     store.instruments, store.observations   (a job's lists; only a draft's can change)
                      add(job_id, fields=None, by=None) -> id ; of_job(job_id) ; get(item_id)
                      set_field(item_id, name, raw, by=None, expected_version=None) ; remove(item_id)
                      observations.set_circuits(item_id, circuit_ids, by=None) -> ids (its job's)
+    store.removals   circuit(id, by=None) / board(id, by=None) / curve(id, by=None) -> Removed ;
+                     restore(removed, by=None) -> id   (each an audit entry; undo of a removal)
     store.review     submit(job_id, by) ; return_to_draft(job_id, reviewer_id, comment)
                      approve(job_id, supervisor_id, pin) ; open_revision(job_id, reason, by) -> id
     store.documents  export(job_id) -> dict ; import_(doc) -> id (the job as it was exported: status,
@@ -53,8 +59,9 @@ text as typed, parsed value, error and the row's new version (a circuit's also i
 circuit's `get()["assessment_error"]` says why calc could not assess it (verdict "incomplete").
 
 Errors (all subclass StoreError and a builtin): NotFoundError, UnknownFieldError, ConflictError,
-ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, OpenError (the folder cannot be
-opened), MigrationError, StoreTooNewError, InvalidValueError (a blank name, a bad role or curve),
+ReadOnlyError, ReviewError, PinError, LockedOutError, SaveError, InUseError (a saved curve in use),
+OpenError (the folder cannot be opened), MigrationError, StoreTooNewError, InvalidValueError (a
+blank name, a bad role or curve),
 DocumentError (an import that is not a boardside-job document, `where` naming the place, e.g.
 `boards[0].circuits[3].fields.zs.raw`; `document_check.check_job_document(doc)` is the pure check
 run before the import's transaction; the export raises this same class;
@@ -71,8 +78,9 @@ person_id, entity, entity_id, field, what, old, new.
 Modules: `store` (Store), `core` (Core, the lock, write transactions), `schema` (migrations, a
 damaged file moved aside), `salvage` (rows of a damaged file into a fresh store), `pages` (rows
 read from an SQLite file's pages), one module per part (`people`, `settings`, `library`, `jobs`,
-`boards`, `circuits`, `items`, `review`, `documents`), `outcome` (a job's overall outcome),
-`doc_versions` (older job documents brought up to date), `rows` (what the parts share about a row's fields),
+`boards`, `circuits`, `curves`, `removals`, `items`, `review`, `documents`), `outcome` (a job's
+overall outcome), `doc_versions` (older job documents brought up to date), `rows` (what the parts
+share about a row's fields),
 `fields` (parsing what was typed), `document_check` (a document's limits and shape before an
 import), `assessment` (a circuit's calc input and assessment, pure),
 `pins` (PIN verifiers), `errors`, `demo` with `demo_data` (the demo job).
@@ -81,6 +89,7 @@ import), `assessment` (a circuit's calc input and assessment, pure),
 from mobile_app.store.errors import (
     ConflictError,
     DocumentError,
+    InUseError,
     InvalidValueError,
     LockedOutError,
     MigrationError,
@@ -105,6 +114,7 @@ __all__ = [
     "JOB_FIELDS",
     "ConflictError",
     "DocumentError",
+    "InUseError",
     "InvalidValueError",
     "LockedOutError",
     "MigrationError",

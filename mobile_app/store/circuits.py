@@ -4,6 +4,7 @@ field with the raw text kept, reassessed by the calculation core in the same tra
 from __future__ import annotations
 
 import json
+import re
 import sqlite3
 from typing import Any
 
@@ -13,6 +14,7 @@ from mobile_app.store.core import Core, now_iso
 from mobile_app.store.fields import (
     BOARD_SUPPLY_FIELDS,
     CIRCUIT_FIELDS,
+    READING_FIELDS,
     RECORD_ONLY_CIRCUIT_FIELDS,
     SHARED_CIRCUIT_FIELDS,
     SUPPLY_FIELDS,
@@ -22,6 +24,8 @@ from mobile_app.store.rows import check_version, fields_of, parse, saved, set_cl
 from mobile_app.store.settings import Settings
 
 COPIED_TO_NEXT_CIRCUIT = SHARED_CIRCUIT_FIELDS
+# what a copy leaves blank: the readings (the insulation test's voltage is how the test is done)
+CLEARED_ON_COPY = tuple(f for f in READING_FIELDS if f != "insulation_test_voltage")
 # the fields of each row whose parse error leaves a circuit's assessment not shown
 _ASSESSED = {
     "job": SUPPLY_FIELDS,
@@ -75,6 +79,31 @@ class Circuits:
             self.core.audit(conn, job["id"], by, "circuit", circuit_id, None, None, number)
             self.core.touch_job(conn, job["id"])
         return circuit_id
+
+    def copy(self, circuit_id: int, by: int | None = None) -> int:
+        """Copy a circuit of a draft job to the end of its board with the board's next reference
+        (`next_reference`): every field as typed but the readings, which are left blank. Returns the
+        copy's id."""
+        with self.core.write() as conn:
+            source = self.core.row("circuit", circuit_id)
+            board = self.core.row("board", source["board_id"])
+            job = self.core.draft_job(board["job_id"])
+            siblings = self.core.query("SELECT number_raw, position FROM circuits WHERE board_id = ?",
+                                       (board["id"],))
+            number = next_reference(source["number_raw"], [s["number_raw"] for s in siblings])
+            row = {k: v for k, v in source.items() if k != "id"}
+            for name in CLEARED_ON_COPY:
+                row.update({f"{name}_raw": "", f"{name}_value": None, f"{name}_error": None})
+            parsed = parse("circuit", "number", number, self.library)
+            row.update(number_raw=parsed.raw, number_value=parsed.value, number_error=parsed.error,
+                       position=max(s["position"] for s in siblings) + 1, version=1,
+                       updated_at=now_iso(), updated_by=by)
+            copy_id = self.core.insert(conn, "circuits", row)
+            self.save_assessment(conn, copy_id, self.assess(job, board, self.core.row("circuit", copy_id)))
+            self.core.audit(conn, job["id"], by, "circuit", copy_id, None, f"copy of circuit {circuit_id}",
+                            number)
+            self.core.touch_job(conn, job["id"])
+        return copy_id
 
     def of_board(self, board_id: int) -> list[dict[str, Any]]:
         """A board's circuits in order: id, number, description, verdict, version."""
@@ -213,6 +242,13 @@ class Circuits:
             ),
         )
 
+    def reassess_one(self, conn: sqlite3.Connection, circuit_id: int) -> None:
+        """Reassess one circuit (inside the caller's transaction)."""
+        circuit = self.core.row("circuit", circuit_id)
+        board = self.core.row("board", circuit["board_id"])
+        job = self.core.row("job", board["job_id"])
+        self.save_assessment(conn, circuit_id, self.assess(job, board, circuit))
+
     def reassess_board(self, conn: sqlite3.Connection, job: dict[str, Any], board: dict[str, Any]) -> None:
         """Reassess every circuit of a board (inside the caller's transaction)."""
         for circuit in self.core.query("SELECT * FROM circuits WHERE board_id = ?", (board["id"],)):
@@ -240,3 +276,22 @@ class Circuits:
                 self.core.audit(conn, row["id"], None, "job", row["id"], "assessment", None,
                                 f"reassessed by calc {calc.__version__}")
         return len(rows)
+
+
+def next_reference(reference: str, taken: list[str]) -> str:
+    """The reference after `reference` on a board: its last run of digits counted on past every
+    reference already taken (`3` → `4`, `L2-4` → `L2-5`, `7` → `9` when `8` is taken); a reference
+    with no digits gets `-2` (`Cooker` → `Cooker-2`), a blank one the first free number."""
+    used = {t.strip().casefold() for t in taken}
+    match = re.search(r"(\d+)(?!.*\d)", reference)
+    if match:
+        head, number, tail = reference[: match.start()], int(match.group()), reference[match.end():]
+    elif reference.strip():
+        head, number, tail = reference.strip() + "-", 1, ""
+    else:
+        head, number, tail = "", 0, ""
+    while True:
+        number += 1
+        candidate = f"{head}{number}{tail}"
+        if candidate.strip().casefold() not in used:
+            return candidate

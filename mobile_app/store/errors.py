@@ -194,3 +194,20 @@ class DocumentError(StoreError, ValueError):
         if self.where:
             return f"not a readable job document: {self.where}: {self.problem}"
         return f"not a readable job document: {self.problem}"
+
+
+class InUseError(StoreError, RuntimeError):
+    """A saved curve that circuits use: it cannot be deleted, nor changed under a job in review or
+    approved. `users` names them (`job TY-118 circuit 3`)."""
+
+    def __init__(self, kind: str, item_id: int, users: list[str], change: str) -> None:
+        super().__init__(kind, item_id, users, change)
+        self.kind = kind
+        self.item_id = item_id
+        self.users = users
+        self.change = change
+
+    def __str__(self) -> str:
+        more = len(self.users) - 3
+        shown = ", ".join(self.users[:3]) + (f" and {more} more" if more > 0 else "")
+        return f"{self.kind} {self.item_id} cannot be {self.change}: used by {shown}"

@@ -47,6 +47,15 @@ class Library:
             )
         ]
 
+    def users(self, device_id: int) -> list[dict[str, Any]]:
+        """The circuits that use a saved curve: circuit_id, number, job_id, client_ref, status."""
+        return self.core.query(
+            "SELECT c.id AS circuit_id, c.number_raw AS number, j.id AS job_id,"
+            " j.client_ref_raw AS client_ref, j.status FROM circuits c JOIN boards b ON b.id = c.board_id"
+            " JOIN jobs j ON j.id = b.job_id WHERE c.library_device_id_value = ? ORDER BY j.id, c.id",
+            (device_id,),
+        )
+
     def find(self, device_id: int) -> dict[str, Any] | None:
         """One library device with its points decoded, or None."""
         row = self.core.one(

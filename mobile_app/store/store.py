@@ -6,10 +6,12 @@ core and the parts it uses:
 
     store.people     People     add, set_pin, all, get
     store.settings   Settings   get, set
-    store.library    Library    add, all, find
+    store.library    Library    add, all, find, users
+    store.curves     Curves     update (a saved curve; its draft circuits reassessed)
     store.jobs       Jobs       create, all, get, set_field, reassess, overall, audit
     store.boards     Boards     add, of_job, get, set_field
-    store.circuits   Circuits   add, of_board, get, set_field, calc_input
+    store.circuits   Circuits   add, copy, of_board, get, set_field, calc_input
+    store.removals   Removals   circuit, board, curve (each with an audit entry), restore (undo)
     store.roster     Roster     firm_key, pin_firm_key, load, load_folder, install_key, entry_of
     store.instruments  Items    add, of_job, get, set_field, remove
     store.observations Items    add, of_job, get, set_field, set_circuits, remove
@@ -31,6 +33,7 @@ import sqlite_utils
 from mobile_app.store.boards import Boards
 from mobile_app.store.circuits import Circuits
 from mobile_app.store.core import STORE_FILE, Core, default_data_dir, save_reason
+from mobile_app.store.curves import Curves
 from mobile_app.store.documents import Documents
 from mobile_app.store.errors import OpenError
 from mobile_app.store.integrity import Integrity
@@ -38,6 +41,7 @@ from mobile_app.store.items import Items
 from mobile_app.store.jobs import Jobs
 from mobile_app.store.library import Library
 from mobile_app.store.people import People
+from mobile_app.store.removals import Removals
 from mobile_app.store.review import Review
 from mobile_app.store.roster import Roster
 from mobile_app.store.schema import MovedAside, connect, migrate, move_aside, problem_with
@@ -64,6 +68,8 @@ class Store:
         self.library = Library(self.core)
         self.circuits = Circuits(self.core, self.library, self.settings)
         self.boards = Boards(self.core, self.library, self.circuits)
+        self.curves = Curves(self.core, self.library, self.circuits)
+        self.removals = Removals(self.core, self.library, self.circuits)
         self.jobs = Jobs(self.core, self.library, self.settings, self.circuits)
         self.roster = Roster(self.core, self.people)
         self.instruments = Items(self.core, self.library, "instrument")
