@@ -19,6 +19,7 @@ from mobile_app.components.palette import FONTS, app_theme, theme_mode
 from mobile_app.state.recorder import Recorder
 from mobile_app.state.recovery import Recovery
 from mobile_app.state.settings import SettingsState
+from mobile_app.state.undo import UndoTrail
 from mobile_app.state.walk import Walk
 from mobile_app.store import NotFoundError, Store, StoreError
 
@@ -35,6 +36,7 @@ class Shell:
         self._walks: dict[int, Walk] = {}
         self._values: dict[str, Any] = {}
         self._renders = 0
+        self.undo = UndoTrail(store)
 
     def go(self, route: str) -> None:
         """Show another screen (pushes a browser history entry, so reload and back work)."""
@@ -87,6 +89,7 @@ class Shell:
         old one by control keys (a keyed diff would freeze the new controls and refuse later updates).
         """
         self.save_typed()
+        self.undo.enter(self.page.route or "/")
         try:
             view = route_view(self, self.page.route or "/")
         except NotFoundError as exc:

@@ -3,9 +3,10 @@
 from __future__ import annotations
 
 import datetime
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
+from mobile_app.state.devices import cable_text, device_text, rating_mismatch
 from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, Choice, FieldSpec, all_specs
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.text import VerdictMark, format_quantity, status_word, verdict_mark
@@ -92,23 +93,65 @@ class JobsList:
 
 @dataclass(frozen=True)
 class CircuitRow:
-    """One circuit under its board: number, description, verdict mark."""
+    """One circuit under its board: reference, description, device, cable pair, Zs and verdict, the
+    primary cause when it does not pass, and where a tap goes (its results once it has readings)."""
 
     id: int
     number: str
     description: str
     verdict: str
     mark: VerdictMark
+    device: str = ""
+    cables: str = ""
+    zs: str = ""
+    cause: str = ""
+    has_readings: bool = False
+    rating_note: str | None = None
+
+    @property
+    def detail(self) -> str:
+        """`B32 · 2.5/1.5 mm² · Zs 0.62 Ω`, each part kept on one line when the text wraps."""
+        return " · ".join(p.replace(" ", "\u00a0") for p in (self.device, self.cables, self.zs) if p)
+
+    @property
+    def step(self) -> str:
+        """The screen a tap opens: the results when there are readings, else the walk's first step."""
+        return "results" if self.has_readings else "device"
+
+
+def circuit_row(summary: dict[str, Any]) -> CircuitRow:
+    """A CircuitRow from one of `store.circuits.summaries`."""
+    kind = summary.get("device_kind")
+    zs = summary.get("zs_ohm")
+    verdict = summary.get("verdict") or "not-shown"
+    return CircuitRow(
+        id=int(summary["id"]),
+        number=str(summary.get("number") or ""),
+        description=str(summary.get("description") or ""),
+        verdict=verdict,
+        mark=verdict_mark(verdict),
+        device=device_text(kind, summary.get("device_curve"), summary.get("device_rating_a"),
+                           summary.get("library_name")),
+        cables=cable_text(summary.get("line_csa_mm2"), summary.get("cpc_csa_mm2")),
+        zs=f"Zs {format_quantity(float(zs), 'Ω')}" if isinstance(zs, int | float) else "no Zs",
+        cause="" if verdict == "pass" else str(summary.get("cause") or ""),
+        has_readings=bool(summary.get("has_readings")),
+        rating_note=rating_mismatch(kind, summary.get("device_rating_a"), summary.get("library_rating_a")),
+    )
+
+
+CIRCUIT_FILTERS: tuple[str, ...] = ("all", "fail", "not-shown")
 
 
 @dataclass(frozen=True)
 class BoardView:
-    """One board with its circuits."""
+    """One board with its circuits (those the filter lets through) and how many it has in all."""
 
     id: int
     designation: str
     location: str
     circuits: tuple[CircuitRow, ...]
+    total: int = 0
 
     @property
     def summary(self) -> str:
@@ -141,6 +184,7 @@ class JobScreen:
         self.by = by
         self._typed: dict[str, str] = {}
         self._save_errors: dict[str, str] = {}
+        self.circuit_filter = "all"
         self.reload()
 
     def reload(self) -> None:
@@ -192,39 +236,58 @@ class JobScreen:
         self.reload()
         return self._field(spec)
 
-    def boards(self) -> list[BoardView]:
-        """Boards in order, each with its circuits and their verdict marks."""
+    def _all_boards(self) -> list[BoardView]:
         views = []
         for board in self.store.boards.of_job(self.job_id):
-            circuits = tuple(
-                CircuitRow(
-                    id=int(c["id"]),
-                    number=str(c.get("number") or ""),
-                    description=str(c.get("description") or ""),
-                    verdict=c.get("verdict") or "not-shown",
-                    mark=verdict_mark(c.get("verdict")),
-                )
-                for c in self.store.circuits.of_board(board["id"])
-            )
-            views.append(
-                BoardView(
-                    id=int(board["id"]),
-                    designation=str(board.get("designation") or ""),
-                    location=str(board.get("location") or ""),
-                    circuits=circuits,
-                )
-            )
+            circuits = tuple(circuit_row(c) for c in self.store.circuits.summaries(board["id"]))
+            views.append(BoardView(int(board["id"]), str(board.get("designation") or ""),
+                                   str(board.get("location") or ""), circuits, len(circuits)))
         return views
 
     @staticmethod
     def folds(boards: list[BoardView]) -> bool:
-        """Whether the boards start folded: the job has more than FOLD_OVER circuits."""
-        return sum(len(board.circuits) for board in boards) > FOLD_OVER
+        """Whether the boards start folded: the job has more than FOLD_OVER circuits (all of them,
+        whatever the filter shows)."""
+        return sum(board.total for board in boards) > FOLD_OVER
 
-    def add_board(self, designation: str = "") -> int:
-        """Add a board named `designation` (or the next DBn)."""
-        name = designation.strip() or f"DB{len(self.store.boards.of_job(self.job_id)) + 1}"
-        return int(self.store.boards.add(self.job_id, name))
+    def boards(self) -> list[BoardView]:
+        """Boards in order, each with its circuits; with a filter (`circuit_filter` "fail" or
+        "not-shown") only the matching circuits, and only the boards that have some."""
+        boards = self._all_boards()
+        if self.circuit_filter == "all":
+            return boards
+        kept = [replace(b, circuits=tuple(c for c in b.circuits if c.verdict == self.circuit_filter))
+                for b in boards]
+        return [b for b in kept if b.circuits]
+
+    def filter_choices(self) -> tuple[Choice, ...]:
+        """All, Failing (n), Not shown (n)."""
+        rows = [c for b in self._all_boards() for c in b.circuits]
+        failing = sum(1 for c in rows if c.verdict == "fail")
+        open_ = sum(1 for c in rows if c.verdict == "not-shown")
+        return (Choice("all", f"All ({len(rows)})"), Choice("fail", f"Failing ({failing})"),
+                Choice("not-shown", f"Not shown ({open_})"))
+
+    @property
+    def filter_empty_text(self) -> str:
+        """What the list says when the filter leaves nothing."""
+        return {"fail": "No failing circuits in this job.",
+                "not-shown": "Every circuit is decided: none is not shown."}.get(self.circuit_filter, "")
+
+    def add_board(self, designation: str) -> tuple[int | None, str]:
+        """Add a board by its name (asked first): (its id, message), or (None, why not)."""
+        name = designation.strip()
+        if not name:
+            return None, "Name the board first (e.g. DB2, Garage board)"
+        boards = self.store.boards.of_job(self.job_id)
+        taken = {str(b.get("designation") or "").strip().casefold() for b in boards}
+        if name.casefold() in taken:
+            return None, f"This job already has a board called {name}"
+        try:
+            board_id = int(self.store.boards.add(self.job_id, name, by=self.by))
+        except StoreError as exc:
+            return None, f"Board not added: {exc}"
+        return board_id, f"Board {name} added"
 
     def add_circuit(self, board_id: int, description: str = "") -> int:
         """Add the board's next circuit; choices the store left blank get the usual defaults."""
@@ -237,6 +300,16 @@ class JobScreen:
             if spec.default and not (fields.get(spec.name) or {}).get("raw"):
                 self.store.circuits.set_field(circuit_id, spec.name, spec.default, by=self.by)
         return circuit_id
+
+    def copy_circuit(self, circuit_id: int) -> tuple[int | None, str]:
+        """Copy a circuit to the end of its board with the next reference and no readings:
+        (the copy's id, message), or (None, why not)."""
+        try:
+            copy_id = int(self.store.circuits.copy(circuit_id, by=self.by))
+        except StoreError as exc:
+            return None, f"Not copied: {exc}"
+        number = self.store.circuits.get(copy_id)["fields"]["number"]["raw"]
+        return copy_id, f"Copied as circuit {number}: enter its readings"
 
 
 def ensure_demo(store: Any) -> int:

@@ -26,6 +26,8 @@ from mobile_app.store.settings import Settings
 COPIED_TO_NEXT_CIRCUIT = SHARED_CIRCUIT_FIELDS
 # what a copy leaves blank: the readings (the insulation test's voltage is how the test is done)
 CLEARED_ON_COPY = tuple(f for f in READING_FIELDS if f != "insulation_test_voltage")
+# readings that are measured (a test temperature alone is not a reading of the circuit)
+MEASURED_FIELDS = tuple(f for f in READING_FIELDS if f not in ("test_temp_c", "insulation_test_voltage"))
 # the fields of each row whose parse error leaves a circuit's assessment not shown
 _ASSESSED = {
     "job": SUPPLY_FIELDS,
@@ -112,6 +114,26 @@ class Circuits:
             "SELECT id, board_id, position, number_raw AS number,"
             " description_raw AS description,"
             " verdict, version FROM circuits WHERE board_id = ? ORDER BY position",
+            (board_id,),
+        )
+
+    def summaries(self, board_id: int) -> list[dict[str, Any]]:
+        """A board's circuits in order as a list shows them: id, number, description, verdict,
+        version, the device (`device_kind`, `device_curve`, `device_rating_a`, `library_name`,
+        `library_rating_a`), `line_csa_mm2`, `cpc_csa_mm2`, `zs_ohm`, `has_readings` (any reading
+        typed) and `cause` (the primary cause's words)."""
+        self.core.row("board", board_id)
+        typed = " OR ".join(f"c.{name}_raw != ''" for name in MEASURED_FIELDS)
+        return self.core.query(
+            "SELECT c.id, c.number_raw AS number, c.description_raw AS description, c.verdict, c.version,"
+            " c.device_kind_value AS device_kind, c.device_curve_value AS device_curve,"
+            " c.device_rating_value AS device_rating_a, l.name AS library_name,"
+            " l.rating_a AS library_rating_a, c.line_csa_value AS line_csa_mm2,"
+            " c.cpc_csa_value AS cpc_csa_mm2, c.zs_value AS zs_ohm,"
+            f" ({typed}) AS has_readings,"
+            " json_extract(c.assessment, '$.primary_cause.text') AS cause"
+            " FROM circuits c LEFT JOIN library_devices l ON l.id = c.library_device_id_value"
+            " WHERE c.board_id = ? ORDER BY c.position",
             (board_id,),
         )
 
