@@ -7,8 +7,9 @@ from typing import Any
 
 import calc
 from mobile_app.state.chart import ChartModel, chart_for
+from mobile_app.state.devices import plain
 from mobile_app.state.text import format_quantity
-from mobile_app.store import StoreError
+from mobile_app.store import InUseError, StoreError
 
 MIN_POINTS = 2
 
@@ -31,6 +32,16 @@ class CurveDraft:
     rating: str = ""
     rows: list[PointRow] = field(default_factory=lambda: [PointRow(), PointRow(), PointRow()])
     message: str | None = None
+    editing: int | None = None  # the saved curve being changed, or None for a new one
+
+    @classmethod
+    def from_saved(cls, device: dict[str, Any]) -> CurveDraft:
+        """A saved curve opened for changing: its name, rating and points as text."""
+        rows = [PointRow(plain(current), plain(time)) for current, time in device.get("points") or []]
+        while len(rows) < MIN_POINTS:
+            rows.append(PointRow())
+        return cls(name=str(device.get("name") or ""), rating=plain(device.get("rating_a")), rows=rows,
+                   editing=int(device["id"]))
 
     def set_cell(self, index: int, column: str, text: str) -> None:
         """Change one cell (`column` is "current" or "time") and check it at once."""
@@ -87,8 +98,9 @@ class CurveDraft:
             return None
         return chart_for(self.device(), None)
 
-    def save(self, store: Any) -> int | None:
-        """Add the curve to the library; returns its id, or None with `message` saying why not."""
+    def save(self, store: Any, as_new: bool = False) -> int | None:
+        """Save the curve: its changes when a saved one is open (`editing`, unless `as_new`), else a
+        new curve in the library. Returns its id, or None with `message` saying why not."""
         problem = self.problem() or (None if self.name.strip() else "Give the curve a name")
         if problem:
             self.message = problem
@@ -101,12 +113,22 @@ class CurveDraft:
             for current, time in self._points()
         ]
         rating = calc.parse_value("circuit.device.rating", self.rating) if self.rating.strip() else None
+        name = self.name.strip()
         try:
-            device_id = int(store.library.add(self.name.strip(), points, rating_a=rating))
+            if self.editing is not None and not as_new:
+                reassessed = int(store.curves.update(self.editing, name, points, rating_a=rating))
+                self.message = f"Saved the changes to {name}" + (
+                    f"; {reassessed} circuit{'s' * (reassessed != 1)} of draft jobs reassessed"
+                    if reassessed else "")
+                return self.editing
+            device_id = int(store.library.add(name, points, rating_a=rating))
+        except InUseError as exc:
+            self.message = f"Not saved: {exc}. Save it as a new curve instead."
+            return None
         except StoreError as exc:
             self.message = f"Not saved: {exc}"
             return None
-        self.message = f"Saved {self.name.strip()} to the library"
+        self.message = f"Saved {name} to the library"
         return device_id
 
 
@@ -120,15 +142,15 @@ class LibraryRow:
 
 
 def library_rows(store: Any) -> list[LibraryRow]:
-    """The device library as listed on its screen."""
-    return [
-        LibraryRow(
-            id=int(d["id"]),
-            name=str(d["name"]),
-            detail=f"{len(d.get('points') or [])} points · In {format_quantity(d.get('rating_a'), 'A')}",
-        )
-        for d in store.library.all()
-    ]
+    """The device library as listed on its screen: `6 points · In 100 A · used by 2 circuits`."""
+    rows = []
+    for d in store.library.all():
+        used = len(store.library.users(int(d["id"])))
+        detail = f"{len(d.get('points') or [])} points · In {format_quantity(d.get('rating_a'), 'A')}"
+        if used:
+            detail += f" · used by {used} circuit{'s' * (used != 1)}"
+        rows.append(LibraryRow(id=int(d["id"]), name=str(d["name"]), detail=detail))
+    return rows
 
 
 def _curve_message(exc: calc.InputError) -> str:

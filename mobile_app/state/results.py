@@ -7,6 +7,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.state.chart import ChartModel, chart_for
+from mobile_app.state.devices import rating_mismatch
 from mobile_app.state.text import CAUTIONS, OLD_WORDS, VerdictMark, format_quantity, verdict_mark
 
 
@@ -141,6 +142,10 @@ def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> Result
     said = str(assessment.get("verdict") or circuit.get("verdict") or "not-shown")
     verdict = OLD_WORDS.get(said, said)
     device = (calc_input.get("circuit") or {}).get("device") or {}
+    fields = circuit.get("fields") or {}
+    mismatch = rating_mismatch((fields.get("device_kind") or {}).get("value"),
+                               (fields.get("device_rating") or {}).get("value"),
+                               (circuit.get("library_device") or {}).get("rating_a"))
     return ResultsPanel(
         verdict=verdict,
         mark=verdict_mark(verdict),
@@ -148,7 +153,7 @@ def results_panel(circuit: dict[str, Any], calc_input: dict[str, Any]) -> Result
         cause=_cause(assessment.get("primary_cause")),
         checks=check_rows(assessment),
         cards=tuple(_card(step) for step in assessment.get("steps") or ()),
-        notes=tuple(str(note) for note in assessment.get("plausibility") or ()),
+        notes=tuple([mismatch] * bool(mismatch) + [str(n) for n in assessment.get("plausibility") or ()]),
         cautions=CAUTIONS,
         chart=chart_for(device, assessment) if device else None,
         problem=circuit.get("assessment_error"),

@@ -138,7 +138,8 @@ class Circuits:
         )
 
     def get(self, circuit_id: int) -> dict[str, Any]:
-        """One circuit: ids, version, verdict, calc version, fields as typed, latest assessment."""
+        """One circuit: ids, version, verdict, calc version, fields as typed, latest assessment, and
+        the saved curve its library field names (`library_device`: id, name, rating_a, or None)."""
         row = self.core.row("circuit", circuit_id)
         job_id = self.core.row("board", row["board_id"])["job_id"]
         return {
@@ -154,7 +155,13 @@ class Circuits:
             "updated_by": row["updated_by"],
             "fields": fields_of(row, CIRCUIT_FIELDS),
             "assessment": json.loads(row["assessment"]) if row["assessment"] else None,
+            "library_device": self._library_device(row.get("library_device_id_value")),
         }
+
+    def _library_device(self, device_id: Any) -> dict[str, Any] | None:
+        """The saved curve a circuit names (id, name, rating_a), or None."""
+        device = self.library.find(int(device_id)) if isinstance(device_id, int | float) else None
+        return None if device is None else {k: device[k] for k in ("id", "name", "rating_a")}
 
     def set_field(
         self,

@@ -12,6 +12,7 @@ from mobile_app.components.choice_row import choice_row
 from mobile_app.components.overall_block import overall_block
 from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
+from mobile_app.components.undo_bar import undo_bar
 from mobile_app.components.verdict_badge import verdict_badge
 from mobile_app.state.jobs import BoardView, CircuitRow, JobField, JobScreen
 from mobile_app.state.records import overall_of
@@ -170,27 +171,6 @@ def _board(shell: Any, job: JobScreen, board: BoardView) -> ft.Control:
     )
 
 
-def _undo_bar(shell: Any) -> ft.Control:
-    """What was just deleted here, with the way back (until this screen is left)."""
-
-    def undo(_e: Any) -> None:
-        shell.toast(shell.undo.undo().message)
-        shell.render()
-
-    return ft.Container(
-        key="undo-bar",
-        padding=ft.Padding.symmetric(horizontal=12, vertical=4),
-        border_radius=8,
-        border=ft.Border.all(2, ft.Colors.OUTLINE),
-        content=ft.Row(
-            [ft.Icon(ft.Icons.DELETE_OUTLINE),
-             ft.Text(shell.undo.offer, size=15, expand=True, key="undo-offer"),
-             ft.TextButton("Undo", icon=ft.Icons.UNDO, height=48, key="undo", on_click=undo)],
-            spacing=8,
-        ),
-    )
-
-
 def _add_board(shell: Any, job: JobScreen) -> ft.Control:
     """The new board's name first, then the button that adds it."""
     name = ft.TextField(key="new-board-name", label="New board's name", hint_text="e.g. DB2, Garage board",
@@ -227,7 +207,7 @@ def build(shell: Any, job_id: str) -> ft.View:
     if job.read_only:
         body.append(ft.Text("This job is locked while in review or approved.", size=14))
     if shell.undo.offer:
-        body.append(_undo_bar(shell))
+        body.append(undo_bar(shell))
     overall = ft.Column([overall_block(overall_of(shell.store, job.job_id))], key="job-overall")
     observations = len(shell.store.observations.of_job(job.job_id))
     body += [

@@ -8,6 +8,7 @@ import flet as ft
 
 from mobile_app.components.screen import screen
 from mobile_app.components.tc_chart import tc_chart
+from mobile_app.components.undo_bar import undo_bar
 from mobile_app.state.library import CurveDraft, library_rows
 
 
@@ -53,17 +54,37 @@ def build(shell: Any) -> ft.View:
         draft.add_row()
         shell.render()
 
-    def save(_e: Any) -> None:
-        draft.name = name.value or ""
-        draft.rating = rating.value or ""
-        if draft.save(shell.store) is not None:
-            shell.toast(draft.message or "Saved")
+    def saver(as_new: bool) -> Any:
+        def save(_e: Any) -> None:
+            draft.name = name.value or ""
+            draft.rating = rating.value or ""
+            if draft.save(shell.store, as_new=as_new) is not None:
+                shell.toast(draft.message or "Saved")
+                shell.forget("curve-draft")
+                shell.render()
+            else:
+                problem.value = draft.message or ""
+                problem.color = ft.Colors.ERROR
+                problem.update()
+
+        return save
+
+    def open_saved(device_id: int) -> None:
+        device = shell.store.library.find(device_id)
+        if device is not None:
             shell.forget("curve-draft")
+            shell.session_value("curve-draft", lambda: CurveDraft.from_saved(device))
             shell.render()
-        else:
-            problem.value = draft.message or ""
-            problem.color = ft.Colors.ERROR
-            problem.update()
+
+    def delete(device_id: int) -> None:
+        done = shell.undo.delete("curve", device_id)
+        if not done.ok:
+            shell.toast(done.message)
+        shell.render()
+
+    def new_curve(_e: Any) -> None:
+        shell.forget("curve-draft")
+        shell.render()
 
     name = ft.TextField(key="curve-name", label="Name (maker, type, rating)", value=draft.name,
                         on_change=lambda e: setattr(draft, "name", e.control.value or ""))
@@ -72,15 +93,25 @@ def build(shell: Any) -> ft.View:
                           on_change=lambda e: setattr(draft, "rating", e.control.value or ""))
     fill_rows()
     refresh()
-    saved = [
-        ft.ListTile(leading=ft.Icon(ft.Icons.SHOW_CHART), title=ft.Text(row.name, size=16),
-                    subtitle=ft.Text(row.detail))
-        for row in library_rows(shell.store)
+    listed = library_rows(shell.store)
+    saved: list[ft.Control] = [
+        ft.Row([
+            ft.ListTile(leading=ft.Icon(ft.Icons.SHOW_CHART), title=ft.Text(row.name, size=16),
+                        subtitle=ft.Text(row.detail), key=f"curve-{row.id}", expand=True,
+                        on_click=lambda _e, i=row.id: open_saved(i)),
+            ft.IconButton(ft.Icon(ft.Icons.DELETE_OUTLINE, semantics_label=f"Delete curve {row.name}"),
+                          key=f"delete-curve-{row.id}", on_click=lambda _e, i=row.id: delete(i)),
+        ], spacing=0)
+        for row in listed
     ] or [ft.Text("No curves saved yet.", size=14)]
-    body: list[ft.Control] = [
+    if listed:
+        saved.insert(0, ft.Text("Tap a curve to open and change it.", size=14))
+    body: list[ft.Control] = [undo_bar(shell)] if shell.undo.offer else []
+    body += [
         ft.Text("Saved curves", size=20, weight=ft.FontWeight.BOLD),
         *saved,
-        ft.Text("New curve", size=20, weight=ft.FontWeight.BOLD),
+        ft.Text(f"Changing: {draft.name}" if draft.editing is not None else "New curve", size=20,
+                weight=ft.FontWeight.BOLD, key="curve-heading"),
         ft.Text("Read points off the maker's time–current chart: current (e.g. 500 A, 1.2 kA) and "
                 "the upper time (e.g. 20 s, 80 ms). Times must fall as current rises.", size=14),
         name,
@@ -90,6 +121,16 @@ def build(shell: Any) -> ft.View:
                           on_click=add_point),
         problem,
         preview,
-        ft.FilledButton("Save curve", icon=ft.Icons.SAVE, height=48, key="save-curve", on_click=save),
     ]
+    if draft.editing is None:
+        body.append(ft.FilledButton("Save curve", icon=ft.Icons.SAVE, height=48, key="save-curve",
+                                    on_click=saver(False)))
+    else:
+        body += [
+            ft.FilledButton("Save changes", icon=ft.Icons.SAVE, height=48, key="save-changes",
+                            on_click=saver(False)),
+            ft.OutlinedButton("Save as a new curve", icon=ft.Icons.ADD, height=48, key="save-as-new",
+                              on_click=saver(True)),
+            ft.TextButton("Start a new curve instead", height=48, key="new-curve", on_click=new_curve),
+        ]
     return screen("/library", "Device library", body, shell.go, tab=1)
