@@ -290,7 +290,8 @@ class Documents:
             return None
         parent = self.core.one(
             "SELECT id FROM jobs j WHERE client_ref_raw = ? AND revision = ? AND status = 'approved'"
-            " AND NOT EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) ORDER BY id DESC",
+            " AND NOT EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id AND k.deleted_at IS NULL)"
+            " ORDER BY id DESC",
             (row["client_ref_raw"], row["revision"] - 1),
         )
         return None if parent is None else int(parent["id"])

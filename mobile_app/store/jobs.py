@@ -48,7 +48,7 @@ class Jobs:
         return job_id
 
     def all(self, search: str = "") -> list[dict[str, Any]]:
-        """Jobs, newest change first, with circuit counts.
+        """Jobs, newest change first, with circuit counts (deleted drafts left out).
 
         `search` matches the client reference, site address or description.
         """
@@ -57,14 +57,15 @@ class Jobs:
             "SELECT j.id, j.client_ref_raw AS client_ref, j.site_address_raw AS site_address,"
             " j.date_raw AS date, j.status, j.revision, j.version, j.parent_job_id,"
             " j.updated_at,"
-            " EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id) AS superseded,"
+            " EXISTS (SELECT 1 FROM jobs k WHERE k.parent_job_id = j.id AND k.deleted_at IS NULL)"
+            " AS superseded,"
             " COUNT(c.id) AS circuits,"
             " COALESCE(SUM(c.verdict = 'fail'), 0) AS failing,"
             " COALESCE(SUM(c.verdict = 'not-shown'), 0) AS not_shown"
             " FROM jobs j LEFT JOIN boards b ON b.job_id = j.id LEFT JOIN circuits c"
-            " ON c.board_id = b.id WHERE j.client_ref_raw LIKE :p ESCAPE '\\'"
+            " ON c.board_id = b.id WHERE j.deleted_at IS NULL AND (j.client_ref_raw LIKE :p ESCAPE '\\'"
             " OR j.site_address_raw LIKE :p ESCAPE '\\'"
-            " OR j.description_raw LIKE :p ESCAPE '\\'"
+            " OR j.description_raw LIKE :p ESCAPE '\\')"
             " GROUP BY j.id ORDER BY j.updated_at DESC, j.id DESC",
             {"p": pattern},
         )

@@ -1,5 +1,6 @@
 """Deleting circuits, boards, draft jobs and saved curves, each with an audit entry, and putting
-them back (`store.removals`).
+them back (`store.removals`). A deleted job is only marked (`deleted_at`) and left out of the lists:
+its audit entries refer to it and stay in the hash chain.
 
 Only a draft job's circuits and boards are deleted; a saved curve only when no circuit uses it. A
 removal returns a `Removed` holding the rows it took away, which `restore` puts back (undo, for as
@@ -16,7 +17,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.store.circuits import Circuits
-from mobile_app.store.core import Core
+from mobile_app.store.core import Core, now_iso
 from mobile_app.store.curves import user_names
 from mobile_app.store.errors import InUseError, NotFoundError
 from mobile_app.store.fields import BOARD_FIELDS, CIRCUIT_FIELDS
@@ -29,7 +30,7 @@ _TABLES = {"circuit": "circuits", "board": "boards", "curve": "library_devices"}
 class Removed:
     """What one removal took away: enough to put it back and to say what it was."""
 
-    kind: str  # circuit, board, curve
+    kind: str  # circuit, board, job, curve
     item_id: int
     job_id: int | None
     label: str  # `circuit 3 · Kiln`, `board DB2 and its 4 circuits`, `curve Maker 250 A`
@@ -82,6 +83,19 @@ class Removals:
             self._record(conn, removed, by, typed)
         return removed
 
+    def job(self, job_id: int, by: int | None = None) -> Removed:
+        """Delete a draft job: it leaves the lists but is kept with its audit trail (`deleted_at`),
+        so undo only clears the mark."""
+        with self.core.write() as conn:
+            job = self.core.draft_job(job_id)
+            if job["deleted_at"]:
+                raise NotFoundError("job", job_id)
+            label = f"job {job['client_ref_raw'] or job_id}"
+            conn.execute("UPDATE jobs SET deleted_at = ? WHERE id = ?", (now_iso(), job_id))
+            removed = Removed("job", job_id, job_id, label, ())
+            self._record(conn, removed, by, {"client_ref": job["client_ref_raw"]})
+        return removed
+
     def curve(self, device_id: int, by: int | None = None) -> Removed:
         """Delete a saved curve that no circuit uses (InUseError naming them otherwise)."""
         with self.core.write() as conn:
@@ -109,6 +123,11 @@ class Removals:
         with self.core.write() as conn:
             if removed.job_id is not None:
                 self.core.draft_job(removed.job_id)
+            if removed.kind == "job":
+                conn.execute("UPDATE jobs SET deleted_at = NULL WHERE id = ?", (removed.item_id,))
+                self.core.audit(conn, removed.job_id, by, "job", removed.item_id, "restored", None,
+                                removed.label)
+                return removed.item_id
             new_ids: dict[tuple[str, int], int] = {}
             for table, row in removed.rows:
                 values = dict(row)

@@ -8,6 +8,7 @@ from typing import Any
 
 from mobile_app.signing import sign_approval
 from mobile_app.store import chain, pins
+from mobile_app.store.concerns import Concern, concerns_of
 from mobile_app.store.core import Core, now_iso
 from mobile_app.store.documents import Documents
 from mobile_app.store.errors import PinError, ReviewError
@@ -26,6 +27,8 @@ _COPY_SKIP_JOB = {
     "approved_by",
     "approved_at",
     "review_comment",
+    "approval_reasons",
+    "deleted_at",
     "created_at",
     "updated_at",
 }
@@ -79,10 +82,20 @@ class Review:
         self.people.confirm(reviewer_id, pin, job_id)
         self._set_status(job_id, "submitted", "draft", reviewer_id, {"review_comment": comment.strip()})
 
-    def approve(self, job_id: int, supervisor_id: int, secret: pins.Secret) -> None:
+    def concerns(self, job_id: int) -> list[Concern]:
+        """What approving the job needs a written reason for: failing circuits, circuits not shown
+        to pass, boards with no circuit (`mobile_app.store.concerns`)."""
+        return concerns_of(self.core, job_id)
+
+    def approve(self, job_id: int, supervisor_id: int, secret: pins.Secret,
+                reasons: dict[str, str] | None = None) -> None:
         """Approve a submitted job: unlock the supervisor's key (an enrolled supervisor's passphrase,
         a device-only supervisor's PIN) and sign the job's canonical hash with it. The job becomes
         read-only and keeps its approval (`jobs.approval`, mobile_app.signing.approval).
+
+        Every item of `concerns` needs a written reason in `reasons` (by its key): ReviewError
+        naming those without one, before the secret is tried. The reasons are kept with the job
+        (`approval_reasons`), in its audit trail and in what the approval signs.
 
         PinError for a wrong secret (attempts left in the message); after MAX_WRONG_PINS wrong ones
         the supervisor is locked (LockedOutError), even with the right one.
@@ -93,15 +106,33 @@ class Review:
             raise ReviewError(job_id, f"{person['name']} is not a supervisor")
         if job["status"] != "submitted":
             raise ReviewError(job_id, f"is {job['status']}, not submitted")
+        answered = self._answered(job_id, reasons or {})
         pair = self.people.unlock_key(supervisor_id, secret, job_id)
         stamp = now_iso()
         with self.core.write() as conn:
             self._set_status(job_id, "submitted", "approved", supervisor_id,
                              {"approved_by": supervisor_id, "approved_at": stamp})
+            if answered:
+                conn.execute("UPDATE jobs SET approval_reasons = ? WHERE id = ?",
+                             (json.dumps(answered, ensure_ascii=False), job_id))
+                for item in answered:
+                    self.core.audit(conn, job_id, supervisor_id, "review", job_id, "reason",
+                                    item["what"], item["reason"])
             doc = self.documents.export(job_id)
             approval = sign_approval(pair, person["name"], doc, stamp, chain.head(conn))
             signed = json.dumps(approval.to_dict())
             conn.execute("UPDATE jobs SET approval = ? WHERE id = ?", (signed, job_id))
+
+    def _answered(self, job_id: int, reasons: dict[str, str]) -> list[dict[str, str]]:
+        """Each concern with its reason (`item`, `what`, `reason`); ReviewError naming the ones
+        without a written reason."""
+        found = self.concerns(job_id)
+        missing = [c.what for c in found if not str(reasons.get(c.key) or "").strip()]
+        if missing:
+            more = f" and {len(missing) - 3} more" if len(missing) > 3 else ""
+            raise ReviewError(job_id, "a written reason is needed to approve with: "
+                              + "; ".join(missing[:3]) + more)
+        return [{"item": c.key, "what": c.what, "reason": str(reasons[c.key]).strip()} for c in found]
 
     def open_revision(self, job_id: int, reason: str, by: int | None) -> int:
         """Copy an approved job into a new draft revision; the approved one stays as it was."""
@@ -111,7 +142,8 @@ class Review:
             job = self.core.row("job", job_id)
             if job["status"] != "approved":
                 raise ReviewError(job_id, f"is {job['status']}: only an approved job is revised")
-            child = self.core.one("SELECT id FROM jobs WHERE parent_job_id = ?", (job_id,))
+            child = self.core.one("SELECT id FROM jobs WHERE parent_job_id = ? AND deleted_at IS NULL",
+                                  (job_id,))
             if child is not None:
                 raise ReviewError(job_id, f"revision job {child['id']} is already open")
             stamp = now_iso()

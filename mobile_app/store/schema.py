@@ -236,6 +236,14 @@ def _m007(db: sqlite_utils.Database) -> None:
         db.execute(sql)
 
 
+def _m008(db: sqlite_utils.Database) -> None:
+    """Version 8: approval reasons and deleted drafts. What a supervisor wrote for each failing or
+    open item they approved a job with (`approval_reasons`, JSON), and when a draft job was deleted
+    (`deleted_at`: the job is kept, out of the lists, so its audit trail stays whole)."""
+    db.execute("ALTER TABLE jobs ADD COLUMN approval_reasons TEXT")
+    db.execute("ALTER TABLE jobs ADD COLUMN deleted_at TEXT")
+
+
 STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("001_jobs_boards_circuits", _m001),
     ("002_device_library", _m002),
@@ -244,6 +252,7 @@ STEPS: tuple[tuple[str, Callable[[sqlite_utils.Database], None]], ...] = (
     ("005_not_shown_verdict", _m005),
     ("006_signed_approvals_audit_chain", _m006),
     ("007_test_record", _m007),
+    ("008_approval_reasons_deleted_jobs", _m008),
 )
 SCHEMA_VERSION = len(STEPS)
 

@@ -1,0 +1,64 @@
+"""What a supervisor must answer for before approving a job (pure reads, no writes).
+
+Failing circuits first, then circuits not shown to pass, then boards with no circuit: approving a job
+with any of them needs a written reason for each (`Review.approve`), kept with the approval.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from mobile_app.store.core import Core
+
+_WORDS = {"fail": "fails", "not-shown": "not shown to pass"}
+_CAUSE_CHARS = 160
+
+
+@dataclass(frozen=True)
+class Concern:
+    """One item needing a reason: `key` (`circuit:12`, `board:3`), `kind` ("fail", "not-shown",
+    "empty-board") and `what` in words."""
+
+    key: str
+    kind: str
+    what: str
+
+
+def _short(text: str) -> str:
+    one = " ".join(text.split())
+    return one if len(one) <= _CAUSE_CHARS else one[: _CAUSE_CHARS - 1] + "…"
+
+
+def _circuit(row: dict[str, Any]) -> Concern:
+    label = f"{row['board']} circuit {row['number'] or row['id']}"
+    if row["description"]:
+        label += f" · {row['description']}"
+    what = f"{label}: {_WORDS[row['verdict']]}"
+    if row["cause"]:
+        what += f" ({_short(str(row['cause']))})"
+    return Concern(f"circuit:{row['id']}", row["verdict"], what)
+
+
+def concerns_of(core: Core, job_id: int) -> list[Concern]:
+    """The job's failing circuits, circuits not shown to pass and empty boards, in that order."""
+    core.row("job", job_id)
+    rows = core.query(
+        "SELECT c.id, c.number_raw AS number, c.description_raw AS description, c.verdict,"
+        " b.designation_raw AS board, json_extract(c.assessment, '$.primary_cause.text') AS cause"
+        " FROM circuits c JOIN boards b ON b.id = c.board_id WHERE b.job_id = ?"
+        " AND c.verdict IN ('fail', 'not-shown', 'incomplete') ORDER BY b.position, c.position",
+        (job_id,),
+    )
+    for row in rows:
+        row["verdict"] = "fail" if row["verdict"] == "fail" else "not-shown"
+    found = [_circuit(r) for r in rows if r["verdict"] == "fail"]
+    found += [_circuit(r) for r in rows if r["verdict"] == "not-shown"]
+    empty = core.query(
+        "SELECT b.id, b.designation_raw AS board FROM boards b WHERE b.job_id = ?"
+        " AND NOT EXISTS (SELECT 1 FROM circuits c WHERE c.board_id = b.id) ORDER BY b.position",
+        (job_id,),
+    )
+    found += [Concern(f"board:{b['id']}", "empty-board", f"board {b['board'] or b['id']} has no circuit")
+              for b in empty]
+    return found
