@@ -1,7 +1,10 @@
-"""Review: submit a job; a supervisor approves with name and PIN, or returns it with a comment."""
+"""Review: submit a job in the recorder's name; a supervisor checks what fails or is open (each
+approved with a written reason) and approves with their PIN or passphrase, or returns the job with a
+comment, confirmed by their PIN."""
 
 from __future__ import annotations
 
+import json
 from dataclasses import dataclass
 from typing import Any
 
@@ -18,6 +21,20 @@ class Outcome:
 
     ok: bool
     message: str
+
+
+@dataclass(frozen=True)
+class ReviewItem:
+    """One thing a supervisor must answer for before approving: its key (for its reason), a word
+    for its kind and what it is."""
+
+    key: str
+    kind: str
+    what: str
+
+
+_KIND_WORDS = {"fail": "Fails", "not-shown": "Not shown", "empty-board": "Empty board",
+               "observation": "Observation"}
 
 
 class ReviewState:
@@ -83,27 +100,46 @@ class ReviewState:
         return int(self.store.people.add(name.strip() or "Electrician", "qualified"))
 
     def submit(self, recorded_by: str) -> Outcome:
-        """Submit the job for review in the name of `recorded_by`."""
+        """Submit the job for review in the name of `recorded_by` (needed: the record keeps it)."""
+        if not recorded_by.strip():
+            return Outcome(False, "Enter your name: the record keeps who recorded the job")
         try:
             self.store.review.submit(self.job_id, self.recorder(recorded_by))
         except StoreError as exc:
             return Outcome(False, f"Not submitted: {exc}")
         return Outcome(True, "Submitted for review")
 
-    def approve(self, supervisor_name: str, secret: Secret) -> Outcome:
+    def items(self) -> list[ReviewItem]:
+        """What fails or is open, first: failing circuits, circuits not shown to pass, boards with
+        no circuit. Approving with any of them needs a written reason for each."""
+        return [ReviewItem(c.key, _KIND_WORDS.get(c.kind, c.kind), c.what)
+                for c in self.store.review.concerns(self.job_id)]
+
+    def unanswered(self, reasons: dict[str, str]) -> list[ReviewItem]:
+        """The items without a written reason in `reasons`."""
+        return [item for item in self.items() if not (reasons.get(item.key) or "").strip()]
+
+    def approve(self, supervisor_name: str, secret: Secret, reasons: dict[str, str] | None = None) -> Outcome:
         """Approve as the named supervisor: an enrolled supervisor's passphrase unlocks their key and
-        signs; a supervisor added on this device uses their PIN (an unverified approval).
+        signs; a supervisor added on this device uses their PIN (an unverified approval). Each item
+        of `items()` needs its written reason in `reasons` (by key); they go into the record.
 
         The server form may pass the text; the browser build passes what `approve_async` derives.
         """
         person = self._person(supervisor_name, "supervisor")
         if person is None:
             return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
+        missing = self.unanswered(reasons or {})
+        if missing:
+            count = len(missing)
+            return Outcome(False, f"Write a reason for each item listed: {count} without one "
+                                  f"(first: {missing[0].what})")
         if isinstance(secret, str) and not secret.strip():
             return Outcome(False, "Enter the supervisor's PIN or passphrase")
         try:
             self.store.review.approve(self.job_id, int(person["id"]),
-                                      secret.strip() if isinstance(secret, str) else secret)
+                                      secret.strip() if isinstance(secret, str) else secret,
+                                      {k: v.strip() for k, v in (reasons or {}).items()})
         except LockedOutError as exc:
             return Outcome(False, f"Locked: {exc}")
         except PinError as exc:
@@ -113,16 +149,17 @@ class ReviewState:
         note = "" if person.get("enrolled") else " (unverified: not enrolled by the office)"
         return Outcome(True, f"Approved by {person['name']}{note}")
 
-    async def approve_async(self, supervisor_name: str, secret: str) -> Outcome:
+    async def approve_async(self, supervisor_name: str, secret: str,
+                            reasons: dict[str, str] | None = None) -> Outcome:
         """`approve`, deriving the key first without blocking (the browser's WebCrypto)."""
         person = self._person(supervisor_name, "supervisor")
-        if person is None or not secret.strip():
-            return self.approve(supervisor_name, secret)
+        if person is None or not secret.strip() or self.unanswered(reasons or {}):
+            return self.approve(supervisor_name, secret, reasons)
         try:
             params = self.store.people.key_params(int(person["id"]))
         except StoreError as exc:
             return Outcome(False, f"Not approved: {exc}")
-        return self.approve(supervisor_name, await kdf.derive_for(secret.strip(), params))
+        return self.approve(supervisor_name, await kdf.derive_for(secret.strip(), params), reasons)
 
     def return_to_draft(self, supervisor_name: str, comment: str, pin: Secret = "") -> Outcome:
         """Return the job to its recorder with a comment (required), confirmed by the supervisor's
@@ -133,7 +170,7 @@ class ReviewState:
         if person is None:
             return Outcome(False, f"No supervisor called {supervisor_name.strip() or '(blank)'}")
         if isinstance(pin, str) and not pin.strip():
-            return Outcome(False, "Enter the supervisor's PIN to return the job")
+            return Outcome(False, "Enter the supervisor's PIN (or passphrase) to return the job")
         try:
             self.store.review.return_to_draft(self.job_id, int(person["id"]), comment.strip(),
                                               pin.strip() if isinstance(pin, str) else pin)
@@ -155,6 +192,12 @@ class ReviewState:
             return Outcome(False, f"Not added: {exc}")
         return Outcome(True, f"Supervisor {name.strip()} added")
 
+    def reasons_given(self) -> list[tuple[str, str]]:
+        """What the supervisor approved the job with and why: (what, reason) pairs."""
+        raw = self.store.jobs.get(self.job_id).get("approval_reasons")
+        items = json.loads(raw) if raw else []
+        return [(str(i.get("what") or ""), str(i.get("reason") or "")) for i in items if isinstance(i, dict)]
+
     def history(self, limit: int = 12) -> list[str]:
         """The job's review events as lines (`2026-12-02 07:30 · Approved (was In review) · Ann`)."""
         lines = []
@@ -163,6 +206,8 @@ class ReviewState:
                 what = f"{status_word(entry.get('new'))} (was {status_word(entry.get('old'))})"
             elif entry.get("entity") == "review" and entry.get("field") == "pin":
                 what = "PIN refused"
+            elif entry.get("entity") == "review" and entry.get("field") == "reason":
+                what = f"approved with {entry.get('old')}, because: {entry.get('new')}"
             elif entry.get("entity") == "review":
                 what = f"{entry.get('field') or 'review'}: {entry.get('new')}"
             elif entry.get("entity") == "job" and entry.get("new") == "created":

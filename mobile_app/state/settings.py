@@ -4,15 +4,25 @@ Setting keys in the store: `default_system`, `default_u0`, `default_cmin`, `fina
 ("32" or "63"), `sync_url`, `sync_user`, `sync_run_limit_s` and `sync_bundle_limit_s` (how long one
 sync run and one export's upload may take, from their start), `theme` ("light", "dark" or "system").
 The sync password is not a setting: it is handed to the sync step, which keeps it sealed.
+
+The office's roster (the firm's public key, pinned at set-up, and its enrolled supervisors) is
+loaded from a folder or a file on the device, and a supervisor's sealed key installed from its file
+(`store.roster`, see README "Signed approvals").
 """
 
 from __future__ import annotations
 
+import json
 from dataclasses import dataclass
+from pathlib import Path
 from typing import Any
 
 import calc
+from mobile_app.signing import SigningError
+from mobile_app.signing.ed25519 import key_id
+from mobile_app.signing.roster import firm_key_from_dict
 from mobile_app.store import StoreError
+from mobile_app.store.errors import TrustError
 
 DEFAULTS: dict[str, str] = {
     "default_system": "TN-C-S",
@@ -127,3 +137,66 @@ class SettingsState:
         except (SyncError, StoreError, OSError) as exc:
             return f"Not saved: {exc}"
         return "Office folder saved"
+
+    def supervisors_text(self) -> str:
+        """`Ines Okafor (enrolled by the office), Dana Reeve (this device only)`, or `None yet.`"""
+        people = [p for p in self.store.people.all() if p.get("role") == "supervisor"]
+        words = {True: " (enrolled by the office)", False: " (this device only)"}
+        return ", ".join(p["name"] + words[bool(p.get("enrolled"))] for p in people) or "None yet."
+
+    def firm_key_text(self) -> str:
+        """Whether the firm's key is pinned on this device, and which (its short id)."""
+        pinned = self.store.roster.firm_key()
+        if pinned is None:
+            return "No firm key pinned yet: load the office's roster folder (or its firm-key.json) to pin it."
+        return f"Firm key pinned: {key_id(pinned)}. A roster signed by another key is refused."
+
+    def load_roster(self, place: str) -> str:
+        """Load the office's roster from a folder (`roster/`: pins the firm key in its firm-key.json,
+        enrols every supervisor in it) or one file (the firm key, or one roster entry)."""
+        path = Path(place.strip()).expanduser()
+        if not place.strip():
+            return "Not loaded: enter the roster folder or file"
+        try:
+            if path.is_dir():
+                names = self.store.roster.load_folder(path)
+            elif path.is_file():
+                names = self._load_file(path)
+            else:
+                return f"Not loaded: {path} is not a folder or file on this device"
+        except StoreError as exc:
+            return f"Not loaded: {exc}"
+        if names is None:
+            return "Firm key pinned"
+        return "Enrolled by the office: " + (", ".join(names) or "nobody (no roster entries there)")
+
+    def _load_file(self, path: Path) -> list[str] | None:
+        """A firm key (pinned: returns None) or one roster entry (returns the name enrolled)."""
+        data = _read_json(path)
+        try:
+            firm_key = firm_key_from_dict(data)
+        except SigningError:
+            return list(self.store.roster.load([data]))
+        self.store.roster.pin_firm_key(firm_key)
+        return None
+
+    def install_key(self, place: str) -> str:
+        """Install an enrolled supervisor's sealed key from the office's file for their device."""
+        path = Path(place.strip()).expanduser()
+        if not place.strip() or not path.is_file():
+            return "Not installed: enter the key file's place on this device"
+        try:
+            name = self.store.roster.install_key(_read_json(path))
+        except StoreError as exc:
+            return f"Not installed: {exc}"
+        return f"Key of {name} installed: {name} approves with the passphrase"
+
+
+def _read_json(path: Path) -> Any:
+    """A small JSON file's content; TrustError (a StoreError) if it cannot be read."""
+    try:
+        if path.stat().st_size > 1 << 20:
+            raise TrustError(f"{path.name} is too large for a key or roster file")
+        return json.loads(path.read_text(encoding="utf-8"))
+    except (OSError, ValueError) as exc:
+        raise TrustError(f"{path.name} cannot be read ({exc})") from exc

@@ -13,7 +13,7 @@ from typing import Any
 from mobile_app.store import StoreError
 from mobile_app.store.removals import Removed
 
-KINDS: tuple[str, ...] = ("circuit", "board", "curve")
+KINDS: tuple[str, ...] = ("circuit", "board", "job", "curve")
 
 
 @dataclass(frozen=True)
@@ -41,8 +41,8 @@ class UndoTrail:
             self.route = path
 
     def delete(self, kind: str, item_id: int) -> Done:
-        """Delete a circuit, board or saved curve (recorded in the audit trail); it can be undone
-        from this screen."""
+        """Delete a circuit, board, draft job or saved curve (recorded in the audit trail); it can be
+        undone from this screen."""
         remove = getattr(self.store.removals, kind) if kind in KINDS else None
         if remove is None:
             return Done(False, f"Nothing called {kind} can be deleted")

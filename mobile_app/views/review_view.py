@@ -1,4 +1,5 @@
-"""Review: submit the job; a supervisor approves with name and PIN or returns it with a comment."""
+"""Review: submit the job in your name; a supervisor reads what fails or is open first (a reason
+for each), then approves with their PIN or passphrase, or returns the job with a comment and PIN."""
 
 from __future__ import annotations
 
@@ -8,7 +9,25 @@ import flet as ft
 
 from mobile_app.components.screen import screen
 from mobile_app.state.outbox import OutboxState
-from mobile_app.state.review import Outcome, ReviewState
+from mobile_app.state.review import Outcome, ReviewItem, ReviewState
+
+
+def _item(item: ReviewItem, reasons: dict[str, str], editable: bool) -> ft.Control:
+    """One thing to answer for, with the supervisor's reason for approving with it."""
+    parts: list[ft.Control] = [
+        ft.Text(item.kind.upper(), size=12, weight=ft.FontWeight.BOLD),
+        ft.Text(item.what, size=14),
+    ]
+    if editable:
+
+        def typed(e: ft.Event[ft.TextField]) -> None:
+            reasons[item.key] = e.control.value or ""
+
+        parts.append(ft.TextField(key=f"reason-{item.key}", label="Reason for approving with this",
+                                  value=reasons.get(item.key, ""), multiline=True, min_lines=1,
+                                  max_lines=4, on_change=typed))
+    return ft.Container(ft.Column(parts, spacing=4, tight=True), padding=10, border_radius=8,
+                        border=ft.Border.all(1, ft.Colors.OUTLINE))
 
 
 def build(shell: Any, job_id: str) -> ft.View:
@@ -25,6 +44,7 @@ def build(shell: Any, job_id: str) -> ft.View:
             message.value = outcome.message
             message.color = ft.Colors.ERROR
             message.update()
+            shell.toast(outcome.message)
 
     body: list[ft.Control] = [
         ft.Text(f"Status: {review.status_word}", size=20, weight=ft.FontWeight.BOLD, key="review-status"),
@@ -62,8 +82,13 @@ def build(shell: Any, job_id: str) -> ft.View:
                 shell.toast(outcome.message)
                 shell.go(f"/job/{new_id}")
 
+        given = review.reasons_given()
+        body.append(ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28), ft.Text("Approved and locked.", size=16)]))
+        if given:
+            body.append(ft.Text("Approved with these, for the reasons given:", size=16,
+                                weight=ft.FontWeight.BOLD, key="reasons-given"))
+            body.extend(ft.Text(f"• {what} — {why}", size=14) for what, why in given)
         body += [
-            ft.Row([ft.Icon(ft.Icons.VERIFIED, size=28), ft.Text("Approved and locked.", size=16)]),
             ft.Row([
                 ft.FilledButton("Export to outbox", icon=ft.Icons.OUTBOX, height=48,
                                 key="export-job", on_click=export),
@@ -77,23 +102,33 @@ def build(shell: Any, job_id: str) -> ft.View:
                               key="open-revision", on_click=revise),
         ]
     else:
+        reasons: dict[str, str] = shell.session_value(f"review-reasons-{job_id}", dict)
+        items = review.items()
         supervisor = ft.TextField(key="supervisor-name", label="Supervisor name")
-        pin = ft.TextField(key="supervisor-pin", label="PIN", password=True,
-                           keyboard_type=ft.KeyboardType.NUMBER)
+        pin = ft.TextField(key="supervisor-pin", label="PIN or passphrase", password=True,
+                           can_reveal_password=True)
         comment = ft.TextField(key="return-comment", label="Comment (to return the job)",
                                multiline=True, min_lines=2)
+        if items:
+            body += [
+                ft.Text(f"Check first: {len(items)} item{'s' * (len(items) != 1)} fail or are open",
+                        size=18, weight=ft.FontWeight.BOLD, key="review-items"),
+                ft.Text("Approving with any of these needs your reason for each; it goes into the "
+                        "record and the PDF. Or return the job to have them put right.", size=14),
+                *(_item(item, reasons, True) for item in items),
+            ]
         body += [
-            ft.Text("Supervisor: check the circuits, then approve with your PIN or return the job "
-                    "with a comment.", size=15),
+            ft.Text("Supervisor: approve with your PIN (or your passphrase if the office enrolled "
+                    "you), or return the job with a comment.", size=15),
             supervisor,
             pin,
             ft.FilledButton("Approve", icon=ft.Icons.VERIFIED, height=48, key="approve",
                             on_click=lambda _e: show(review.approve(supervisor.value or "",
-                                                                    pin.value or ""))),
+                                                                    pin.value or "", reasons))),
             comment,
             ft.OutlinedButton("Return to draft", icon=ft.Icons.UNDO, height=48, key="return-draft",
                               on_click=lambda _e: show(review.return_to_draft(
-                                  supervisor.value or "", comment.value or ""))),
+                                  supervisor.value or "", comment.value or "", pin.value or ""))),
         ]
     body.append(message)
     history = review.history()

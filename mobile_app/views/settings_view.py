@@ -1,4 +1,5 @@
-"""Settings: supply defaults, final-circuit scope, theme, the office folder and supervisors."""
+"""Settings: supply defaults, final-circuit scope, theme, the office folder, the office's roster
+(the firm key pinned at set-up, enrolled supervisors, their key files) and supervisors."""
 
 from __future__ import annotations
 
@@ -42,6 +43,21 @@ def build(shell: Any) -> ft.View:
                                                     password.value or "")
         office_message.update()
 
+    roster_place = ft.TextField(key="roster-place", label="Roster folder or file on this device",
+                                hint_text="e.g. /sdcard/Office/roster")
+    key_place = ft.TextField(key="key-place", label="Supervisor's key file on this device")
+    roster_message = ft.Text("", size=14, key="roster-message")
+    firm = ft.Text(settings.firm_key_text(), size=14, key="firm-key")
+
+    def said(text: str) -> None:
+        roster_message.value = text
+        roster_message.color = ft.Colors.ERROR if text.startswith("Not ") else None
+        firm.value = settings.firm_key_text()
+        supervisors.value = settings.supervisors_text()
+        for control in (roster_message, firm, supervisors):
+            control.update()
+
+    supervisors = ft.Text(settings.supervisors_text(), size=14, key="supervisor-list")
     sup_name = ft.TextField(key="new-supervisor-name", label="Supervisor name")
     sup_pin = ft.TextField(key="new-supervisor-pin", label="Supervisor PIN", password=True,
                            keyboard_type=ft.KeyboardType.NUMBER)
@@ -51,7 +67,9 @@ def build(shell: Any) -> ft.View:
         outcome = ReviewState(shell.store, 0).add_supervisor(sup_name.value or "", sup_pin.value or "")
         sup_message.value = outcome.message
         sup_message.color = None if outcome.ok else ft.Colors.ERROR
+        supervisors.value = settings.supervisors_text()
         sup_message.update()
+        supervisors.update()
 
     body: list[ft.Control] = [
         ft.Text("Defaults for new jobs", size=20, weight=ft.FontWeight.BOLD),
@@ -80,9 +98,19 @@ def build(shell: Any) -> ft.View:
                    saver("sync_run_limit_s"), numeric=True),
         text_input("set-sync_bundle_limit_s", "Longest upload of one export (s)",
                    settings.get("sync_bundle_limit_s"), saver("sync_bundle_limit_s"), numeric=True),
+        ft.Text("Office roster", size=20, weight=ft.FontWeight.BOLD),
+        firm,
+        ft.Text("Supervisors the office enrolled sign their approvals; the office verifies them. Load "
+                "the roster the office gave you (its roster folder, or one file of it).", size=14),
+        roster_place,
+        ft.OutlinedButton("Load roster", icon=ft.Icons.FOLDER_OPEN, height=48, key="load-roster",
+                          on_click=lambda _e: said(settings.load_roster(roster_place.value or ""))),
+        key_place,
+        ft.OutlinedButton("Install supervisor's key", icon=ft.Icons.KEY, height=48, key="install-key",
+                          on_click=lambda _e: said(settings.install_key(key_place.value or ""))),
+        roster_message,
         ft.Text("Supervisors", size=20, weight=ft.FontWeight.BOLD),
-        ft.Text(", ".join(p["name"] for p in ReviewState(shell.store, 0).supervisors()) or "None yet.",
-                size=14),
+        supervisors,
         sup_name,
         sup_pin,
         ft.OutlinedButton("Add supervisor", icon=ft.Icons.PERSON_ADD, height=48,
