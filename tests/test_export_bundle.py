@@ -12,6 +12,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 from pypdf import PdfReader
 
 import mobile_app.export.bundle as bundle_module
@@ -153,7 +154,7 @@ def test_no_secret_reaches_a_bundle(tmp_path: Path) -> None:
         job_id = create_demo_job(store)
         people = {person["name"]: person["id"] for person in store.people.all()}
         store.review.submit(job_id, people["Rosa Quennell"])
-        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(store, job_id))
         password = "Office-Secret-7f3Q"
         save_target(store, "https://office.example/dav/boardside/", "field-tablet", password)
         bundle = export_bundle(store, job_id, tmp_path / "out")

@@ -12,6 +12,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
+from approving import reasons_for
 
 import mobile_app.export as export_package
 import mobile_app.export.json_doc as export_json
@@ -161,7 +162,7 @@ def test_an_approval_by_a_supervisor_the_office_never_enrolled_comes_back_submit
         job_id = create_demo_job(site)
         people = {p["name"]: p["id"] for p in site.people.all()}
         site.review.submit(job_id, people["Rosa Quennell"])
-        site.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        site.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(site, job_id))
         original = site.documents.export(job_id)
     assert original["approval"]["supervisor"] == "Ines Okafor" and original["roster_entry"] is None
     with Store.open(tmp_path / "office") as office:
@@ -265,7 +266,7 @@ def test_an_approval_covers_instruments_and_observations(tmp_path: Path) -> None
         job_id = create_demo_job(store)
         people = {p["name"]: p["id"] for p in store.people.all()}
         store.review.submit(job_id, people["Rosa Quennell"])
-        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(store, job_id))
         doc = store.documents.export(job_id)
     assert check_document(doc, None, lambda _key, _at: None).state != BROKEN
     doc["observations"][0]["fields"]["severity"]["raw"] = "note"

@@ -8,6 +8,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 from pypdf import PdfReader
 
 from mobile_app.export import CAUTIONS, job_pdf_bytes
@@ -23,7 +24,7 @@ def approved_pdf(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[dic
     job_id = create_demo_job(store)
     people = {person["name"]: person["id"] for person in store.people.all()}
     store.review.submit(job_id, people["Rosa Quennell"])
-    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(store, job_id))
     doc = store.documents.export(job_id)
     store.close()
     reader = PdfReader(io.BytesIO(job_pdf_bytes(doc)))

@@ -11,6 +11,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 from pdf_rows import body, rows, squash
 from pypdf import PdfReader
 
@@ -71,7 +72,7 @@ def demo(tmp_path_factory: pytest.TempPathFactory) -> Iterator[tuple[dict, bytes
         job_id = create_demo_job(store)
         people = {p["name"]: p["id"] for p in store.people.all()}
         store.review.submit(job_id, people["Rosa Quennell"])
-        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+        store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(store, job_id))
         yield (*draft, *_pdf(store, job_id))
 
 

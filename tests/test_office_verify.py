@@ -13,6 +13,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
+from approving import reasons_for
 
 from mobile_app.export.bundle import MANIFEST_NAME, write_bundle
 from mobile_app.signing import generate_key_pair, sealed_from_dict, sign_approval, unlock
@@ -46,7 +47,7 @@ def approved_doc(tmp_path_factory: pytest.TempPathFactory) -> dict[str, Any]:
     job_id = create_demo_job(store)
     people = {p["name"]: p["id"] for p in store.people.all()}
     store.review.submit(job_id, people["Tomasz Brill"])
-    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN)
+    store.review.approve(job_id, people["Ines Okafor"], DEMO_PIN, reasons_for(store, job_id))
     doc = store.documents.export(job_id)
     store.close()
     return doc
@@ -108,6 +109,19 @@ def test_a_changed_reading_with_a_rehashed_manifest_fails_naming_the_circuit(off
     number = board["circuits"][1]["number"]
     assert result.stdout == (f"changed reading: board {board['designation']} circuit {number} "
                              "differ from what was approved\n")
+
+
+def test_a_changed_approval_reason_with_a_rehashed_manifest_fails(office, approved_doc, tmp_path):
+    assert approved_doc["job"]["approval_reasons"]  # the demo is approved with failing circuits
+    path = bundle(with_approval(approved_doc, office), tmp_path)
+
+    def change(doc: dict[str, Any]) -> None:
+        doc["job"]["approval_reasons"][0]["reason"] = "no reason at all"
+
+    edit_json_and_rehash(path, change)
+    result = run("verify", path, "--office", office)
+    assert result.returncode == 3
+    assert result.stdout == "changed reading: the job differ from what was approved\n"
 
 
 def test_a_file_changed_without_rehashing_fails(office, approved_doc, tmp_path) -> None:

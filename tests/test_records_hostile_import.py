@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
+from approving import reasons_for
 from bench_export import build_job
 
 from mobile_app.export import import_job_json, job_json_bytes
@@ -34,7 +35,7 @@ def exported(tmp_path_factory) -> dict[str, Any]:
         job_id = create_demo_job(store)
         people = {p["name"]: p["id"] for p in store.people.all()}
         store.review.submit(job_id, people["Rosa Quennell"])
-        store.review.approve(job_id, people["Ines Okafor"], "2468")
+        store.review.approve(job_id, people["Ines Okafor"], "2468", reasons_for(store, job_id))
         return json.loads(job_json_bytes(store.documents.export(job_id)))
 
 

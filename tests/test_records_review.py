@@ -6,6 +6,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 
 from mobile_app.store import (
     LockedOutError,
@@ -80,7 +81,7 @@ def test_draft_submitted_approved(store: Store) -> None:
     job_id, circuit_id = draft_job(store, people.apprentice)
     store.review.submit(job_id, people.apprentice)
     assert store.jobs.get(job_id)["status"] == "submitted"
-    store.review.approve(job_id, people.supervisor, PIN)
+    store.review.approve(job_id, people.supervisor, PIN, reasons_for(store, job_id))
     job = store.jobs.get(job_id)
     assert (job["status"], job["approved_by"], job["submitted_by"]) == (
         "approved",
@@ -121,12 +122,12 @@ def test_review_steps_out_of_order_are_refused(store: Store) -> None:
     people = People(store)
     job_id, _ = draft_job(store, people.qualified)
     with pytest.raises(ReviewError, match="is draft, not submitted"):
-        store.review.approve(job_id, people.supervisor, PIN)
+        store.review.approve(job_id, people.supervisor, PIN, reasons_for(store, job_id))
     store.review.submit(job_id, people.qualified)
     with pytest.raises(ReviewError, match="is submitted, not draft"):
         store.review.submit(job_id, people.qualified)
     with pytest.raises(ReviewError, match="is not a supervisor"):
-        store.review.approve(job_id, people.qualified, PIN)
+        store.review.approve(job_id, people.qualified, PIN, reasons_for(store, job_id))
 
 
 def test_wrong_pins_count_down_then_lock_out_even_the_right_pin_whatever_the_clock(store: Store) -> None:
@@ -135,14 +136,14 @@ def test_wrong_pins_count_down_then_lock_out_even_the_right_pin_whatever_the_clo
     store.review.submit(job_id, people.qualified)
     for left in range(MAX_WRONG_PINS - 1, 0, -1):
         with pytest.raises(PinError) as caught:
-            store.review.approve(job_id, people.supervisor, "0000")
+            store.review.approve(job_id, people.supervisor, "0000", reasons_for(store, job_id))
         assert str(caught.value) == f"wrong PIN ({left} attempts left before a lock-out)"
         assert not isinstance(caught.value, LockedOutError)
     with pytest.raises(LockedOutError, match="Sue Supervisor is locked after 5 wrong attempts"):
-        store.review.approve(job_id, people.supervisor, "0000")
+        store.review.approve(job_id, people.supervisor, "0000", reasons_for(store, job_id))
     store.core.clock.now += 10 * 365 * 24 * 3600  # a clock moved forward buys nothing
     with pytest.raises(LockedOutError, match="stays locked"):
-        store.review.approve(job_id, people.supervisor, PIN)
+        store.review.approve(job_id, people.supervisor, PIN, reasons_for(store, job_id))
     assert store.jobs.get(job_id)["status"] == "submitted"
     wrong = [a for a in store.jobs.audit(job_id) if a["field"] == "pin"]
     assert len(wrong) == MAX_WRONG_PINS and all(a["who"] == "Sue Supervisor" for a in wrong)
@@ -155,8 +156,8 @@ def test_a_right_pin_resets_the_count_of_wrong_ones(store: Store) -> None:
         store.review.submit(job_id, people.qualified)
         for _ in range(MAX_WRONG_PINS - 1):
             with pytest.raises(PinError):
-                store.review.approve(job_id, people.supervisor, "1111")
-        store.review.approve(job_id, people.supervisor, PIN)
+                store.review.approve(job_id, people.supervisor, "1111", reasons_for(store, job_id))
+        store.review.approve(job_id, people.supervisor, PIN, reasons_for(store, job_id))
 
 
 def test_a_supervisor_without_a_pin_cannot_approve(store: Store) -> None:
@@ -165,16 +166,16 @@ def test_a_supervisor_without_a_pin_cannot_approve(store: Store) -> None:
     job_id, _ = draft_job(store, people.qualified)
     store.review.submit(job_id, people.qualified)
     with pytest.raises(PinError, match="no PIN is set for Nell"):
-        store.review.approve(job_id, no_pin, "1234")
+        store.review.approve(job_id, no_pin, "1234", reasons_for(store, job_id))
     store.people.set_pin(no_pin, "1234")
-    store.review.approve(job_id, no_pin, "1234")
+    store.review.approve(job_id, no_pin, "1234", reasons_for(store, job_id))
 
 
 def test_revision_copies_the_approved_job_and_leaves_it_unchanged(store: Store) -> None:
     people = People(store)
     job_id, circuit_id = draft_job(store, people.qualified)
     store.review.submit(job_id, people.qualified)
-    store.review.approve(job_id, people.supervisor, PIN)
+    store.review.approve(job_id, people.supervisor, PIN, reasons_for(store, job_id))
     approved = store.documents.export(job_id)
     with pytest.raises(ReviewError, match="a reason is needed"):
         store.review.open_revision(job_id, " ", people.qualified)

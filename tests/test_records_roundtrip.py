@@ -8,6 +8,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
@@ -158,7 +159,7 @@ def reviewed_revisions(store: Store) -> tuple[int, int]:
                                  DEMO_PIN)
     store.circuits.set_field(3, "zs", "0.41 Ω", by=rosa)
     store.review.submit(job_id, rosa)
-    store.review.approve(job_id, ines, DEMO_PIN)
+    store.review.approve(job_id, ines, DEMO_PIN, reasons_for(store, job_id))
     revision_id = store.review.open_revision(job_id, "Board DB2 replaced", by=rosa)
     store.jobs.set_field(revision_id, "description", "After the DB2 swap", by=rosa)
     store.review.submit(revision_id, rosa)

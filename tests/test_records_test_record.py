@@ -10,6 +10,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 
 from mobile_app.store import Store
 from mobile_app.store.core import STORE_FILE
@@ -315,7 +316,7 @@ def test_a_new_revision_keeps_instruments_and_observations(store: Store) -> None
     person = store.people.add("Ann Field", "qualified")
     boss = store.people.add("Bo Senior", "supervisor", DEMO_PIN)
     store.review.submit(job_id, person)
-    store.review.approve(job_id, boss, DEMO_PIN)
+    store.review.approve(job_id, boss, DEMO_PIN, reasons_for(store, job_id))
     new_id = store.review.open_revision(job_id, "client asked for a re-test", person)
     new_circuit = store.circuits.of_board(store.boards.of_job(new_id)[0]["id"])[0]["id"]
     copied = store.observations.of_job(new_id)[0]

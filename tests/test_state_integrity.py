@@ -5,6 +5,8 @@ from __future__ import annotations
 import sqlite3
 from pathlib import Path
 
+from approving import reasons_for
+
 from mobile_app.state.integrity import IntegrityNotice
 from mobile_app.store import Store
 from mobile_app.store.demo import DEMO_PIN, create_demo_job
@@ -16,7 +18,7 @@ def test_a_status_set_to_approved_in_the_file_is_announced_and_marked(tmp_path: 
         signed = create_demo_job(store)
         people = {p["name"]: p["id"] for p in store.people.all()}
         store.review.submit(signed, people["Rosa Quennell"])
-        store.review.approve(signed, people["Ines Okafor"], DEMO_PIN)
+        store.review.approve(signed, people["Ines Okafor"], DEMO_PIN, reasons_for(store, signed))
         notice = IntegrityNotice(store)
         assert notice.banner is None and notice.mark(job_id) is None
         assert notice.mark(signed) == "unverified: Ines Okafor is not enrolled by the firm"

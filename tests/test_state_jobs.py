@@ -5,6 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 
 from mobile_app.state import CurveDraft, JobScreen, JobsList, ReviewState, SettingsState, Walk
 from mobile_app.state.jobs import demo_if_empty, ensure_demo
@@ -56,10 +57,15 @@ def test_review_submit_wrong_pin_then_approve(store) -> None:
     assert review.add_supervisor("Ann Supervisor", "135790").ok
     assert review.submit("Sam").ok
     assert review.status_word == "In review"
-    wrong = review.approve("Ann Supervisor", "000000")
+    assert [item.what for item in review.items()] == ["board DB1 has no circuit"]
+    unanswered = review.approve("Ann Supervisor", "135790")
+    assert not unanswered.ok and unanswered.message == (
+        "Write a reason for each item listed: 1 without one (first: board DB1 has no circuit)")
+    reasons = reasons_for(store, job_id)
+    wrong = review.approve("Ann Supervisor", "000000", reasons)
     assert not wrong.ok and wrong.message.startswith("PIN not accepted")
-    assert not review.approve("Nobody", "135790").ok
-    assert review.approve("ann supervisor", "135790").ok
+    assert not review.approve("Nobody", "135790", reasons).ok
+    assert review.approve("ann supervisor", "135790", reasons).ok
     assert review.status == "approved"
     assert JobScreen(store, job_id).read_only
     assert any("Approved" in line for line in review.history())
@@ -147,8 +153,8 @@ def test_returned_comment_and_new_revision(store) -> None:
     review.return_to_draft("Ann", "Add R1+R2 on circuit 2", "135790")
     assert review.comment == "Add R1+R2 on circuit 2"
     review.submit("Sam")
-    review.approve("Ann", "000000")
-    review.approve("Ann", "135790")
+    review.approve("Ann", "000000", reasons_for(store, job_id))
+    review.approve("Ann", "135790", reasons_for(store, job_id))
     assert any("PIN refused · Ann" in line for line in review.history())
     outcome, new_id = review.open_revision("  ", "Sam")
     assert not outcome.ok and new_id is None

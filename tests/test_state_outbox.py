@@ -6,6 +6,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
+from approving import reasons_for
+
 from mobile_app.state import JobsList, ReviewState
 from mobile_app.state.outbox import OutboxState
 from mobile_app.store import Store
@@ -17,7 +19,7 @@ def test_export_queues_and_lists(tmp_path: Path) -> None:
         review = ReviewState(store, job_id)
         review.add_supervisor("Ann", "135790")
         review.submit("Sam")
-        review.approve("Ann", "135790")
+        review.approve("Ann", "135790", reasons_for(store, job_id))
         outbox = OutboxState(store)
         assert outbox.summary() == "0 waiting · 0 sent"
         message = outbox.export_job(job_id)
@@ -33,7 +35,7 @@ def _approved(store: Store, name: str) -> int:
     review = ReviewState(store, job_id)
     review.add_supervisor("Ann", "135790")
     review.submit("Sam")
-    review.approve("Ann", "135790")
+    review.approve("Ann", "135790", reasons_for(store, job_id))
     return job_id
 
 
@@ -81,7 +83,7 @@ def test_send_now_to_a_real_webdav_folder(tmp_path: Path) -> None:
             review = ReviewState(store, job_id)
             review.add_supervisor("Ann", "135790")
             review.submit("Sam")
-            review.approve("Ann", "135790")
+            review.approve("Ann", "135790", reasons_for(store, job_id))
             outbox = OutboxState(store)
             outbox.export_job(job_id)
             assert SettingsState(store).save_office(server.url, server.user, server.password) == (

@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 import pytest
+from approving import reasons_for
 from pypdf import PdfReader
 
 from mobile_app.export import export_bundle
@@ -81,8 +82,8 @@ def test_the_whole_chain(office: Path, tmp_path: Path) -> None:
         ines = set_up_device(store, office)
         job_id = submitted_demo(store)
         with pytest.raises(PinError, match="wrong passphrase"):
-            store.review.approve(job_id, ines, PASSPHRASE + "x")
-        store.review.approve(job_id, ines, PASSPHRASE)
+            store.review.approve(job_id, ines, PASSPHRASE + "x", reasons_for(store, job_id))
+        store.review.approve(job_id, ines, PASSPHRASE, reasons_for(store, job_id))
         approved_at = store.jobs.get(job_id)["approved_at"]
         bundle = export_bundle(store, job_id, tmp_path / "out").path
         assert store.integrity.check().ok
@@ -103,7 +104,7 @@ def test_a_device_only_supervisor_is_unverified_at_the_office(office: Path, tmp_
     with Store.open(tmp_path / "device") as store:
         job_id = submitted_demo(store)  # the demo's Ines Okafor was added on the device with a PIN
         ines = next(p["id"] for p in store.people.all() if p["name"] == SUPERVISOR)
-        store.review.approve(job_id, ines, DEMO_PIN)
+        store.review.approve(job_id, ines, DEMO_PIN, reasons_for(store, job_id))
         bundle = export_bundle(store, job_id, tmp_path / "out").path
         assert store.integrity.check().unverified == {job_id: f"{SUPERVISOR} is not enrolled by the firm"}
     pdf_text = " ".join(page.extract_text() for page in PdfReader(next(bundle.glob("*.pdf"))).pages)
@@ -117,7 +118,7 @@ def test_an_enrolled_approval_survives_import_and_a_forged_one_does_not(office: 
     with Store.open(tmp_path / "site") as site:
         ines = set_up_device(site, office)
         job_id = submitted_demo(site)
-        site.review.approve(job_id, ines, PASSPHRASE)
+        site.review.approve(job_id, ines, PASSPHRASE, reasons_for(site, job_id))
         genuine = site.documents.export(job_id)
     forged = json.loads(json.dumps(genuine))
     forged["boards"][0]["circuits"][2]["fields"]["zs"]["value"] = 0.12
@@ -136,7 +137,7 @@ def test_a_forged_later_revision_does_not_supersede_the_approved_job(office: Pat
     with Store.open(tmp_path / "site") as site:
         ines = set_up_device(site, office)
         job_id = submitted_demo(site)
-        site.review.approve(job_id, ines, PASSPHRASE)
+        site.review.approve(job_id, ines, PASSPHRASE, reasons_for(site, job_id))
         genuine = site.documents.export(job_id)
     forged = json.loads(json.dumps(genuine))
     forged["job"].update(revision=2, parent_job_id=forged["job"]["id"], revision_reason="forged")
@@ -181,7 +182,7 @@ def test_parallel_wrong_attempts_cannot_race_the_counter(tmp_path: Path) -> None
     def attempt(pin: str) -> None:
         with Store.open(tmp_path) as own:  # a connection of its own, as another window would have
             try:
-                own.review.approve(job_id, ines, pin)
+                own.review.approve(job_id, ines, pin, reasons_for(own, job_id))
                 outcomes.append("approved")
             except LockedOutError:
                 outcomes.append("locked")
@@ -210,7 +211,7 @@ def test_edits_to_the_store_file_are_found(office: Path, tmp_path: Path) -> None
     with Store.open(tmp_path) as store:
         ines = set_up_device(store, office)
         approved = submitted_demo(store)
-        store.review.approve(approved, ines, PASSPHRASE)
+        store.review.approve(approved, ines, PASSPHRASE, reasons_for(store, approved))
         other = create_demo_job(store)
         path = store.path
     edited(path, "UPDATE jobs SET status = 'approved' WHERE id = ?", (other,))

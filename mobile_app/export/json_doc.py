@@ -146,6 +146,11 @@ Every reading and setting is kept exactly as typed beside what it means:
   submitted).
 - `approved_by`, `approved_at`: the supervisor who approved it and when (`null` until approved).
 - `review_comment`: the reviewer's comment when the job was returned to draft, else `null`.
+- `approval_reasons`: what the supervisor approved the job with and why: one entry for each failing
+  circuit, circuit not shown to pass, board with no circuit and open observation at approval, each
+  with `item` (its kind and number here: `circuit:12`, `board:3`, `observation:5`), `what` (it in
+  words) and `reason` (as written); empty for a job approved with nothing open. Covered by the
+  approval's signature when not empty.
 - `overall`: the job's overall outcome when exported: `outcome` (`satisfactory` when every circuit
   passes and no observation is serious; `unsatisfactory` when a circuit fails or an observation is
   serious; `not-shown` while anything is undecided) and `reasons` (sentences, the deciding ones first).

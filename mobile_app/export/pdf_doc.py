@@ -161,6 +161,14 @@ def _signatures(pdf: FPDF, doc: dict[str, Any]) -> None:
     pdf.ln(1)
     if job.get("review_comment"):
         paragraph(pdf, 4.5, f"Review comment: {one_line(job['review_comment'])}")
+    reasons = [r for r in job.get("approval_reasons") or [] if isinstance(r, dict)]
+    if reasons:
+        use_font(pdf, "B", 9)
+        paragraph(pdf, 5, "Approved with these items open, for the reasons the supervisor gave:")
+        use_font(pdf, "", 9)
+        for item in reasons:
+            paragraph(pdf, 4.5, f"• {one_line(item.get('what') or '')}: {one_line(item.get('reason') or '')}",
+                      indent_mm=2)
     if job.get("status") == "approved" and doc.get("roster_entry") is None:
         use_font(pdf, "B", 9)
         paragraph(pdf, 5, "Unverified approval: the supervisor was not enrolled by the office, and the "

@@ -13,8 +13,9 @@ The document (EXPORT-FORMAT.md, "boardside-job") is cut into parts, each hashed 
 
 A field added in version 2 of the document (the whole test record) counts only when something was
 typed into it: blank, it hashes as if absent, so an approval made before those fields existed still
-holds once the store has them. The overall outcome is left out: it follows from the circuits'
-verdicts and the observations, which are covered.
+holds once the store has them. The same holds for the job's `approval_reasons` (what the supervisor
+wrote for each failing or open item they approved with): covered when there are any. The overall
+outcome is left out: it follows from the circuits' verdicts and the observations, which are covered.
 
 Left out: what the store numbers locally (ids, which an import renumbers), what approval itself
 sets (`status`, `approved_by`, `approved_at`: the approval carries its own), what each export
@@ -43,6 +44,8 @@ ADDED_IN_VERSION_2 = {
 }
 """The fields each level gained in version 2 of the job document (EXPORT-FORMAT.md)."""
 _ITEMS_LEFT_OUT = frozenset({"id", "circuit_ids"})
+_COUNT_WHEN_GIVEN = frozenset({"approval_reasons"})
+"""Keys added since approvals were first signed that count only when they hold something."""
 
 
 def _blank(field: Any) -> bool:
@@ -60,7 +63,7 @@ def _fields(fields: Any, level: str) -> Any:
 
 
 def _with_fields(item: dict[str, Any], level: str, left_out: frozenset[str]) -> dict[str, Any]:
-    part = {k: v for k, v in item.items() if k not in left_out}
+    part = {k: v for k, v in item.items() if k not in left_out and not (k in _COUNT_WHEN_GIVEN and not v)}
     if "fields" in part:
         part["fields"] = _fields(part["fields"], level)
     return part

@@ -8,11 +8,11 @@ which folder.
 
 from __future__ import annotations
 
-import datetime
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
+from mobile_app.export.figures import local_time
 from mobile_app.store import StoreError
 from mobile_app.sync import Outbox, OutboxError
 from mobile_app.sync.outbox import iso, utc_now
@@ -20,20 +20,6 @@ from mobile_app.sync.outbox import iso, utc_now
 NO_FOLDER = "No office folder set"
 NO_FOLDER_DETAIL = ("Exports wait on this device until an office folder is set in Settings; "
                     "nothing is tried before then.")
-
-
-def local_time(stamp: object) -> str:
-    """An ISO-8601 time as local time written out: `2 Dec 2026, 07:22 CET`; blank if none."""
-    if not stamp:
-        return ""
-    try:
-        moment = datetime.datetime.fromisoformat(str(stamp))
-    except ValueError:
-        return str(stamp)
-    if moment.tzinfo is None:
-        moment = moment.replace(tzinfo=datetime.UTC)
-    local = moment.astimezone()
-    return f"{local.day} {local:%b %Y, %H:%M} {local.tzname() or ''}".rstrip()
 
 
 @dataclass(frozen=True)

@@ -1,7 +1,8 @@
 """What a supervisor must answer for before approving a job (pure reads, no writes).
 
-Failing circuits first, then circuits not shown to pass, then boards with no circuit: approving a job
-with any of them needs a written reason for each (`Review.approve`), kept with the approval.
+Failing circuits first, then circuits not shown to pass, boards with no circuit, and observations
+still open (serious, needing attention, or with no severity given): approving a job with any of them
+needs a written reason for each (`Review.approve`), kept with the approval.
 """
 
 from __future__ import annotations
@@ -12,13 +13,14 @@ from typing import Any
 from mobile_app.store.core import Core
 
 _WORDS = {"fail": "fails", "not-shown": "not shown to pass"}
+OPEN_SEVERITIES = {"serious": "serious", "attention": "needs attention"}  # a note needs no answer
 _CAUSE_CHARS = 160
 
 
 @dataclass(frozen=True)
 class Concern:
-    """One item needing a reason: `key` (`circuit:12`, `board:3`), `kind` ("fail", "not-shown",
-    "empty-board") and `what` in words."""
+    """One item needing a reason: `key` (`circuit:12`, `board:3`, `observation:5`), `kind` ("fail",
+    "not-shown", "empty-board", "observation") and `what` in words."""
 
     key: str
     kind: str
@@ -41,7 +43,8 @@ def _circuit(row: dict[str, Any]) -> Concern:
 
 
 def concerns_of(core: Core, job_id: int) -> list[Concern]:
-    """The job's failing circuits, circuits not shown to pass and empty boards, in that order."""
+    """The job's failing circuits, circuits not shown to pass, empty boards and open observations,
+    in that order."""
     core.row("job", job_id)
     rows = core.query(
         "SELECT c.id, c.number_raw AS number, c.description_raw AS description, c.verdict,"
@@ -61,4 +64,12 @@ def concerns_of(core: Core, job_id: int) -> list[Concern]:
     )
     found += [Concern(f"board:{b['id']}", "empty-board", f"board {b['board'] or b['id']} has no circuit")
               for b in empty]
+    observations = core.query(
+        "SELECT id, finding_raw AS finding, severity_value AS severity FROM observations WHERE job_id = ?"
+        " ORDER BY position", (job_id,))
+    for number, row in enumerate(observations, start=1):
+        if row["severity"] in OPEN_SEVERITIES or not row["severity"]:
+            grade = OPEN_SEVERITIES.get(row["severity"], "no severity given")
+            what = f"observation {number} ({grade}): {_short(str(row['finding'] or '(no finding written)'))}"
+            found.append(Concern(f"observation:{row['id']}", "observation", what))
     return found

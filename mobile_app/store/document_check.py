@@ -87,6 +87,7 @@ JOB = Obj({
                                       "recorded_by", "recorded_at", "submitted_by", "submitted_at",
                                       "approved_by", "approved_at", "review_comment")},
     "overall": Obj({"outcome": Value(TEXT), "reasons": ListOf(Value((str,)))}, nullable=True),
+    "approval_reasons": ListOf(Obj({"item": Value(TEXT), "what": Value(TEXT), "reason": Value(TEXT)})),
 }, required=True)
 ITEM = {"id": Value(INT), "number": Value(INT), "fields": FIELDS, "updated_at": Value(TEXT)}
 OBSERVATION = Obj({**ITEM, "circuit_ids": ListOf(Value((int,))), "circuits": ListOf(Value((str,)))})

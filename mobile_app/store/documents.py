@@ -154,6 +154,7 @@ class Documents:
                 "approved_by": names.get(job["approved_by"]),
                 "approved_at": job["approved_at"],
                 "review_comment": job["review_comment"],
+                "approval_reasons": json.loads(job.get("approval_reasons") or "[]"),
                 "overall": overall,
             },
             "boards": boards,
@@ -217,7 +218,7 @@ class Documents:
         approval = self._imported_approval(doc) if status == "approved" else None
         if status == "approved" and approval.state != VERIFIED:
             status = row["status"] = "submitted"
-            row.update(approved_by=None, approved_at=None)
+            row.update(approved_by=None, approved_at=None, approval_reasons=None)
         elif approval is not None:
             row["approval"] = json.dumps(doc["approval"])
         row["parent_job_id"] = (self._imported_parent(row, job.get("parent_job_id"))

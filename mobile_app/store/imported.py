@@ -88,7 +88,17 @@ def review_columns(job: dict[str, Any], people: PeopleMatcher) -> dict[str, Any]
         "approved_by": people.by_name(job.get("approved_by"), "supervisor"),
         "approved_at": doc_text(job.get("approved_at"), "job.approved_at"),
         "review_comment": doc_text(job.get("review_comment"), "job.review_comment"),
+        "approval_reasons": approval_reasons(job.get("approval_reasons")),
     }
+
+
+def approval_reasons(items: Any) -> str | None:
+    """The reasons an approval was given with, as the job row keeps them (JSON), or None."""
+    if not items:
+        return None
+    kept = [{k: doc_text(item.get(k), f"job.approval_reasons.{k}") or "" for k in ("item", "what", "reason")}
+            for item in items if isinstance(item, dict)]
+    return json.dumps(kept, ensure_ascii=False) if kept else None
 
 
 def exported_outcome(circuit: dict[str, Any]) -> Outcome:

@@ -35,6 +35,7 @@ class Removed:
     job_id: int | None
     label: str  # `circuit 3 · Kiln`, `board DB2 and its 4 circuits`, `curve Maker 250 A`
     rows: tuple[tuple[str, dict[str, Any]], ...]  # (table, row) in the order they go back
+    links: tuple[tuple[int, list[int]], ...] = ()  # (observation id, its circuit ids before)
 
 
 def _typed(row: dict[str, Any], names: tuple[str, ...]) -> dict[str, str]:
@@ -60,7 +61,9 @@ class Removals:
         with self.core.write() as conn:
             row = self.core.row("circuit", circuit_id)
             job = self.core.draft_job(self.core.row("board", row["board_id"])["job_id"])
-            removed = Removed("circuit", circuit_id, job["id"], _circuit_label(row), (("circuits", row),))
+            links = self._unlink(conn, job["id"], {circuit_id})
+            removed = Removed("circuit", circuit_id, job["id"], _circuit_label(row), (("circuits", row),),
+                              links)
             conn.execute("DELETE FROM circuits WHERE id = ?", (circuit_id,))
             self._record(conn, removed, by, _typed(row, CIRCUIT_FIELDS))
         return removed
@@ -76,7 +79,8 @@ class Removals:
             label = f"board {board['designation_raw'] or board_id}" + (
                 f" and its {count} circuit{'s' if count != 1 else ''}" if count else "")
             rows = (("boards", board), *(("circuits", c) for c in circuits))
-            removed = Removed("board", board_id, job["id"], label, rows)
+            links = self._unlink(conn, job["id"], {c["id"] for c in circuits})
+            removed = Removed("board", board_id, job["id"], label, rows, links)
             conn.execute("DELETE FROM circuits WHERE board_id = ?", (board_id,))
             conn.execute("DELETE FROM boards WHERE id = ?", (board_id,))
             typed = dict(_typed(board, BOARD_FIELDS), circuits=[_typed(c, CIRCUIT_FIELDS) for c in circuits])
@@ -110,6 +114,19 @@ class Removals:
             self._record(conn, removed, by, {k: row[k] for k in ("name", "rating_a", "points")})
         return removed
 
+    def _unlink(self, conn: sqlite3.Connection, job_id: int,
+                circuit_ids: set[int]) -> tuple[tuple[int, list[int]], ...]:
+        """Take deleted circuits out of the job's observations; what each named before."""
+        links = []
+        for row in self.core.query("SELECT id, circuit_ids FROM observations WHERE job_id = ?", (job_id,)):
+            named = json.loads(row["circuit_ids"] or "[]")
+            if set(named) & circuit_ids:
+                links.append((int(row["id"]), named))
+                kept = [c for c in named if c not in circuit_ids]
+                conn.execute("UPDATE observations SET circuit_ids = ?, version = version + 1 WHERE id = ?",
+                             (json.dumps(kept), row["id"]))
+        return tuple(links)
+
     def _record(self, conn: sqlite3.Connection, removed: Removed, by: int | None,
                 typed: dict[str, Any]) -> None:
         self.core.audit(conn, removed.job_id, by, removed.kind, removed.item_id, "removed",
@@ -140,6 +157,10 @@ class Removals:
             for (table, _old), new_id in new_ids.items():
                 if table == "circuits":
                     self.circuits.reassess_one(conn, new_id)
+            for observation_id, named in removed.links:
+                ids = [new_ids.get(("circuits", c), c) for c in named]
+                conn.execute("UPDATE observations SET circuit_ids = ?, version = version + 1 WHERE id = ?",
+                             (json.dumps(ids), observation_id))
             item_id = new_ids[(_TABLES[removed.kind], removed.item_id)]
             self.core.audit(conn, removed.job_id, by, removed.kind, item_id, "restored", None, removed.label)
             if removed.job_id is not None:
