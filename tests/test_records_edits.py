@@ -156,3 +156,20 @@ def test_changing_a_saved_curve_reassesses_draft_circuits_and_spares_approved_jo
     with pytest.raises(InUseError, match="cannot be changed: used by job E-1 circuit 1"):
         store.curves.update(device, "Maker 100 A", POINTS, rating_a=100)
     assert store.library.find(device)["points"] == slower
+
+
+def test_a_curve_an_approved_job_still_names_is_kept_even_under_another_device_kind(store):
+    job_id, _board_id, (first, _second) = _job(store)
+    device = store.library.add("Maker 100 A", POINTS, rating_a=100)
+    store.circuits.set_field(first, "device_kind", "curve")
+    store.circuits.set_field(first, "library_device_id", str(device))
+    store.circuits.set_field(first, "device_kind", "mcb")  # switched back: the curve is still named
+    assert store.library.users(device) == [] and len(store.library.users(device, every_reference=True)) == 1
+    person = store.people.add("Ann Marsh", "supervisor", "135790")
+    store.review.submit(job_id, person)
+    store.review.approve(job_id, person, "135790", {c.key: "test" for c in store.review.concerns(job_id)})
+    with pytest.raises(InUseError, match="cannot be deleted"):
+        store.removals.curve(device)
+    with pytest.raises(InUseError, match="cannot be changed"):
+        store.curves.update(device, "Maker 100 A", POINTS)
+    assert store.integrity.check().broken == {}  # the approved document still holds its curve

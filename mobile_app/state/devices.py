@@ -18,6 +18,8 @@ def plain(value: Any) -> str:
 def device_text(kind: str | None, curve: str | None, rating_a: Any, library_name: str | None) -> str:
     """`B32`, `RCBO C16`, `gG 63 A`, a saved curve's name; `device not set` when there is none."""
     rating = plain(rating_a)
+    if kind in ("mcb", "rcbo") and not (curve or rating):
+        return "breaker not set" if kind == "mcb" else "RCBO not set"
     if kind == "mcb":
         return f"{curve or '?'}{rating or '?'}"
     if kind == "rcbo":

@@ -7,7 +7,7 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from mobile_app.state.devices import cable_text, device_text, rating_mismatch
-from mobile_app.state.fields import JOB_SPECS, SUPPLY_SPECS, Choice, FieldSpec, all_specs
+from mobile_app.state.fields import JOB_SPECS, STEPS, SUPPLY_SPECS, Choice, FieldSpec, all_specs
 from mobile_app.state.settings import SettingsState
 from mobile_app.state.text import VerdictMark, format_quantity, status_word, verdict_mark
 from mobile_app.store import StoreError
@@ -141,6 +141,8 @@ def circuit_row(summary: dict[str, Any]) -> CircuitRow:
 
 
 CIRCUIT_FILTERS: tuple[str, ...] = ("all", "fail", "not-shown")
+FIRST_TEST_STEP = next(step for step in STEPS if step not in ("device", "conductors"))
+"""Where a copied circuit opens: its device and cables are there, its tests are not."""
 
 
 @dataclass(frozen=True)

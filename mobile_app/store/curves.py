@@ -1,7 +1,7 @@
 """Changing a saved curve of the device library (`store.curves`).
 
-A curve is part of every job whose circuits use it (the export carries its points, and an approval
-signs them), so a change is refused while a job in review or approved uses it; the circuits of draft
+A curve is part of every job whose circuits name it (the export carries its points, and an approval
+signs them), so a change is refused while a job in review or approved names it; the circuits of draft
 jobs that use it are reassessed in the same transaction. Each change is one audit entry.
 """
 
@@ -50,7 +50,8 @@ class Curves:
             if before is None:
                 raise NotFoundError("library device", device_id)
             users = self.library.users(device_id)
-            locked = [u for u in users if u["status"] != "draft"]
+            named = self.library.users(device_id, every_reference=True)
+            locked = [u for u in named if u["status"] != "draft"]
             if locked:
                 raise InUseError("curve", device_id, user_names(locked), "changed")
             conn.execute("UPDATE library_devices SET name = ?, rating_a = ?, points = ? WHERE id = ?",

@@ -47,12 +47,16 @@ class Library:
             )
         ]
 
-    def users(self, device_id: int) -> list[dict[str, Any]]:
-        """The circuits that use a saved curve: circuit_id, number, job_id, client_ref, status."""
+    def users(self, device_id: int, every_reference: bool = False) -> list[dict[str, Any]]:
+        """The circuits that use a saved curve (their device is "from library" and names it), or
+        with `every_reference` also those that name it under another device kind (a job document
+        carries the curve of each, so an approval covers it): circuit_id, number, job_id,
+        client_ref, status."""
+        kind = "" if every_reference else " AND c.device_kind_value = 'curve'"
         return self.core.query(
             "SELECT c.id AS circuit_id, c.number_raw AS number, j.id AS job_id,"
             " j.client_ref_raw AS client_ref, j.status FROM circuits c JOIN boards b ON b.id = c.board_id"
-            " JOIN jobs j ON j.id = b.job_id WHERE c.library_device_id_value = ? ORDER BY j.id, c.id",
+            f" JOIN jobs j ON j.id = b.job_id WHERE c.library_device_id_value = ?{kind} ORDER BY j.id, c.id",
             (device_id,),
         )
 

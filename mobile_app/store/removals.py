@@ -101,12 +101,15 @@ class Removals:
         return removed
 
     def curve(self, device_id: int, by: int | None = None) -> Removed:
-        """Delete a saved curve that no circuit uses (InUseError naming them otherwise)."""
+        """Delete a saved curve that no circuit uses, and that no job in review or approved names
+        (InUseError naming them otherwise)."""
         with self.core.write() as conn:
             row = self.core.one("SELECT * FROM library_devices WHERE id = ?", (device_id,))
             if row is None:
                 raise NotFoundError("library device", device_id)
             users = self.library.users(device_id)
+            users += [u for u in self.library.users(device_id, every_reference=True)
+                      if u["status"] != "draft" and u not in users]
             if users:
                 raise InUseError("curve", device_id, user_names(users), "deleted")
             removed = Removed("curve", device_id, None, f"curve {row['name']}", (("library_devices", row),))

@@ -14,7 +14,7 @@ from mobile_app.components.screen import screen
 from mobile_app.components.text_input import text_input
 from mobile_app.components.undo_bar import undo_bar
 from mobile_app.components.verdict_badge import verdict_badge
-from mobile_app.state.jobs import BoardView, CircuitRow, JobField, JobScreen
+from mobile_app.state.jobs import FIRST_TEST_STEP, BoardView, CircuitRow, JobField, JobScreen
 from mobile_app.state.records import overall_of
 
 
@@ -83,7 +83,7 @@ def _circuit(shell: Any, job: JobScreen, board: BoardView, c: CircuitRow) -> ft.
             copy_id, message = job.copy_circuit(c.id)
             shell.toast(message)
             if copy_id is not None:
-                shell.go(f"/job/{job.job_id}/circuit/{copy_id}/readings")
+                shell.go(f"/job/{job.job_id}/circuit/{copy_id}/{FIRST_TEST_STEP}")
 
         def delete(_e: Any) -> None:
             done = shell.undo.delete("circuit", c.id)
@@ -174,7 +174,7 @@ def _board(shell: Any, job: JobScreen, board: BoardView) -> ft.Control:
 def _add_board(shell: Any, job: JobScreen) -> ft.Control:
     """The new board's name first, then the button that adds it."""
     name = ft.TextField(key="new-board-name", label="New board's name", hint_text="e.g. DB2, Garage board",
-                        expand=True)
+                        expand=True, error_max_lines=3)
 
     def add(_e: Any) -> None:
         board_id, message = job.add_board(name.value or "")
