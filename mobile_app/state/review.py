@@ -132,8 +132,7 @@ class ReviewState:
         missing = self.unanswered(reasons or {})
         if missing:
             count = len(missing)
-            return Outcome(False, f"Write a reason for each item listed: {count} without one "
-                                  f"(first: {missing[0].what})")
+            return Outcome(False, f"Write a reason for each item listed above: {count} without one")
         if isinstance(secret, str) and not secret.strip():
             return Outcome(False, "Enter the supervisor's PIN or passphrase")
         try:

@@ -26,7 +26,8 @@ def _item(item: ReviewItem, reasons: dict[str, str], editable: bool) -> ft.Contr
         parts.append(ft.TextField(key=f"reason-{item.key}", label="Reason for approving with this",
                                   value=reasons.get(item.key, ""), multiline=True, min_lines=1,
                                   max_lines=4, on_change=typed))
-    return ft.Container(ft.Column(parts, spacing=4, tight=True), padding=10, border_radius=8,
+    column = ft.Column(parts, spacing=4, tight=True, horizontal_alignment=ft.CrossAxisAlignment.STRETCH)
+    return ft.Container(column, padding=10, border_radius=8,
                         border=ft.Border.all(1, ft.Colors.OUTLINE))
 
 

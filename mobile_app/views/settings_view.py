@@ -43,8 +43,7 @@ def build(shell: Any) -> ft.View:
                                                     password.value or "")
         office_message.update()
 
-    roster_place = ft.TextField(key="roster-place", label="Roster folder or file on this device",
-                                hint_text="e.g. /sdcard/Office/roster")
+    roster_place = ft.TextField(key="roster-place", label="Roster folder or file on this device")
     key_place = ft.TextField(key="key-place", label="Supervisor's key file on this device")
     roster_message = ft.Text("", size=14, key="roster-message")
     firm = ft.Text(settings.firm_key_text(), size=14, key="firm-key")
