@@ -63,8 +63,21 @@ def row(page, description: str):
 def seen(page, text: str) -> None:
     """Wait until `text` is on screen as text or inside a button (Flutter may merge a small card's
     texts into one button's label)."""
-    inside = page.get_by_role("button", name=re.compile(re.escape(text)))
+    inside = page.get_by_role("button", name=text)
     page.get_by_text(text).or_(inside).filter(visible=True).first.wait_for(timeout=10000)
+
+
+def into_view(page, text: str, tries: int = 12) -> None:
+    """Scroll until `text` (as text or inside a button) lies between the app bar and the bottom bar
+    (and a message above it), so the screenshot shows it."""
+    inside = page.get_by_role("button", name=re.compile(re.escape(text)))
+    target = page.get_by_text(text).or_(inside).first
+    for _ in range(tries):
+        box = target.bounding_box()
+        if box and box["y"] >= 60 and box["y"] + box["height"] <= 680:
+            return
+        scroll(page, 250 if box is None or box["y"] >= 60 else -250)
+    raise AssertionError(f"{text!r} never came into view")
 
 
 def scroll_to(page, role_name: str, tries: int = 12) -> None:
@@ -75,6 +88,11 @@ def scroll_to(page, role_name: str, tries: int = 12) -> None:
             return
         scroll(page, 700)
     raise AssertionError(f"no button {role_name!r} after scrolling")
+
+
+def tab(page, label: str) -> None:
+    """Tap a destination of the bottom navigation bar."""
+    page.get_by_role("tab", name=label).or_(page.get_by_text(label, exact=True)).first.click()
 
 
 def menu(page, board: str, number: str) -> None:
@@ -215,6 +233,44 @@ def test_saved_curve_opened_changed_in_use_and_rating_flag(demo, page) -> None:
     open_app(page, base + "/job/1")
     see(page, "Boards and circuits")
     tap(page, "Not shown (3)")  # the copy has no readings yet
-    scroll(page, 500)
     seen(page, "Saved curve rated 100 A; this circuit's In is 16 A")
+    into_view(page, "Saved curve rated 100 A; this circuit's In is 16 A")
     shot(page, "53-rating-mismatch-flagged")
+
+
+def test_unused_curve_deleted_put_back_and_undo_ends_on_leaving(demo, page) -> None:
+    """An unused saved curve is deleted and put back from the library; a deletion can be undone only
+    on the screen that made it: after leaving for another tab and coming back, no undo is offered
+    and the job stays deleted (kept as a mark in the store, with its audit entry)."""
+    from playwright.sync_api import expect
+
+    from mobile_app.store import Store
+
+    base, data = demo
+    with Store.open(data) as store:
+        spare = store.library.add("Spare fuse 63 A (test points)", [(200.0, 5.0), (600.0, 0.1)], 63.0)
+    open_app(page, base + "/library")
+    see(page, "Saved curves")
+    page.get_by_role("button", name="Delete curve Spare fuse 63 A (test points)", exact=True).click()
+    see(page, "Deleted curve")
+    expect(page.get_by_role("button", name=re.compile(re.escape("Spare fuse 63 A")))).to_have_count(0)
+    shot(page, "54-unused-curve-deleted-undo-offered")
+    with Store.open(data) as store:
+        assert store.library.find(spare) is None
+    tap(page, "Undo")
+    see(page, "Put back curve")
+    seen(page, "Spare fuse 63 A (test points)")
+    with Store.open(data) as store:
+        assert store.library.find(spare) is not None
+
+    open_app(page, base + "/")
+    see(page, "Small job")
+    page.get_by_role("button", name="Delete job Small job", exact=True).click()
+    see(page, "Deleted job Small job")
+    tab(page, "Library")
+    see(page, "Saved curves")
+    tab(page, "Jobs")
+    seen(page, "TY-2026-118")
+    expect(page.get_by_role("button", name="Undo", exact=True)).to_have_count(0)
+    expect(page.get_by_role("button", name=re.compile("2 Kiln Lane"))).to_have_count(0)
+    shot(page, "55-undo-ends-when-the-screen-is-left")
