@@ -65,6 +65,10 @@ def setup(tmp_path: Path) -> Iterator[dict[str, Any]]:
         dana = store.people.add("Dana Reeve", "supervisor", "482913")
         sam = store.people.add("Sam Hale", "qualified")
         review = _failing_job(store, "R-1 Review me")
+        db1 = store.boards.of_job(review)[0]["id"]
+        store.circuits.add(db1, "2", "Spare way")  # no readings: not shown to pass
+        store.observations.add(review, {"finding": "Cracked socket front in the hall",
+                                        "severity": "attention"})
         returned = _failing_job(store, "R-2 Return me")
         store.review.submit(returned, sam)
         altered = store.jobs.create({"client_ref": "R-3 Altered later"})
@@ -173,19 +177,23 @@ def test_integrity_outbox_roster_review_export_send_return(setup, page) -> None:
     typed(page, "Recorded by (your name)", "Sam Hale")
     tap(page, "Submit for review")
     see(page, "Status: In review")
-    see(page, "Check first: 2 items fail or are open")
+    see(page, "Check first: 4 items fail or are open")
     see(page, "DB1 circuit 1 · Sockets: fails")
+    see(page, "DB1 circuit 2 · Spare way")
     see(page, "board DB2 has no circuit")
+    see(page, "Cracked socket front in the hall")
     shot(page, "64-review-lists-what-fails-first")
     typed(page, "Supervisor name", "Ines Okafor")
     typed(page, "PIN or passphrase", PASSPHRASE)
     scroll(page, 300)
     tap(page, "Approve")
-    see(page, "Write a reason for each item listed above: 2 without one")
+    see(page, "Write a reason for each item listed above: 4 without one")
     shot(page, "65-approve-needs-a-reason-each")
     reasons = page.get_by_label("Reason for approving with this", exact=True)
     for index, text in enumerate(("Client replaces the socket circuit next week",
-                                  "Spare board fitted for a future extension")):
+                                  "Spare way left off, tested when used",
+                                  "Spare board fitted for a future extension",
+                                  "Client told of the cracked front in writing")):
         reasons.nth(index).click()
         expect(reasons.nth(index)).to_be_focused()
         page.keyboard.type(text)
@@ -232,3 +240,4 @@ def _reasons_in_the_pdf(data: bytes) -> None:
     text = " ".join(" ".join(p.extract_text() for p in PdfReader(io.BytesIO(data)).pages).split())
     assert "Approved with these items open, for the reasons the supervisor gave:" in text
     assert "Client replaces the socket circuit next week" in text
+    assert "Client told of the cracked front in writing" in text
