@@ -63,6 +63,15 @@ def test_rows_say_device_cables_zs_and_where_a_tap_goes(store):
     assert rows[fresh].step == "device"
 
 
+def test_a_long_curve_name_wraps_between_words_short_parts_stay_whole():
+    from mobile_app.state.jobs import CircuitRow
+    from mobile_app.state.text import verdict_mark
+
+    row = CircuitRow(1, "1", "Sub-main", "not-shown", verdict_mark("not-shown"),
+                     device="Workshop incomer 100 A moulded-case breaker", cables="16/6 mm²", zs="no Zs")
+    assert row.detail == "Workshop incomer 100 A moulded-case breaker · 16/6\u00a0mm² · no\u00a0Zs"
+
+
 def test_the_filter_keeps_failing_or_not_shown_circuits(store):
     job = JobScreen(store, ensure_demo(store))
     choices = {c.value: c.label for c in job.filter_choices()}

@@ -14,8 +14,9 @@ from typing import Any
 _state: dict[str, Any] = {}
 
 SCREEN_CONTROLS: tuple[str, ...] = (
-    "AnimationStyle", "AppBar", "Border", "BorderSide", "BottomAppBar", "Button", "ButtonStyle", "Card",
-    "Colors", "Column", "Container", "CrossAxisAlignment", "FilledButton", "FontWeight", "Icon",
+    "AnimationStyle", "AppBar", "Border", "BorderSide", "BottomAppBar", "BottomSheet", "Button",
+    "ButtonStyle", "Card", "Colors", "Column", "Container", "CrossAxisAlignment", "FilledButton",
+    "FontWeight", "Icon",
     "IconButton", "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
     "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar", "ProgressRing",
     "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "Semantics", "SnackBar",

@@ -110,13 +110,22 @@ class CircuitRow:
 
     @property
     def detail(self) -> str:
-        """`B32 · 2.5/1.5 mm² · Zs 0.62 Ω`, each part kept on one line when the text wraps."""
-        return " · ".join(p.replace(" ", "\u00a0") for p in (self.device, self.cables, self.zs) if p)
+        """`B32 · 2.5/1.5 mm² · Zs 0.62 Ω`, each short part kept on one line when the text wraps (a
+        saved curve's long name wraps between its words, never inside a number)."""
+        return " · ".join(_unbroken(p) for p in (self.device, self.cables, self.zs) if p)
 
     @property
     def step(self) -> str:
         """The screen a tap opens: the results when there are readings, else the walk's first step."""
         return "results" if self.has_readings else "device"
+
+
+UNBROKEN_UP_TO = 16
+"""A part of a row's detail this short is kept on one line (its spaces made non-breaking)."""
+
+
+def _unbroken(part: str) -> str:
+    return part.replace(" ", "\u00a0") if len(part) <= UNBROKEN_UP_TO else part
 
 
 def circuit_row(summary: dict[str, Any]) -> CircuitRow:
