@@ -119,3 +119,15 @@ def test_a_draft_job_deleted_from_the_list_comes_back_on_undo(store):
     assert job_id not in [row.id for row in jobs.rows()]
     assert undo.undo().message == "Put back job To delete"
     assert job_id in [row.id for row in jobs.rows()]
+
+
+def test_submit_starts_with_the_name_this_device_records_under(store):
+    from mobile_app.state.recorder import Recorder
+
+    job_id = JobsList(store).new_job("Named")
+    assert ReviewState(store, job_id).recorder_name == ""
+    Recorder(store).set("Sam Hale")
+    review = ReviewState(store, job_id)
+    assert review.recorder_name == "Sam Hale"
+    assert review.submit(review.recorder_name).ok
+    assert store.jobs.get(job_id)["status"] == "submitted"

@@ -9,6 +9,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from mobile_app.signing import kdf
+from mobile_app.state.recorder import Recorder
 from mobile_app.state.text import status_word
 from mobile_app.store import LockedOutError, PinError, StoreError
 
@@ -70,6 +71,11 @@ class ReviewState:
         """The reviewer's comment when the job was returned to draft, if any."""
         job = self.store.jobs.get(self.job_id)
         return job.get("review_comment") if job.get("status") == "draft" else None
+
+    @property
+    def recorder_name(self) -> str:
+        """The name this device records under (given on a new job): the submit field starts with it."""
+        return Recorder(self.store).name
 
     def open_revision(self, reason: str, by_name: str) -> tuple[Outcome, int | None]:
         """Open a new draft revision of an approved job; returns the outcome and the new job id."""

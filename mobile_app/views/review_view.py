@@ -52,7 +52,8 @@ def build(shell: Any, job_id: str) -> ft.View:
         ft.Text(review.summary(), size=16, key="review-summary"),
     ]
     if status == "draft":
-        recorder = ft.TextField(key="recorder-name", label="Recorded by (your name)")
+        recorder = ft.TextField(key="recorder-name", label="Recorded by (your name)",
+                                value=review.recorder_name)
         if review.comment:
             body.append(ft.Container(
                 ft.Text(f"Returned with comment: {review.comment}", size=15, key="review-comment"),
