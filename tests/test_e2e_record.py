@@ -24,6 +24,7 @@ from test_e2e_walk import (
     PIN,
     SUPERVISOR,
     fill,
+    give_reasons,
     open_app,
     page_fixture,  # noqa: F401 - the phone-sized page fixture
     see,
@@ -166,7 +167,8 @@ def test_a_ring_final_circuit_recorded_whole_and_exported(server: str, page, tmp
     tap(page, "Submit for review")
     see(page, "Status: In review")
     type_into(page, "Supervisor name", SUPERVISOR)
-    type_into(page, "PIN", PIN)
+    assert give_reasons(page, "Faceplate replaced by the client this week") == 1  # the open observation
+    type_into(page, "PIN or passphrase", PIN)
     tap(page, "Approve")
     see(page, "Status: Approved")
     tap(page, "Export to outbox")

@@ -160,6 +160,24 @@ def selected_chip(page, name: str):
     return page.locator("flt-semantics[aria-current='true']").get_by_role("button", name=name, exact=True)
 
 
+def open_job(page, title: str) -> None:
+    """Tap a job's row in the jobs list (its button's name starts with the job's title; the row's
+    delete button is named "Delete job …")."""
+    page.get_by_role("button", name=re.compile("^" + re.escape(title))).first.click()
+
+
+def give_reasons(page, reason: str) -> int:
+    """Write `reason` in every "Reason for approving with this" field of the review screen (one per
+    failing or open item); returns how many there were."""
+    fields = page.get_by_label("Reason for approving with this", exact=True)
+    count = fields.count()
+    for index in range(count):
+        fields.nth(index).focus()
+        page.wait_for_timeout(150)
+        page.keyboard.type(reason)
+    return count
+
+
 def scroll(page, pixels: int) -> None:
     """Scroll the view under the middle of the screen."""
     page.mouse.move(195, 450)
@@ -240,7 +258,7 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     open_app(page, server + "/")
     see(page, "E2E-001 Mill Lane")
     shot(page, "13-jobs-list")
-    page.get_by_text("E2E-001 Mill Lane").first.click()
+    open_job(page, "E2E-001 Mill Lane")
     see(page, "Status: Draft")
     page.get_by_role("button", name=re.compile("Kitchen sockets.*NOT SHOWN")).wait_for(timeout=10000)
     shot(page, "14-job-with-verdict")
@@ -255,11 +273,12 @@ def test_walk_reload_and_approve(server: str, page) -> None:
     tap(page, "Submit for review")
     see(page, "Status: In review")
     type_into(page, "Supervisor name", SUPERVISOR)
-    type_into(page, "PIN", "000000")
+    assert give_reasons(page, "Zsc and RCD tests follow on the next visit") == 1  # the circuit not shown
+    type_into(page, "PIN or passphrase", "000000")
     tap(page, "Approve")
     see(page, "PIN not accepted")
     shot(page, "15-review-wrong-pin")
-    pin = page.get_by_label("PIN", exact=True)
+    pin = page.get_by_label("PIN or passphrase", exact=True)
     pin.click()
     for _ in range(10):
         page.keyboard.press("Backspace")
