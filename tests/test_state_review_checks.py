@@ -131,3 +131,10 @@ def test_submit_starts_with_the_name_this_device_records_under(store):
     assert review.recorder_name == "Sam Hale"
     assert review.submit(review.recorder_name).ok
     assert store.jobs.get(job_id)["status"] == "submitted"
+
+
+def test_the_heading_counts_the_items_in_words():
+    from mobile_app.state.review import check_first
+
+    assert check_first(1) == "Check first: 1 item fails or is open"
+    assert check_first(4) == "Check first: 4 items fail or are open"

@@ -16,6 +16,14 @@ from mobile_app.store import LockedOutError, PinError, StoreError
 Secret = str | kdf.Derived
 
 
+def check_first(count: int) -> str:
+    """The heading over the items to answer for: `Check first: 1 item fails or is open`,
+    `Check first: 3 items fail or are open`."""
+    if count == 1:
+        return "Check first: 1 item fails or is open"
+    return f"Check first: {count} items fail or are open"
+
+
 @dataclass(frozen=True)
 class Outcome:
     """What a review action did: done or not, and the message to show."""

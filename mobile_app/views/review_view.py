@@ -9,7 +9,7 @@ import flet as ft
 
 from mobile_app.components.screen import screen
 from mobile_app.state.outbox import OutboxState
-from mobile_app.state.review import Outcome, ReviewItem, ReviewState
+from mobile_app.state.review import Outcome, ReviewItem, ReviewState, check_first
 
 
 def _item(item: ReviewItem, reasons: dict[str, str], editable: bool) -> ft.Control:
@@ -113,7 +113,7 @@ def build(shell: Any, job_id: str) -> ft.View:
                                multiline=True, min_lines=2)
         if items:
             body += [
-                ft.Text(f"Check first: {len(items)} item{'s' * (len(items) != 1)} fail or are open",
+                ft.Text(check_first(len(items)),
                         size=18, weight=ft.FontWeight.BOLD, key="review-items"),
                 ft.Text("Approving with any of these needs your reason for each; it goes into the "
                         "record and the PDF. Or return the job to have them put right.", size=14),
