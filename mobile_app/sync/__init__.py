@@ -10,7 +10,8 @@ Public surface:
     save_target(store, url, user, password) ; load_target(store) -> SyncTarget
     check_url(url) ; scrub(text, target)
     save_password(store, pw) ; load_password(store) -> str   # sealed in the settings with a device
-                                       # key kept apart: KeyStore, FileKeyStore (file `device-key`)
+                                       # key kept apart: KeyStore, FileKeyStore (file `device-key`);
+                                       # use_key_store(ks) installs a platform's own (the browser's)
     sync_once(store_or_db, transport, now=None, force=False, progress=None, limits=None) -> SyncReport
                                        # transport: a Transport, or a SyncTarget for the platform's own
     sync_store(store, force=False, progress=None) -> SyncReport      # with the saved target
@@ -76,6 +77,7 @@ if TYPE_CHECKING:
         load_target,
         save_password,
         save_target,
+        use_key_store,
     )
     from mobile_app.sync.target import (
         AuthError,
@@ -125,6 +127,7 @@ _MODULE_OF = {
     "load_target": "saved",
     "save_password": "saved",
     "save_target": "saved",
+    "use_key_store": "saved",
     "scrub": "target",
     "SyncError": "target",
     "SecretError": "target",
@@ -185,6 +188,7 @@ __all__ = [
     "sync_store",
     "sync_store_async",
     "use_async_transport",
+    "use_key_store",
 ]
 
 

@@ -100,6 +100,15 @@ def package_files(root: Path, package: str, leave_out: tuple[str, ...] = ()) -> 
     return entries
 
 
+def folder_files(root: Path, folder: str) -> list[Entry]:
+    """The files of one folder under `root` (e.g. mobile_app/fonts), at the same path in the archive."""
+    base = root / folder
+    if not base.is_dir():
+        raise DependencyError(folder, "is not a folder of the sources")
+    return [Entry(path, path.relative_to(root).as_posix()) for path in sorted(base.rglob("*"))
+            if path.is_file() and _packable(PurePosixPath(path.relative_to(root).as_posix()))]
+
+
 def stage(entries: list[Entry], folder: Path) -> None:
     """Copy the entries into `folder` at their archive paths (a path given twice is an error)."""
     seen: set[str] = set()
