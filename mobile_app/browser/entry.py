@@ -18,12 +18,12 @@ _state: dict[str, Any] = {}
 
 SCREEN_CONTROLS: tuple[str, ...] = (
     "AnimationStyle", "AppBar", "Border", "BorderSide", "BottomAppBar", "Button", "ButtonStyle", "Card",
-    "Colors", "Column", "Container", "CrossAxisAlignment", "FilledButton", "FontWeight", "Icon",
-    "IconButton", "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
-    "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar", "ProgressRing",
-    "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "Semantics", "SnackBar",
-    "Text", "TextButton", "TextField", "TextOverflow", "TextStyle", "TextTheme", "Theme", "ThemeMode",
-    "View",
+    "Colors", "Column", "Container", "CrossAxisAlignment", "FilePicker", "FilledButton", "FontWeight",
+    "Icon", "IconButton", "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment",
+    "NavigationBar", "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar",
+    "ProgressRing", "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode",
+    "Semantics", "Share", "ShareFile", "SnackBar", "Text", "TextButton", "TextField", "TextOverflow",
+    "TextStyle", "TextTheme", "Theme", "ThemeMode", "View",
 )
 """The Flet names the screens use (Flet imports each on first use; tests/test_webbuild.py keeps this
 list in step with mobile_app/views and mobile_app/components)."""

@@ -53,7 +53,9 @@ class AppSpec:
     leave_out: tuple[str, ...] = ()
     export_libraries: tuple[str, ...] = ()
     export_data: tuple[str, ...] = ()
-    """Distributions and package folders (e.g. `mobile_app/fonts`) of the export archive."""
+    export_leave_out: tuple[str, ...] = ()
+    """Distributions, package folders (e.g. `mobile_app/fonts`) and paths left out of the export
+    archive."""
     assets: Path = ROOT / "assets"
 
 
@@ -75,6 +77,7 @@ def boardside_spec() -> AppSpec:
         leave_out=("webbuild", "fonts"),
         export_libraries=tuple(lists["export"]),
         export_data=("mobile_app/fonts",),
+        export_leave_out=tuple(lists["export-leave-out"]),
     )
 
 
@@ -151,7 +154,8 @@ def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Pat
         wheel = runtime_wheel(name, runtime, cache)
         entries += archive.wheel_files(wheel, work / f"wheel-{index}")
     archive.stage(entries, libraries)
-    archive.stage([entry for name in spec.export_libraries for entry in archive.installed_files(name)]
+    archive.stage([entry for name in spec.export_libraries
+                   for entry in archive.installed_files(name, spec.export_leave_out)]
                   + [entry for folder in spec.export_data
                      for entry in archive.folder_files(spec.source_root, folder)], export)
     archive.stage([entry for package in spec.packages
