@@ -6,7 +6,8 @@
 - the PDF's libraries and fonts, an archive the worker unpacks on the first export only, through
   `mobile_app.export.use_loader`;
 - the outbox's sync, run by a `SyncLoop` on the page's event loop: at start, at each bundle's next
-  try, when an export is queued, and on the browser's `online` event (the connection came back).
+  try, when an export is queued, and on the page's `online` event (the connection came back), which
+  the page forwards to the worker (site/python.js): a worker does not reliably hear its own.
 """
 
 from __future__ import annotations
@@ -48,15 +49,15 @@ async def device_key(js: Any) -> bytes | None:
 
 
 def start_sync(store: Any, on_report: Callable[[Any], None]) -> Any:
-    """Start the outbox's SyncLoop on the page's event loop and wake it on the `online` event."""
+    """Start the outbox's SyncLoop on the page's event loop and wake it on the page's `online` event."""
     import asyncio
 
-    import js  # type: ignore[import-not-found]  # the worker's global scope
+    import boardside_js  # type: ignore[import-not-found]  # registered by the page's Python worker
     from pyodide.ffi import create_proxy  # type: ignore[import-not-found]
 
     from mobile_app.sync.schedule import SyncLoop
 
     loop = SyncLoop(store, on_report)
-    js.addEventListener("online", create_proxy(lambda _event: loop.wake(force=True)))
+    boardside_js.whenOnline(create_proxy(lambda *_args: loop.wake(force=True)))
     asyncio.ensure_future(loop.run())
     return loop

@@ -11,10 +11,12 @@
 // The entry module (config.module) offers warm() (imports only, before the snapshot), prepare() (may
 // use the page: runs before the client connects) and run() (starts the Flet app on the connection).
 // Archives named in config.extras (the PDF library and fonts) are unpacked only when Python asks
-// (loadExtra), and the device key that seals the sync password is kept apart from the store (deviceKey).
+// (loadExtra), the device key that seals the sync password is kept apart from the store (deviceKey), and
+// the page's `online` event, forwarded by python.js, reaches the callbacks given to whenOnline.
 import { loadPyodide } from "./pyodide/pyodide.mjs";
 
 const fletJs = {};
+const whenOnline = [];
 let starting = null;
 
 self.onmessage = async (event) => {
@@ -24,6 +26,8 @@ self.onmessage = async (event) => {
     starting.catch(() => {});
   } else if (message && message.type === "connect") {
     self.postMessage(await connect(message));
+  } else if (message && message.type === "online") {
+    whenOnline.forEach((callback) => callback());
   } else if (typeof fletJs.send === "function") {
     fletJs.send(message);
   } else {
@@ -341,6 +345,7 @@ async function start(config) {
     flush: store.flush,
     loadExtra: extras(pyodide, config),
     deviceKey: () => deviceKey(config),
+    whenOnline: (callback) => whenOnline.push(callback),
     officeCache: config.officeCache,
     mark,
   });
