@@ -29,10 +29,12 @@ ASSETS_DIR = Path(__file__).resolve().parent.parent / "assets"
 class Shell:
     """One browser session: its page, its store and the route it shows."""
 
-    def __init__(self, page: ft.Page, store: Any, recovery: Recovery | None = None) -> None:
+    def __init__(self, page: ft.Page, store: Any, recovery: Recovery | None = None,
+                 sync_loop: Any = None) -> None:
         self.page = page
         self.store = store
         self.recovery = recovery or Recovery(None)
+        self.sync_loop = sync_loop
         self._walks: dict[int, Walk] = {}
         self._values: dict[str, Any] = {}
         self._renders = 0
@@ -45,6 +47,20 @@ class Shell:
     def toast(self, message: str) -> None:
         """A short message at the bottom of the screen."""
         self.page.show_dialog(ft.SnackBar(ft.Text(message), duration=2500))
+
+    def sync_soon(self) -> None:
+        """Wake the background sync, if this platform runs one (the browser build), e.g. after an
+        export was queued."""
+        if self.sync_loop is not None:
+            self.sync_loop.wake()
+
+    def synced(self, report: Any) -> None:
+        """The background sync ran: say what it sent, and show the outbox again if it is on screen."""
+        if report.sent:
+            count = len(report.sent)
+            self.toast(f"{count} export{'s' * (count != 1)} sent to the office")
+        if (self.page.route or "").split("?", 1)[0] == "/outbox":
+            self.render()
 
     def walk(self, circuit_id: int, step: str) -> Walk:
         """The walk state of a circuit, kept for the session so unsaved text survives step changes;
@@ -147,11 +163,12 @@ def route_view(shell: Shell, route: str) -> ft.View:
     return _routes()[0][1](shell)
 
 
-def make_main(store: Any) -> Callable[[ft.Page], None]:
+def make_main(store: Any, sync_loop: Any = None) -> Callable[[ft.Page], None]:
     """The Flet entry point for one session, on the server's one open store.
 
     Sessions share one store (its lock keeps their transactions apart) and the notice about a
-    damaged store file, if one was moved aside at open.
+    damaged store file, if one was moved aside at open. `sync_loop` is the platform's background
+    sync (`mobile_app.sync.schedule.SyncLoop`, the browser build's), whose reports the screen hears.
     """
     recovery = Recovery(store.recovered)
 
@@ -161,7 +178,9 @@ def make_main(store: Any) -> Callable[[ft.Page], None]:
         page.theme = app_theme()
         page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
-        shell = Shell(page, store, recovery)
+        shell = Shell(page, store, recovery, sync_loop)
+        if sync_loop is not None:
+            sync_loop.on_report = shell.synced
         shell.apply_theme()
         page.on_route_change = lambda _e: shell.render()
         page.on_disconnect = lambda _e: shell.save_typed()

@@ -103,7 +103,8 @@ MILESTONE = re.compile(r"boardside: ([\w-]+) at (\d+) ms")
 
 
 def hello_spec(folder: Path):
-    """The hello-world app's build description: its one module, flet and its requirements."""
+    """The hello-world app's build description: its one module, flet and its requirements (no export
+    archive)."""
     from mobile_app.webbuild import boardside_spec
 
     package = folder / "hello_app"
@@ -112,7 +113,8 @@ def hello_spec(folder: Path):
     lists = boardside_spec()
     return dataclasses.replace(lists, name="Hello", description="Hello", source_root=folder,
                                packages=("hello_app",), module="hello_app",
-                               libraries=("flet", "repath", "six"), leave_out=())
+                               libraries=("flet", "repath", "six"), leave_out=(),
+                               export_libraries=(), export_data=(), export_leave_out=())
 
 
 def store_file(folder: Path) -> tuple[bytes, int, int, int]:

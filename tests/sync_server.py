@@ -15,7 +15,9 @@ plus optional faults, applied by a small WSGI layer in front of wsgidav (the ser
 - `--exit-after METHOD`  the process dies (os._exit) after doing the first METHOD request and before
                       answering it: the server did the work, the client never hears so;
 - `--made-meanwhile`  a PROPFIND that finds no folder is answered 404, and then the folder is made on
-                      the server's disk, as another device would make it between our PROPFIND and MKCOL.
+                      the server's disk, as another device would make it between our PROPFIND and MKCOL;
+- `--cors ORIGIN`     wsgidav's own CORS setting (`cors_config`), as the README tells an office to set
+                      it for the browser build: a page from ORIGIN may send the sync's requests.
 
 Every request is appended to the log file as `METHOD PATH STATUS` so tests can count them.
 `DavServer` starts and stops such a process from a test.
@@ -176,6 +178,8 @@ def serve(args: argparse.Namespace) -> None:
         "logging": {"enable": False, "enable_loggers": []},
         "dir_browser": {"enable": False},
     }
+    if args.cors:
+        config["cors"] = cors_config(args.cors)
     app = fault_layer(WsgiDAVApp(config), _Faults(args), Path(args.log), Path(args.root))
     server = wsgi.Server(("127.0.0.1", args.port), app, numthreads=8)
     if args.cert:
@@ -185,6 +189,16 @@ def serve(args: argparse.Namespace) -> None:
     server.prepare()
     print("READY", flush=True)
     server.serve()
+
+
+def cors_config(origin: str) -> dict[str, object]:
+    """wsgidav's `cors` setting that lets the browser build at `origin` sync (the README's example):
+    the methods and request headers `mobile_app.sync.fetch` uses; wsgidav answers the preflight
+    OPTIONS before it asks for the password."""
+    from mobile_app.sync.fetch import ALLOWED_HEADERS, METHODS
+
+    return {"allow_origin": [origin], "allow_methods": [*METHODS, "OPTIONS"],
+            "allow_headers": list(ALLOWED_HEADERS), "max_age": 600}
 
 
 def free_port() -> int:
@@ -198,9 +212,9 @@ class DavServer:
     """A wsgidav subprocess on 127.0.0.1 serving `root`, restartable on the same port."""
 
     def __init__(self, root: Path, log: Path, user: str = "office", password: str = "s3cret-Pw!",
-                 tls: tuple[Path, Path] | None = None):
+                 tls: tuple[Path, Path] | None = None, cors: str | None = None):
         self.root, self.log, self.user, self.password = root, log, user, password
-        self.tls = tls
+        self.tls, self.cors = tls, cors
         self.port = free_port()
         self.proc: subprocess.Popen | None = None
         root.mkdir(parents=True, exist_ok=True)
@@ -215,6 +229,8 @@ class DavServer:
                "--user", self.user, "--password", self.password, "--log", str(self.log), *faults]
         if self.tls:
             cmd += ["--cert", str(self.tls[0]), "--key", str(self.tls[1])]
+        if self.cors:
+            cmd += ["--cors", self.cors]
         self.proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, text=True)
         assert self.proc.stdout is not None
         line = self.proc.stdout.readline()
@@ -278,6 +294,7 @@ def main() -> None:
     parser.add_argument("--exit-after")
     parser.add_argument("--cert")
     parser.add_argument("--key")
+    parser.add_argument("--cors")
     serve(parser.parse_args())
 
 

@@ -5,21 +5,33 @@ Also: the server form (`python -m mobile_app`) asks no other host either.
 Builds the site (`build_site`, as `python -m mobile_app build-web` does), serves it with a plain static
 server on loopback, and with every request to another host aborted and counted: creates a job, walks a
 circuit to its verdict, reloads, stops the server, goes offline, reloads again and finds the job and the
-reading (the store is on browser storage, the site in the service worker's cache); then a second tab is
-refused the store until the first one closes. Screenshots go to test-artifacts/web-*.png.
+reading (the store is on browser storage, the site in the service worker's cache); still offline, adds a
+supervisor, submits the job and has it approved with the supervisor's PIN (PBKDF2 by the browser's
+WebCrypto), exports it (the PDF's libraries from the export archive) and downloads its JSON, compared
+with the bundle's manifest in browser storage; back online, the outbox syncs by itself (the browser's
+`online` event) through fetch to a wsgidav server on loopback with the README's CORS setting, and the
+bundle arrives verified. Then a second tab is refused the store until the first one closes.
+Screenshots go to test-artifacts/web-*.png.
 """
 
 from __future__ import annotations
 
+import base64
+import hashlib
+import json
 import re
+import sqlite3
 import time
 from collections.abc import Iterator
+from datetime import UTC, datetime, timedelta
 from pathlib import Path
 
 import pytest
+from sync_server import DavServer
 from test_e2e_walk import (
     CHROMIUM,
     CHROMIUM_ARGS,
+    fill,
     free_port,
     open_job,
     see,
@@ -31,6 +43,8 @@ from test_e2e_walk import (
     wait_http,
 )
 from web_site import Elsewhere, build, serve
+
+from mobile_app.export import read_bundle
 
 pytestmark = [
     pytest.mark.browser,
@@ -83,6 +97,60 @@ STORED_COPY = """async (text) => {
 }"""
 """Whether the store file's copy in browser storage (IndexedDB, as the worker's mount keeps it) holds
 `text` as UTF-8."""
+
+
+STORED_FILE = """async (path) => {
+    const db = await new Promise((resolve, reject) => {
+        const request = indexedDB.open("/data");
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    const keys = await new Promise((resolve, reject) => {
+        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").getAllKeys();
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    const wanted = keys.find((key) => String(key).endsWith(path));
+    const entry = wanted && await new Promise((resolve, reject) => {
+        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get(wanted);
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    db.close();
+    return entry ? [String(wanted), new TextDecoder().decode(entry.contents)] : null;
+}"""
+"""The copy in browser storage of the store's file whose path ends with `path`: [its path, its text]."""
+
+
+STORED_STORE = """async () => {
+    const db = await new Promise((resolve, reject) => {
+        const request = indexedDB.open("/data");
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    const entry = await new Promise((resolve, reject) => {
+        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get("/data/boardside.sqlite");
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    db.close();
+    let text = "";
+    for (let i = 0; i < entry.contents.length; i += 8192) {
+        text += String.fromCharCode(...entry.contents.subarray(i, i + 8192));
+    }
+    return btoa(text);
+}"""
+"""The store file's copy in browser storage, base64 (the browser build keeps no -wal beside it)."""
+
+
+def next_try_at(page, folder: Path) -> datetime:
+    """When the outbox's SyncLoop will next try by its timer: the earliest `next_try_at` of a waiting
+    export, read from the store's copy in browser storage with Python's sqlite3."""
+    copy = folder / "store-copy.sqlite"
+    copy.write_bytes(base64.b64decode(page.evaluate(STORED_STORE)))
+    with sqlite3.connect(copy) as db:
+        (due,) = db.execute("select min(next_try_at) from outbox where status = 'waiting'").fetchone()
+    return datetime.fromisoformat(due)
 
 
 def copied_within(page, text: str, seconds: float) -> bool:
@@ -161,7 +229,98 @@ def browser_context() -> Iterator[object]:
         browser.close()
 
 
-def test_walk_reload_offline_and_second_tab(site: Path, browser_context) -> None:
+def tab_to(page, name: str) -> None:
+    """Go up to the jobs list (one level at a time, each screen drawn before the next tap) and open
+    one of its tabs."""
+    tab = page.get_by_role("tab", name=re.compile(name))
+    for _ in range(8):
+        if tab.count():
+            break
+        # the back arrow's tooltip names the node around its button, not the button itself
+        up = page.locator('[aria-label="Up one level"] [role="button"]')
+        if up.count():
+            up.first.click()
+        page.wait_for_timeout(600)
+    else:
+        shot(page, "failed-tab-" + name)
+    tab.click()
+
+
+def approve_export_and_sync(page, context, url: str, dav: DavServer) -> None:
+    """Offline: a supervisor added, the job submitted, approved with the PIN and exported, its JSON
+    downloaded; online again: the outbox sent to the office folder by itself, verified."""
+    tab_to(page, "Settings")
+    fill(page, "Supervisor name", "Ines Okafor")
+    fill(page, "Supervisor PIN", "2468")
+    tap(page, "Add supervisor")
+    see(page, "Supervisor Ines Okafor added", timeout_ms=20000)
+    fill(page, "Office folder (WebDAV https:// address)", dav.url)
+    fill(page, "User", dav.user)
+    fill(page, "Password", dav.password)
+    tap(page, "Save office folder")
+    see(page, "Office folder saved")
+    shot(page, "web-10-settings-offline")
+    # the password is sealed in the store, its key kept in a database of its own (mobile_app/browser/keys.py)
+    assert not copied_within(page, dav.password, 1.0)
+
+    tab_to(page, "Jobs")
+    page.get_by_text("WEB-101 Quarry Road").first.click()
+    tap(page, "Review")
+    fill(page, "Recorded by (your name)", "Rosa Quennell")
+    tap(page, "Submit for review")
+    see(page, "Status: In review")
+    fill(page, "Supervisor name", "Ines Okafor")
+    fill(page, "PIN", "1357")
+    tap(page, "Approve")
+    see(page, "PIN not accepted", timeout_ms=20000)
+    fill(page, "PIN", "2468")
+    tap(page, "Approve")
+    see(page, "Status: Approved", timeout_ms=20000)
+    shot(page, "web-11-approved")
+    tap(page, "Export to outbox")
+    see(page, "to the outbox", timeout_ms=90000)
+
+    tab_to(page, "Outbox")
+    see(page, "1 waiting")
+    shot(page, "web-12-outbox-offline")
+    with page.expect_download(timeout=30000) as caught:
+        page.get_by_role("button", name=re.compile("JSON")).first.click()
+    download = caught.value
+    data = Path(download.path()).read_bytes()
+    document = json.loads(data)
+    assert document["job"]["client_ref"] == "WEB-101 Quarry Road"
+    assert "620 mΩ" in data.decode("utf-8")
+    # the same bytes as the export the store keeps: its manifest's SHA-256 for the file
+    stored = page.evaluate(STORED_FILE, "/manifest.json")
+    assert stored is not None and "/exports/" in stored[0]
+    manifest = json.loads(stored[1])
+    assert manifest["files"][download.suggested_filename]["sha256"] == hashlib.sha256(data).hexdigest()
+
+    # the failed tries while offline set the export's next timed try; one due within 20 s is waited
+    # out offline, so that an arrival before it can only come from the `online` event
+    due = next_try_at(page, dav.root.parent)
+    while due - datetime.now(UTC) < timedelta(seconds=20):
+        page.wait_for_timeout(1000)
+        due = next_try_at(page, dav.root.parent)
+    dav.start()
+    context.set_offline(False)  # the browser's `online` event wakes the outbox's sync
+    deadline = time.monotonic() + 60
+    office = dav.root / "office"
+    while time.monotonic() < deadline and not (office.is_dir() and any(
+            d.is_dir() and not d.name.startswith(".") for d in office.iterdir())):
+        page.wait_for_timeout(250)
+    assert datetime.now(UTC) < due, "sent only by the timed retry: the `online` event did not wake the sync"
+    bundles = [d for d in office.iterdir() if d.is_dir() and not d.name.startswith(".")]
+    assert len(bundles) == 1, dav.requests()
+    arrived = read_bundle(bundles[0])  # re-checks every file against the manifest's SHA-256
+    assert (bundles[0] / download.suggested_filename).read_bytes() == data
+    assert all(arrived.sha256[name] == entry["sha256"] for name, entry in manifest["files"].items())
+    see(page, "0 waiting", timeout_ms=20000)
+    shot(page, "web-13-outbox-sent")
+    context.set_offline(True)
+
+
+def test_walk_reload_offline_and_second_tab(site: Path, browser_context, tmp_path: Path) -> None:
     elsewhere = Elsewhere()
     elsewhere.guard(browser_context)
     server, url = serve(site)
@@ -193,6 +352,12 @@ def test_walk_reload_offline_and_second_tab(site: Path, browser_context) -> None
     shot(page, "web-06-offline-jobs")
     find_job_and_reading(page)
     shot(page, "web-07-offline-reading")
+
+    dav = DavServer(tmp_path / "office", tmp_path / "office.log", cors=url.rstrip("/"))
+    try:
+        approve_export_and_sync(page, browser_context, url, dav)
+    finally:
+        dav.stop()
 
     second = browser_context.new_page()
     start(second, url)

@@ -2,9 +2,12 @@
 when it connects.
 
 `warm` imports the app's code and nothing else (the worker keeps a memory snapshot after it, so later
-starts skip it); `prepare` claims the job store (one tab owns it) and opens it, all before the client
-asks, so the jobs list is sent as soon as it connects. A tab that does not own the store shows a
-screen saying so, with a way to try again once the other tab is closed; it never opens its own copy.
+starts skip it); `prepare` claims the job store (one tab owns it) and opens it, and installs the
+browser's platform edges (`platform`: fetch for the sync, the device key, the PDF's libraries on
+demand), all before the client asks, so the jobs list is sent as soon as it connects. Once it is sent,
+the outbox's sync starts (and runs again whenever the connection comes back). A tab that does not own
+the store shows a screen saying so, with a way to try again once the other tab is closed; it never
+opens its own copy.
 """
 
 from __future__ import annotations
@@ -15,13 +18,12 @@ _state: dict[str, Any] = {}
 
 SCREEN_CONTROLS: tuple[str, ...] = (
     "AnimationStyle", "AppBar", "Border", "BorderSide", "BottomAppBar", "BottomSheet", "Button",
-    "ButtonStyle", "Card", "Colors", "Column", "Container", "CrossAxisAlignment", "FilledButton",
-    "FontWeight", "Icon",
-    "IconButton", "Icons", "Image", "KeyboardType", "ListTile", "MainAxisAlignment", "NavigationBar",
-    "NavigationBarDestination", "OutlinedButton", "Padding", "Page", "ProgressBar", "ProgressRing",
-    "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea", "ScrollMode", "Semantics", "SnackBar",
-    "Text", "TextButton", "TextField", "TextOverflow", "TextStyle", "TextTheme", "Theme", "ThemeMode",
-    "View",
+    "ButtonStyle", "Card", "Colors", "Column", "Container", "CrossAxisAlignment", "FilePicker",
+    "FilledButton", "FontWeight", "Icon", "IconButton", "Icons", "Image", "KeyboardType", "ListTile",
+    "MainAxisAlignment", "NavigationBar", "NavigationBarDestination", "OutlinedButton", "Padding",
+    "Page", "ProgressBar", "ProgressRing", "ResponsiveRow", "RoundedRectangleBorder", "Row", "SafeArea",
+    "ScrollMode", "Semantics", "Share", "ShareFile", "SnackBar", "Text", "TextButton", "TextField",
+    "TextOverflow", "TextStyle", "TextTheme", "Theme", "ThemeMode", "View",
 )
 """The Flet names the screens use (Flet imports each on first use; tests/test_webbuild.py keeps this
 list in step with mobile_app/views and mobile_app/components)."""
@@ -36,7 +38,10 @@ def warm() -> None:
     """
     import flet as ft
 
+    import mobile_app.browser.platform  # noqa: F401
     import mobile_app.browser.storage  # noqa: F401
+    import mobile_app.sync.fetch  # noqa: F401
+    import mobile_app.sync.schedule  # noqa: F401
     from mobile_app.main import import_screens
 
     import_screens()
@@ -45,12 +50,13 @@ def warm() -> None:
 
 
 async def prepare() -> None:
-    """Claim and open the store (runs before the client connects)."""
-    from mobile_app.browser import storage
+    """Claim and open the store, install the platform's edges (runs before the client connects)."""
+    from mobile_app.browser import platform, storage
 
     js = storage.bridge()
     _state["js"] = js
     if await storage.claim(js):
+        platform.install(js, await platform.device_key(js))
         _state["store"] = storage.open_store(js, _copy_failed)
     import flet.app  # noqa: F401  (the connection's code, with msgpack's extension: not in the snapshot)
     import flet.messaging.pyodide_connection  # noqa: F401
@@ -75,13 +81,10 @@ def _copy_failed(reason: str) -> None:
 
 
 async def _main(page: Any) -> None:
-    from mobile_app.main import make_main
-
     _state["page"] = page
     store = _state.get("store")
     if store is not None:
-        make_main(store)(page)
-        _state["js"].mark("first-screen-sent")
+        _start(page, store)
         return
     import flet as ft
 
@@ -90,15 +93,29 @@ async def _main(page: Any) -> None:
     from mobile_app.views import another_tab_view
 
     async def retry() -> None:
+        from mobile_app.browser import platform
+
         if not await storage.claim(_state["js"]):
             page.show_dialog(ft.SnackBar(ft.Text("Still open in another tab."), duration=2500))
             return
+        platform.install(_state["js"], await platform.device_key(_state["js"]))
         _state["store"] = storage.open_store(_state["js"], _copy_failed)
         page.views.clear()
-        make_main(_state["store"])(page)
+        _start(page, _state["store"])
 
     page.title = "Boardside"
     page.theme = page.dark_theme = app_theme()
     page.views.clear()
     page.views.append(another_tab_view.build(retry))
     page.update()
+
+
+def _start(page: Any, store: Any) -> None:
+    """The app's first screen on the store, then the outbox's sync (after the screen is sent)."""
+    from mobile_app.browser import platform
+    from mobile_app.main import make_main
+
+    loop = _state.get("sync") or platform.start_sync(store, lambda _report: None)
+    _state["sync"] = loop
+    make_main(store, loop)(page)
+    _state["js"].mark("first-screen-sent")

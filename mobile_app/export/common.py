@@ -33,6 +33,18 @@ class ExportError(StoreError):
     """Base of every error the export raises on purpose."""
 
 
+class LibrariesError(ExportError, ImportError):
+    """The PDF's libraries could not be loaded on this device (the browser build loads them on the
+    first export)."""
+
+    def __init__(self, reason: str) -> None:
+        super().__init__(reason)
+        self.reason = reason
+
+    def __str__(self) -> str:
+        return f"the PDF's libraries could not be loaded ({self.reason}); try again with the site reachable"
+
+
 class BundleExistsError(ExportError, FileExistsError):
     """Every free name for this bundle is taken, and bundles are never overwritten."""
 

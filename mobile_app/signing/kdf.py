@@ -137,9 +137,15 @@ def derive_now(secret: str | bytes, params: KdfParams) -> bytes:
     return hashlib.pbkdf2_hmac("sha256", secret_bytes(secret), params.salt, params.iterations, params.length)
 
 
-def resolve(secret: str | Derived, params: KdfParams) -> bytes:
-    """The derived key for `params`: a `Derived` made with these very parameters (KeyFormatError if
-    it was made with others), or a text secret derived now (`derive_now`)."""
+def resolve(secret: str | Derived | tuple[Derived, ...], params: KdfParams) -> bytes:
+    """The derived key for `params`: a `Derived` made with these very parameters, or the one of a
+    tuple of them that was (KeyFormatError if none was), or a text secret derived now (`derive_now`).
+    A tuple serves a store that derives one secret twice, e.g. a PIN's verifier and its sealed key."""
+    if isinstance(secret, tuple):
+        for one in secret:
+            if one.params == params:
+                return one.key
+        raise KeyFormatError("key derivation", "derived with other parameters than asked")
     if isinstance(secret, Derived):
         if secret.params != params:
             raise KeyFormatError("key derivation", "derived with other parameters than asked")

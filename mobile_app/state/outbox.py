@@ -21,6 +21,25 @@ NO_FOLDER = "No office folder set"
 NO_FOLDER_DETAIL = ("Exports wait on this device until an office folder is set in Settings; "
                     "nothing is tried before then.")
 
+MEDIA_TYPES = {".pdf": "application/pdf", ".json": "application/json", ".csv": "text/csv"}
+"""The documents of a bundle handed to a person, in this order (RFC 8118, RFC 8259, RFC 4180)."""
+
+
+@dataclass(frozen=True)
+class Document:
+    """One file of an export as handed over: its name, its bytes and its media type."""
+
+    name: str
+    data: bytes
+    media_type: str
+
+
+def _said(report: Any) -> str:
+    """A sync run in plain words: `2 sent, 0 waiting`, with its error if it had one."""
+    if report.error:
+        return f"{len(report.sent)} sent, {report.waiting} waiting: {report.error}"
+    return f"{len(report.sent)} sent, {report.waiting} waiting"
+
 
 @dataclass(frozen=True)
 class OutboxRow:
@@ -115,9 +134,46 @@ class OutboxState:
             return f"Not sent: {NO_FOLDER.lower()}. Set the office folder in Settings first."
         except SyncError as exc:
             return f"Not sent: {exc}"
-        if report.error:
-            return f"{len(report.sent)} sent, {report.waiting} waiting: {report.error}"
-        return f"{len(report.sent)} sent, {report.waiting} waiting"
+        return _said(report)
+
+    async def send_now_async(self) -> str:
+        """`send_now` awaited: the platform's own transport (the browser's fetch, or the server's
+        with each request in a worker thread), so the screen goes on while it sends."""
+        from mobile_app.sync import SyncError, sync_store_async
+
+        try:
+            report = await sync_store_async(self.store, force=True)
+        except SyncError as exc:
+            return f"Not sent: {exc}"
+        return _said(report)
+
+    def documents(self, entry_id: int) -> tuple[list[Document], str]:
+        """The PDF, JSON and CSV of an export in the outbox, to hand to the person (download or
+        share), and "" — or no files and why: the bundle on this device was removed or changed since
+        it was queued (its hashes are checked)."""
+        from mobile_app.sync.outbox import files_from_row
+        from mobile_app.sync.send import read_checked
+
+        try:
+            row = self.outbox.get(entry_id)
+            folder = Path(row["bundle_dir"])
+            kept = [Document(f.name, read_checked(folder, f), MEDIA_TYPES[Path(f.name).suffix.lower()])
+                    for f in files_from_row(row) if Path(f.name).suffix.lower() in MEDIA_TYPES]
+        except OutboxError as exc:
+            return [], f"Not available: {exc}"
+        order = list(MEDIA_TYPES)
+        return sorted(kept, key=lambda d: order.index(Path(d.name).suffix.lower())), ""
+
+    async def prepare_export(self) -> str:
+        """Make the PDF's libraries importable (the browser build loads them on the first export);
+        "" when ready, else why not in plain words."""
+        from mobile_app.export import ready
+
+        try:
+            await ready()
+        except StoreError as exc:
+            return f"Not exported: {exc}"
+        return ""
 
     def export_job(self, job_id: int) -> str:
         """Export a job's bundle (JSON, CSV, PDF) and queue it for the office; an export of the same

@@ -195,6 +195,20 @@ class ReviewState:
             return Outcome(False, f"Not returned: {exc}")
         return Outcome(True, "Returned to draft with your comment")
 
+    async def return_to_draft_async(self, supervisor_name: str, comment: str, pin: str) -> Outcome:
+        """`return_to_draft`, deriving the PIN (or an enrolled supervisor's passphrase) first without
+        blocking (the browser's WebCrypto)."""
+        person = self._person(supervisor_name, "supervisor")
+        if person is None or not comment.strip() or not pin.strip():
+            return self.return_to_draft(supervisor_name, comment, pin)
+        people = self.store.people
+        try:
+            params = (people.pin_params(int(person["id"])) if pin.strip().isdigit()
+                      else people.key_params(int(person["id"])))
+        except StoreError as exc:
+            return Outcome(False, f"Not returned: {exc}")
+        return self.return_to_draft(supervisor_name, comment, await kdf.derive_for(pin.strip(), params))
+
     def add_supervisor(self, name: str, pin: str) -> Outcome:
         """Register a supervisor with a PIN (the store checks the PIN's length)."""
         if not name.strip():
@@ -210,6 +224,26 @@ class ReviewState:
         raw = self.store.jobs.get(self.job_id).get("approval_reasons")
         items = json.loads(raw) if raw else []
         return [(str(i.get("what") or ""), str(i.get("reason") or "")) for i in items if isinstance(i, dict)]
+
+    async def add_supervisor_async(self, name: str, pin: str) -> Outcome:
+        """`add_supervisor`, deriving the PIN's verifier and the key sealed under it first without
+        blocking (the browser's WebCrypto)."""
+        from mobile_app.store import pins as pin_rules
+
+        if not name.strip():
+            return Outcome(False, "Enter the supervisor's name")
+        try:
+            pin_rules.check_pin_format(pin.strip())
+        except PinError as exc:
+            return Outcome(False, f"Not added: {exc}")
+        pin_params, key_params = pin_rules.new_pin_params(), self.store.people.new_key_params()
+        derived = (await kdf.derive_for(pin.strip(), pin_params),
+                   await kdf.derive_for(pin.strip(), key_params))
+        try:
+            self.store.people.add(name.strip(), "supervisor", derived, pin_params, key_params)
+        except StoreError as exc:
+            return Outcome(False, f"Not added: {exc}")
+        return Outcome(True, f"Supervisor {name.strip()} added")
 
     def history(self, limit: int = 12) -> list[str]:
         """The job's review events as lines (`2026-12-02 07:30 · Approved (was In review) · Ann`)."""

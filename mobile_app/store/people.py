@@ -41,10 +41,13 @@ class People:
     def __init__(self, core: Core) -> None:
         self.core = core
 
-    def add(self, name: str, role: str, pin: pins.Secret | None = None) -> int:
+    def add(self, name: str, role: str, pin: pins.Secret | None = None, pin_params: KdfParams | None = None,
+            key_params: KdfParams | None = None) -> int:
         """Add a person (role: apprentice, qualified or supervisor); a supervisor given a PIN gets a
         device key sealed under it. The name is normalised; a name that looks like one already
-        recorded is refused (InvalidValueError)."""
+        recorded is refused (InvalidValueError). Where Python has no PBKDF2 (the browser) `pin` is
+        the tuple of the PIN derived with `pin_params` (`pins.new_pin_params()`) and with `key_params`
+        (`new_key_params()`), both awaited with `kdf.derive_for`."""
         if role not in ROLES:
             raise InvalidValueError("role", "must be one of: " + ", ".join(ROLES))
         try:
@@ -53,8 +56,8 @@ class People:
             raise InvalidValueError("name", error.problem) from error
         columns: dict[str, Any] = {}
         if pin is not None:
-            columns = self._pin_columns(clean, pin, pin_params=pins.new_pin_params(),
-                                        key_params=pins.new_pin_params(), role=role)
+            columns = self._pin_columns(clean, pin, pin_params=pin_params or pins.new_pin_params(),
+                                        key_params=key_params or pins.new_pin_params(), role=role)
         with self.core.write() as conn:
             person_id = self.core.insert(conn, "people", dict(name=clean, role=role, created_at=now_iso(),
                                                               **columns))

@@ -21,7 +21,7 @@ MIN_PIN_LENGTH = 4
 MAX_WRONG_PINS = 5
 PIN_ITERATIONS = 600_000
 
-Secret = str | kdf.Derived
+Secret = str | kdf.Derived | tuple[kdf.Derived, ...]
 
 
 def check_pin_format(pin: str) -> None:

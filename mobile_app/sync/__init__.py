@@ -13,17 +13,23 @@ Public surface:
     save_target(store, url, user, password) ; load_target(store) -> SyncTarget
     check_url(url) ; scrub(text, target)
     save_password(store, pw) ; load_password(store) -> str   # sealed in the settings with a device
-                                       # key kept apart: KeyStore, FileKeyStore (file `device-key`)
+                                       # key kept apart: KeyStore, FileKeyStore (file `device-key`);
+                                       # use_key_store(ks) installs a platform's own (the browser's)
     sync_once(store_or_db, transport, now=None, force=False, progress=None, limits=None) -> SyncReport
                                        # transport: a Transport, or a SyncTarget for the platform's own
     sync_store(store, force=False, progress=None) -> SyncReport      # with the saved target
+    await sync_once_async(store_or_db, async_transport_or_target, ...) ; await sync_store_async(store,
+                                       force=False, progress=None)   # the same run as coroutines
     SyncLimits(run_s=600, bundle_s=180) ; SyncLimits.of(store)        # settings sync_run_limit_s,
                                        # sync_bundle_limit_s: time limits measured from the start
     SyncReport: sent, waiting, error, error_kind, probed, next_try_at, busy (another run holds the
                 store's lease), stopped_at_limit, cleaned (leftover uploads deleted)
     Transport                          # the seam: set_deadline, kind, make_folder, put, get, move,
                                        # delete, close (see `transport`)
+    AsyncTransport                     # the same requests as coroutines (the runner's own seam)
     open_transport(target) -> Transport ; WebDavTransport(target)    # webdav4 over httpx
+    open_async_transport(target) -> AsyncTransport ; use_async_transport(opener)   # the platform's
+    FetchTransport(target, fetcher)    # WebDAV over a fetch function (the browser's, in the static build)
     SyncTask(data_dir, on_report=None).start() / .wake() / .stop()   # background thread, server form
 
 Errors: OutboxError with BundleError and UnknownBundleError (the outbox); SyncError with
@@ -38,7 +44,9 @@ errors), `saved` (the office folder saved on the device, the password sealed wit
 `seal` (the seal, HMAC-SHA256 only), `transport` (the seam), `runner` (one run: limits, backoff),
 `send` (one bundle: temporary folder, verify, MOVE), `lease` (one run at a time per store, a row in
 the database), `connect` (the platform's transport), `webdav` (webdav4 over httpx, the only module
-importing a network library), `task` (the background thread), `cli`. Imports point to the export
+importing a network library), `fetch` (WebDAV over a fetch function: the browser build's transport),
+`schedule` (the awaited sync that runs when something is due, without threads), `task` (the
+background thread of the server form), `cli`. Imports point to the export
 names and the store only. A name is imported from its module when first used, so the outbox and the
 runner can be loaded without httpx or webdav4.
 """
@@ -49,7 +57,8 @@ import importlib
 from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:
-    from mobile_app.sync.connect import open_transport
+    from mobile_app.sync.connect import open_async_transport, open_transport, use_async_transport
+    from mobile_app.sync.fetch import FetchTransport
     from mobile_app.sync.outbox import (
         BundleError,
         Outbox,
@@ -61,7 +70,9 @@ if TYPE_CHECKING:
         SyncLimits,
         SyncReport,
         sync_once,
+        sync_once_async,
         sync_store,
+        sync_store_async,
     )
     from mobile_app.sync.saved import (
         FileKeyStore,
@@ -70,6 +81,7 @@ if TYPE_CHECKING:
         load_target,
         save_password,
         save_target,
+        use_key_store,
     )
     from mobile_app.sync.target import (
         AuthError,
@@ -90,7 +102,7 @@ if TYPE_CHECKING:
         scrub,
     )
     from mobile_app.sync.task import SyncTask
-    from mobile_app.sync.transport import Transport
+    from mobile_app.sync.transport import AsyncTransport, Transport
     from mobile_app.sync.webdav import WebDavTransport
 
 _MODULE_OF = {
@@ -102,7 +114,13 @@ _MODULE_OF = {
     "SyncLimits": "runner",
     "SyncReport": "runner",
     "open_transport": "connect",
+    "open_async_transport": "connect",
+    "use_async_transport": "connect",
+    "FetchTransport": "fetch",
     "Transport": "transport",
+    "AsyncTransport": "transport",
+    "sync_once_async": "runner",
+    "sync_store_async": "runner",
     "WebDavTransport": "webdav",
     "TimeLimitError": "target",
     "SyncTask": "task",
@@ -114,6 +132,7 @@ _MODULE_OF = {
     "load_target": "saved",
     "save_password": "saved",
     "save_target": "saved",
+    "use_key_store": "saved",
     "scrub": "target",
     "SyncError": "target",
     "SecretError": "target",
@@ -133,10 +152,12 @@ _MODULE_OF = {
 }
 
 __all__ = [
+    "AsyncTransport",
     "AuthError",
     "BundleError",
     "CertificateError",
     "DroppedError",
+    "FetchTransport",
     "FileKeyStore",
     "InsecureTargetError",
     "KeyStore",
@@ -163,12 +184,17 @@ __all__ = [
     "check_url",
     "load_password",
     "load_target",
+    "open_async_transport",
     "open_transport",
     "save_password",
     "save_target",
     "scrub",
     "sync_once",
+    "sync_once_async",
     "sync_store",
+    "sync_store_async",
+    "use_async_transport",
+    "use_key_store",
 ]
 
 

@@ -14,9 +14,11 @@ the start of the run and of each bundle, not per read: the transport ends any re
 of the two. A bundle that reaches its own limit backs off alone and the run goes on; a run that reaches
 its limit stops, and the bundles it did not try stay due for the next run, with no attempt counted.
 
-The network is behind `mobile_app.sync.transport.Transport`: this module imports no network library.
-Given a `SyncTarget` instead of a transport, `sync_once` opens the platform's own
-(`mobile_app.sync.connect.open_transport`) and closes it at the end.
+The network is behind `mobile_app.sync.transport`: this module imports no network library. The run
+is written once, as coroutines: `sync_once_async` awaits an `AsyncTransport` (the browser's fetch, or
+the server's transport in a worker thread), and `sync_once` runs the same coroutines to their end at
+once over a blocking `Transport` (`Immediate`, `finish`). Given a `SyncTarget` instead of a transport,
+either opens the platform's own (`mobile_app.sync.connect`) and closes it at the end.
 """
 
 from __future__ import annotations
@@ -30,7 +32,7 @@ from datetime import datetime, timedelta
 from typing import Any
 
 from mobile_app.sync import lease
-from mobile_app.sync.connect import open_transport
+from mobile_app.sync.connect import open_async_transport, open_transport
 from mobile_app.sync.outbox import BundleError, Outbox, utc_now
 from mobile_app.sync.saved import load_target
 from mobile_app.sync.send import clean_leftovers, probe, send_bundle
@@ -42,7 +44,7 @@ from mobile_app.sync.target import (
     check_url,
     scrub,
 )
-from mobile_app.sync.transport import Transport
+from mobile_app.sync.transport import AsyncTransport, Immediate, Transport, finish
 
 log = logging.getLogger("boardside.sync")
 log.addHandler(logging.NullHandler())
@@ -130,7 +132,7 @@ class _Run:
     """One run's fixed context: where it records, what it talks to, its clock and limits."""
 
     outbox: Outbox
-    transport: Transport
+    transport: AsyncTransport
     now: datetime
     rng: random.Random
     limits: SyncLimits
@@ -154,12 +156,25 @@ def sync_once(store_or_db: Any, transport: Transport | SyncTarget, now: datetime
               rng: random.Random | None = None, limits: SyncLimits | None = None) -> SyncReport:
     """Send every due bundle of the outbox (every waiting one when `force`, i.e. "send now").
 
-    `transport` is a Transport, or a SyncTarget for the platform's own (opened and closed here;
-    InsecureTargetError before any traffic for a refused address). Errors while sending are recorded
-    on the bundles (attempts, last error, next try) and summed up in the report. While another run
-    holds the store's lease the report says `busy` and nothing is touched. `progress(done, total)` is
-    called after each bundle.
+    `transport` is a Transport, or a SyncTarget for the platform's own blocking transport (opened and
+    closed here; InsecureTargetError before any traffic for a refused address). Errors while sending
+    are recorded on the bundles (attempts, last error, next try) and summed up in the report. While
+    another run holds the store's lease the report says `busy` and nothing is touched.
+    `progress(done, total)` is called after each bundle. Returns when the run has ended.
     """
+    given = transport if isinstance(transport, SyncTarget) else Immediate(transport)
+    return finish(sync_once_async(store_or_db, given, now, force, progress, rng, limits,
+                                  opener=lambda target: Immediate(open_transport(target))))
+
+
+async def sync_once_async(store_or_db: Any, transport: AsyncTransport | SyncTarget,
+                          now: datetime | None = None, force: bool = False,
+                          progress: Callable[[int, int], None] | None = None,
+                          rng: random.Random | None = None, limits: SyncLimits | None = None,
+                          opener: Callable[[SyncTarget], AsyncTransport] | None = None) -> SyncReport:
+    """`sync_once` as a coroutine over an AsyncTransport; a SyncTarget opens the platform's own
+    (`open_async_transport`, or `opener`). No threads of its own: the browser awaits it on the page's
+    event loop, and the store's lease keeps it to one run at a time."""
     db = _db_of(store_or_db)
     outbox = Outbox(db)
     if isinstance(transport, SyncTarget):
@@ -173,7 +188,8 @@ def sync_once(store_or_db: Any, transport: Transport | SyncTarget, now: datetime
             report.busy, report.error, report.error_kind = True, BUSY, "busy"
         else:
             try:
-                _with_transport(outbox, transport, now, force, rng, limits, report, progress)
+                await _with_transport(outbox, transport, opener or open_async_transport, now, force,
+                                      rng, limits, report, progress)
             finally:
                 lease.give_back(db, taken)
     report.waiting = len(outbox.waiting())
@@ -181,31 +197,32 @@ def sync_once(store_or_db: Any, transport: Transport | SyncTarget, now: datetime
     return report
 
 
-def _with_transport(outbox: Outbox, transport: Transport | SyncTarget, now: datetime, force: bool,
-                    rng: random.Random | None, limits: SyncLimits, report: SyncReport,
-                    progress: Callable[[int, int], None] | None) -> None:
+async def _with_transport(outbox: Outbox, transport: AsyncTransport | SyncTarget,
+                          opener: Callable[[SyncTarget], AsyncTransport], now: datetime, force: bool,
+                          rng: random.Random | None, limits: SyncLimits, report: SyncReport,
+                          progress: Callable[[int, int], None] | None) -> None:
     """Run with the given transport, or with the platform's own opened for `transport`'s target."""
-    opened = open_transport(transport) if isinstance(transport, SyncTarget) else None
-    run = _Run(outbox, opened or transport, now, rng or random.Random(), limits, report)
+    opened = opener(transport) if isinstance(transport, SyncTarget) else None
+    run = _Run(outbox, opened or transport, now, rng or random.Random(), limits, report)  # type: ignore[arg-type]
     try:
         due = outbox.due(now, force=force)  # again: a run that held the lease may have sent them
         if due:
             report.probed = True
-            _send_due(run, due, progress)
+            await _send_due(run, due, progress)
     finally:
         run.transport.set_deadline(None)
         if opened is not None:
             opened.close()
 
 
-def _send_due(run: _Run, due: list[dict[str, Any]],
-              progress: Callable[[int, int], None] | None) -> None:
+async def _send_due(run: _Run, due: list[dict[str, Any]],
+                    progress: Callable[[int, int], None] | None) -> None:
     """Probe, clean leftovers, then send the due rows one by one within the time limits."""
     run.ends_at_s = time.monotonic() + run.limits.run_s
     run.transport.set_deadline(run.ends_at_s)
     try:
-        probe(run.transport)
-        run.report.cleaned = clean_leftovers(run.outbox, run.transport)
+        await probe(run.transport)
+        run.report.cleaned = await clean_leftovers(run.outbox, run.transport)
     except SyncError as exc:
         run.fail(due, exc)
         return
@@ -214,16 +231,16 @@ def _send_due(run: _Run, due: list[dict[str, Any]],
             _stopped(run)
             return
         run.transport.set_deadline(min(run.ends_at_s, time.monotonic() + run.limits.bundle_s))
-        if not _send_one(run, row, due[done - 1:]):
+        if not await _send_one(run, row, due[done - 1:]):
             return
         if progress is not None:
             progress(done, len(due))
 
 
-def _send_one(run: _Run, row: dict[str, Any], rest: list[dict[str, Any]]) -> bool:
+async def _send_one(run: _Run, row: dict[str, Any], rest: list[dict[str, Any]]) -> bool:
     """Send one row and record how it went; False when the run must stop here."""
     try:
-        send_bundle(run.transport, run.outbox, row)
+        await send_bundle(run.transport, run.outbox, row)
     except (BundleError, VerifyError) as exc:
         run.fail([row], exc)
     except TimeLimitError as exc:
@@ -266,3 +283,12 @@ def sync_store(store: Any, force: bool = False,
     if not outbox.due(force=force):
         return SyncReport(waiting=len(outbox.waiting()), next_try_at=outbox.next_try_at())
     return sync_once(store, load_target(store), force=force, progress=progress)
+
+
+async def sync_store_async(store: Any, force: bool = False,
+                           progress: Callable[[int, int], None] | None = None) -> SyncReport:
+    """`sync_store` as a coroutine over the platform's own AsyncTransport (the browser's fetch)."""
+    outbox = Outbox(_db_of(store))
+    if not outbox.due(force=force):
+        return SyncReport(waiting=len(outbox.waiting()), next_try_at=outbox.next_try_at())
+    return await sync_once_async(store, load_target(store), force=force, progress=progress)

@@ -5,8 +5,9 @@ The password is kept in the settings (`sync_password_sealed`) only as a sealed t
 key that opens it is kept apart, by a `KeyStore`. In the server form that is the file `device-key`
 in the app's data folder (mode 0600, owner only), so the store file, its backups, a damaged copy
 moved aside or a store file sent to someone for help reveal nothing of the password. The browser
-build keeps the same rule with a key store of its own in the browser's storage, apart from the store
-file (a key in its own IndexedDB database, or a non-extractable WebCrypto key), picked in `key_store`.
+build keeps the same rule with a key store of its own, apart from the store's copy in the browser
+(a non-extractable WebCrypto key in an IndexedDB database of its own: `mobile_app.browser.keys`),
+which its entry installs with `use_key_store`; `key_store` hands out the installed one.
 A password saved by an earlier version in the plain file `sync-password` is sealed on first use and
 the file overwritten and removed. The password never reaches a log, an export or an error message
 (`target.scrub`).
@@ -61,8 +62,19 @@ class FileKeyStore:
         return key
 
 
+_installed: list[KeyStore] = []
+
+
+def use_key_store(store: KeyStore) -> None:
+    """Install the platform's own key store (the browser entry does, before any screen)."""
+    _installed.clear()
+    _installed.append(store)
+
+
 def key_store(data_dir: Path) -> KeyStore:
-    """The key store of this platform for the store in `data_dir`."""
+    """The key store of this platform for the store in `data_dir`: the installed one, else the file."""
+    if _installed:
+        return _installed[-1]
     return FileKeyStore(Path(data_dir) / KEY_FILE)
 
 

@@ -8,7 +8,7 @@ does as a rename: the bundle's folder appears complete or not at all. The tempor
 kept in the outbox row first, so a run that was stopped (killed, offline, time limit) leaves a
 leftover the next run deletes. If the final folder is already there (a run moved it and was stopped
 before it could record that), it is read back: the same bytes count as delivered, and anything else
-is replaced. Works over any `Transport`.
+is replaced. Works over any `AsyncTransport` (coroutines; see `transport` for the blocking one).
 """
 
 from __future__ import annotations
@@ -19,7 +19,7 @@ from typing import Any
 
 from mobile_app.sync.outbox import BundleError, BundleFile, Outbox, files_from_row
 from mobile_app.sync.target import ProtocolError, SyncError, VerifyError
-from mobile_app.sync.transport import Transport
+from mobile_app.sync.transport import AsyncTransport
 
 STAGING_SUFFIX = ".partial"
 
@@ -29,21 +29,21 @@ def staging_path(remote_path: str) -> str:
     return f".{remote_path}{STAGING_SUFFIX}/"
 
 
-def probe(transport: Transport) -> None:
+async def probe(transport: AsyncTransport) -> None:
     """Check the office folder is a folder; make it if missing. Another device making it at the same
     moment (MKCOL answers 405) is as good as making it."""
-    kind = transport.kind("")
-    if kind is None and not transport.make_folder(""):
-        kind = transport.kind("")
+    kind = await transport.kind("")
+    if kind is None and not await transport.make_folder(""):
+        kind = await transport.kind("")
     if kind not in (None, "folder"):
         raise ProtocolError("the office address is a file, not a folder")
 
 
-def clean_leftovers(outbox: Outbox, transport: Transport) -> int:
+async def clean_leftovers(outbox: Outbox, transport: AsyncTransport) -> int:
     """Delete the temporary folders that stopped runs left on the server; how many were there."""
     found = 0
     for row in outbox.staged():
-        found += transport.delete(row["staging"])
+        found += await transport.delete(row["staging"])
         outbox.mark_staging(row["id"], None)
     return found
 
@@ -60,9 +60,9 @@ def read_checked(bundle_dir: Path, f: BundleFile) -> bytes:
     return data
 
 
-def verify(transport: Transport, remote: str, f: BundleFile) -> None:
+async def verify(transport: AsyncTransport, remote: str, f: BundleFile) -> None:
     """GET a file back; VerifyError unless it has the size and SHA-256 that were queued."""
-    back = transport.get(remote, f.size_bytes)
+    back = await transport.get(remote, f.size_bytes)
     if back is None:
         raise VerifyError(f"{remote} is missing on the server after upload")
     if len(back) != f.size_bytes or hashlib.sha256(back).hexdigest() != f.sha256:
@@ -70,44 +70,44 @@ def verify(transport: Transport, remote: str, f: BundleFile) -> None:
                           f"({len(back)} of {f.size_bytes} bytes)")
 
 
-def already_there(transport: Transport, folder: str, files: list[BundleFile]) -> bool:
+async def already_there(transport: AsyncTransport, folder: str, files: list[BundleFile]) -> bool:
     """True if `folder` on the server holds every file of the bundle byte for byte."""
     try:
         for f in files:
-            verify(transport, f"{folder}{f.remote_name}", f)
+            await verify(transport, f"{folder}{f.remote_name}", f)
     except VerifyError:
         return False
     return True
 
 
-def send_bundle(transport: Transport, outbox: Outbox, row: dict[str, Any]) -> None:
+async def send_bundle(transport: AsyncTransport, outbox: Outbox, row: dict[str, Any]) -> None:
     """Upload one outbox row's bundle into its temporary folder, verify it, move it into place."""
     bundle_dir, files = Path(row["bundle_dir"]), files_from_row(row)
     final, staging = f"{row['remote_path']}/", staging_path(row["remote_path"])
     outbox.mark_staging(row["id"], staging)
-    if not transport.make_folder(staging):
-        transport.delete(staging)
-        transport.make_folder(staging)
+    if not await transport.make_folder(staging):
+        await transport.delete(staging)
+        await transport.make_folder(staging)
     try:
         for f in files:
             remote = f"{staging}{f.remote_name}"
-            transport.put(remote, read_checked(bundle_dir, f))
-            verify(transport, remote, f)
+            await transport.put(remote, read_checked(bundle_dir, f))
+            await verify(transport, remote, f)
     except (BundleError, VerifyError):
-        _drop(transport, outbox, row["id"], staging)
+        await _drop(transport, outbox, row["id"], staging)
         raise
-    if transport.move(staging, final):
+    if await transport.move(staging, final):
         return
-    if already_there(transport, final, files):
-        _drop(transport, outbox, row["id"], staging)
+    if await already_there(transport, final, files):
+        await _drop(transport, outbox, row["id"], staging)
         return
-    transport.move(staging, final, overwrite=True)
+    await transport.move(staging, final, overwrite=True)
 
 
-def _drop(transport: Transport, outbox: Outbox, entry_id: int, staging: str) -> None:
+async def _drop(transport: AsyncTransport, outbox: Outbox, entry_id: int, staging: str) -> None:
     """Delete a temporary folder now if the server lets us (else the next run does)."""
     try:
-        transport.delete(staging)
+        await transport.delete(staging)
     except SyncError:
         return
     outbox.mark_staging(entry_id, None)

@@ -172,6 +172,14 @@ def status_error(status: int) -> SyncError:
     return ProtocolError(f"the office folder answered HTTP {status}")
 
 
+def check_done(status: int) -> None:
+    """Raise for a MOVE or DELETE that did not fully happen (207: some members failed)."""
+    if status == 207:
+        raise ProtocolError("the office folder did only part of a move or delete (HTTP 207)")
+    if status >= 300:
+        raise status_error(status)
+
+
 def parse_is_collection(body: bytes) -> bool:
     """True if a PROPFIND multistatus says the resource is a collection.
 

@@ -5,15 +5,13 @@ from __future__ import annotations
 
 import threading
 from collections.abc import Callable
-from datetime import datetime
 from pathlib import Path
 
 from mobile_app.store import Store
-from mobile_app.sync.outbox import Outbox, utc_now
+from mobile_app.sync.outbox import Outbox
 from mobile_app.sync.runner import SyncReport, sync_store
+from mobile_app.sync.schedule import wait_s
 from mobile_app.sync.target import InsecureTargetError, NotConfiguredError
-
-BUSY_WAIT_S = 5.0
 
 
 class SyncTask:
@@ -66,11 +64,5 @@ class SyncTask:
             store.close()
 
     def _wait_s(self, report: SyncReport) -> float:
-        """Seconds until the next bundle is due, at most `idle_s`, at least 0.1 (a few seconds while
-        another run holds the store's sync lease)."""
-        if report.busy:
-            return min(self.idle_s, BUSY_WAIT_S)
-        if not report.next_try_at or report.error_kind == "config":
-            return self.idle_s
-        due_in_s = (datetime.fromisoformat(report.next_try_at) - utc_now()).total_seconds()
-        return min(self.idle_s, max(0.1, due_in_s))
+        """Seconds until the next bundle is due (`schedule.wait_s`)."""
+        return wait_s(report, self.idle_s)

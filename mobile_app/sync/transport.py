@@ -1,9 +1,16 @@
-"""The seam between the sync and the network: a `Transport` does one WebDAV request at a time.
+"""The seam between the sync and the network: a transport does one WebDAV request at a time.
 
 The runner (`mobile_app.sync.runner`) decides what to send and in which order; a transport only
-carries requests to the office folder and back. The server form uses `WebDavTransport` (webdav4 over
-httpx, `mobile_app.sync.webdav`); the static build in the browser can give the runner a transport
-built on the browser's fetch with the same methods, so no runner code asks which platform it is on.
+carries requests to the office folder and back. The runner is written once, as coroutines over an
+`AsyncTransport`, and never asks which platform it is on:
+
+- the server form's `WebDavTransport` (webdav4 over httpx, `mobile_app.sync.webdav`) is a blocking
+  `Transport`; `Immediate` hands it to the runner as an `AsyncTransport` whose awaits never wait, so
+  `finish` runs the whole sync to its end in the caller's thread (the command line, `SyncTask`, tests),
+  and `Threaded` lets a screen await it while each request runs in a worker thread (server form only);
+- the static build in the browser has no threads and a network that only answers later: its
+  `FetchTransport` (`mobile_app.sync.fetch`, the browser's fetch) is an `AsyncTransport` proper, and
+  the screens await the runner on the page's event loop.
 
 Paths are relative to the office folder (`""` is the folder itself); a folder's path ends in `/`.
 Every method raises only the typed errors of `mobile_app.sync.target` (a SyncError: OfflineError,
@@ -17,8 +24,10 @@ time has passed, so a server that trickles a byte every half second cannot hold 
 
 from __future__ import annotations
 
+import asyncio
 import time
-from typing import Protocol
+from collections.abc import Coroutine
+from typing import Any, Protocol, TypeVar
 
 from mobile_app.sync.target import SyncTarget, TimeLimitError
 
@@ -52,6 +61,110 @@ class Transport(Protocol):
 
     def close(self) -> None:
         """Close the connections."""
+
+
+class AsyncTransport(Protocol):
+    """`Transport`'s requests as coroutines (same meaning, same errors); `set_deadline` and `close`
+    stay plain calls."""
+
+    target: SyncTarget
+
+    def set_deadline(self, at_s: float | None) -> None:
+        """As `Transport.set_deadline`."""
+
+    async def kind(self, path: str) -> str | None:
+        """As `Transport.kind`."""
+
+    async def make_folder(self, path: str) -> bool:
+        """As `Transport.make_folder`."""
+
+    async def put(self, path: str, data: bytes) -> None:
+        """As `Transport.put`."""
+
+    async def get(self, path: str, max_bytes: int) -> bytes | None:
+        """As `Transport.get`."""
+
+    async def move(self, source: str, destination: str, overwrite: bool = False) -> bool:
+        """As `Transport.move`."""
+
+    async def delete(self, path: str) -> bool:
+        """As `Transport.delete`."""
+
+    def close(self) -> None:
+        """As `Transport.close`."""
+
+
+class Immediate:
+    """A blocking `Transport` as an `AsyncTransport` whose coroutines finish without waiting."""
+
+    def __init__(self, inner: Transport) -> None:
+        self.inner = inner
+        self.target = inner.target
+
+    def set_deadline(self, at_s: float | None) -> None:
+        self.inner.set_deadline(at_s)
+
+    async def kind(self, path: str) -> str | None:
+        return self.inner.kind(path)
+
+    async def make_folder(self, path: str) -> bool:
+        return self.inner.make_folder(path)
+
+    async def put(self, path: str, data: bytes) -> None:
+        self.inner.put(path, data)
+
+    async def get(self, path: str, max_bytes: int) -> bytes | None:
+        return self.inner.get(path, max_bytes)
+
+    async def move(self, source: str, destination: str, overwrite: bool = False) -> bool:
+        return self.inner.move(source, destination, overwrite)
+
+    async def delete(self, path: str) -> bool:
+        return self.inner.delete(path)
+
+    def close(self) -> None:
+        self.inner.close()
+
+
+class Threaded(Immediate):
+    """A blocking `Transport` whose requests run in a worker thread while the event loop goes on
+    (the server form's screens; never used in the browser, which cannot start threads)."""
+
+    async def kind(self, path: str) -> str | None:
+        return await asyncio.to_thread(self.inner.kind, path)
+
+    async def make_folder(self, path: str) -> bool:
+        return await asyncio.to_thread(self.inner.make_folder, path)
+
+    async def put(self, path: str, data: bytes) -> None:
+        await asyncio.to_thread(self.inner.put, path, data)
+
+    async def get(self, path: str, max_bytes: int) -> bytes | None:
+        return await asyncio.to_thread(self.inner.get, path, max_bytes)
+
+    async def move(self, source: str, destination: str, overwrite: bool = False) -> bool:
+        return await asyncio.to_thread(self.inner.move, source, destination, overwrite)
+
+    async def delete(self, path: str) -> bool:
+        return await asyncio.to_thread(self.inner.delete, path)
+
+
+T = TypeVar("T")
+
+
+class WaitedError(RuntimeError):
+    """A coroutine given to `finish` waited for something: it needs an event loop."""
+
+
+def finish(coroutine: Coroutine[Any, Any, T]) -> T:
+    """Run a coroutine whose awaits never wait (over an `Immediate` transport) to its end, here and
+    now; WaitedError if it waits after all."""
+    try:
+        coroutine.send(None)
+    except StopIteration as done:
+        return done.value
+    coroutine.close()
+    raise WaitedError("the sync waited for its transport: await it on an event loop instead")
 
 
 def remaining_s(deadline_s: float | None, timeout_s: float | None = None) -> float | None:

@@ -32,6 +32,7 @@ from mobile_app.sync.target import (
     SyncError,
     SyncTarget,
     TimeLimitError,
+    check_done,
     check_url,
     parse_is_collection,
     status_error,
@@ -287,7 +288,7 @@ class WebDavTransport:
                 "Destination": str(self._url(destination)), "Overwrite": "T" if overwrite else "F"})
             if response.status_code == 412:
                 return False
-            _check_done(response.status_code)
+            check_done(response.status_code)
             return True
 
     def delete(self, path: str) -> bool:
@@ -295,13 +296,5 @@ class WebDavTransport:
             response = self.client.http.request("DELETE", self._url(path))
             if response.status_code == 404:
                 return False
-            _check_done(response.status_code)
+            check_done(response.status_code)
             return True
-
-
-def _check_done(status: int) -> None:
-    """Raise for a MOVE or DELETE that did not fully happen (207: some members failed)."""
-    if status == 207:
-        raise ProtocolError("the office folder did only part of a move or delete (HTTP 207)")
-    if status >= 300:
-        raise status_error(status)

@@ -1,4 +1,5 @@
-"""Outbox: exports waiting for the office, what was sent (when and where), and "send now"."""
+"""Outbox: exports waiting for the office, what was sent (when and where), "send now" with progress,
+and each export's files handed to the person (download, or the phone's share sheet)."""
 
 from __future__ import annotations
 
@@ -6,6 +7,7 @@ from typing import Any
 
 import flet as ft
 
+from mobile_app.components import hand_over
 from mobile_app.components.screen import screen
 from mobile_app.state.outbox import NO_FOLDER_DETAIL, OutboxRow, OutboxState
 
@@ -40,27 +42,57 @@ def _no_folder(shell: Any) -> ft.Control:
     )
 
 
+def _files(shell: Any, outbox: OutboxState, row: OutboxRow) -> ft.Control:
+    """Buttons that hand the export's PDF, JSON and CSV to the person, one by one or all shared."""
+
+    def documents() -> list[Any]:
+        found, problem = outbox.documents(row.id)
+        if problem:
+            shell.toast(problem)
+        return found
+
+    async def one(suffix: str) -> None:
+        found = [d for d in documents() if d.name.lower().endswith(suffix)]
+        if found:
+            await hand_over.download(found[0])
+
+    async def all_shared(_e: Any) -> None:
+        found = documents()
+        if found:
+            await hand_over.share(found, row.title)
+
+    def button(label: str, suffix: str) -> ft.Control:
+        async def clicked(_e: Any) -> None:
+            await one(suffix)
+
+        return ft.TextButton(label, icon=ft.Icons.DOWNLOAD, key=f"download-{suffix[1:]}-{row.id}",
+                             on_click=clicked)
+
+    return ft.Row([button("PDF", ".pdf"), button("JSON", ".json"), button("CSV", ".csv"),
+                   ft.TextButton("Share", icon=ft.Icons.SHARE, key=f"share-{row.id}", on_click=all_shared)],
+                  wrap=True, spacing=0)
+
+
 def build(shell: Any) -> ft.View:
     """The outbox screen."""
     outbox = OutboxState(shell.store)
     busy = ft.ProgressRing(visible=False, width=28, height=28, key="outbox-busy")
 
-    def send(_e: Any) -> None:
+    async def send(_e: Any) -> None:
         busy.visible = True
         send_button.disabled = True
         busy.update()
         send_button.update()
-        shell.page.run_thread(_send)
-
-    def _send() -> None:
-        result = outbox.send_now()
-        shell.toast(result)
+        shell.toast(await outbox.send_now_async())
         shell.render()
 
     send_button = ft.FilledButton("Send now", icon=ft.Icons.CLOUD_UPLOAD, height=48, key="send-now",
                                   on_click=send)
-    listing: list[ft.Control] = [_row(r) for r in outbox.rows()] or [
-        ft.Text("Nothing waits. Export a job from its review screen to queue it here.", size=15)]
+    listing: list[ft.Control] = []
+    for r in outbox.rows():
+        listing += [_row(r), _files(shell, outbox, r)]
+    listing = listing or [ft.Text("Nothing waits. Export a job from its review screen to queue it here.",
+                                  size=15)]
     body: list[ft.Control] = [
         ft.Text(outbox.summary(), size=18, weight=ft.FontWeight.BOLD, key="outbox-summary"),
     ]

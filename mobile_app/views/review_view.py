@@ -67,11 +67,21 @@ def build(shell: Any, job_id: str) -> ft.View:
     elif status == "approved":
         busy = ft.ProgressRing(visible=False, width=28, height=28, key="export-busy")
 
-        def export(_e: Any) -> None:
+        async def export(_e: Any) -> None:
             busy.visible = True
             busy.update()
-            shell.page.run_thread(lambda: show(Outcome(True, OutboxState(shell.store).export_job(
-                int(job_id)))))
+            problem = await OutboxState(shell.store).prepare_export()  # the browser loads the PDF's
+            if problem:                                                # libraries on the first export
+                busy.visible = False
+                show(Outcome(False, problem))
+                return
+
+            def done() -> None:
+                said = OutboxState(shell.store).export_job(int(job_id))
+                shell.sync_soon()
+                show(Outcome(not said.startswith("Not "), said))
+
+            shell.page.run_thread(done)
 
         reason = ft.TextField(key="revision-reason", label="Reason for a new revision")
         by_name = ft.TextField(key="revision-by", label="Your name")
@@ -107,6 +117,23 @@ def build(shell: Any, job_id: str) -> ft.View:
         reasons: dict[str, str] = shell.session_value(f"review-reasons-{job_id}", dict)
         items = review.items()
         supervisor = ft.TextField(key="supervisor-name", label="Supervisor name")
+        checking = ft.ProgressRing(visible=False, width=28, height=28, key="review-busy")
+
+        async def approve(_e: Any) -> None:
+            checking.visible = True
+            checking.update()
+            show(await review.approve_async(supervisor.value or "", pin.value or "", reasons))
+            checking.visible = False
+            checking.update()
+
+        async def send_back(_e: Any) -> None:
+            checking.visible = True
+            checking.update()
+            show(await review.return_to_draft_async(supervisor.value or "", comment.value or "",
+                                                    pin.value or ""))
+            checking.visible = False
+            checking.update()
+
         pin = ft.TextField(key="supervisor-pin", label="PIN or passphrase", password=True,
                            can_reveal_password=True)
         comment = ft.TextField(key="return-comment", label="Comment (to return the job)",
@@ -124,13 +151,11 @@ def build(shell: Any, job_id: str) -> ft.View:
                     "you), or return the job with a comment.", size=15),
             supervisor,
             pin,
-            ft.FilledButton("Approve", icon=ft.Icons.VERIFIED, height=48, key="approve",
-                            on_click=lambda _e: show(review.approve(supervisor.value or "",
-                                                                    pin.value or "", reasons))),
+            ft.Row([ft.FilledButton("Approve", icon=ft.Icons.VERIFIED, height=48, key="approve",
+                                    on_click=approve), checking], spacing=12),
             comment,
             ft.OutlinedButton("Return to draft", icon=ft.Icons.UNDO, height=48, key="return-draft",
-                              on_click=lambda _e: show(review.return_to_draft(
-                                  supervisor.value or "", comment.value or "", pin.value or ""))),
+                              on_click=send_back),
         ]
     body.append(message)
     history = review.history()

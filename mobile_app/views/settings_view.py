@@ -62,8 +62,9 @@ def build(shell: Any) -> ft.View:
                            keyboard_type=ft.KeyboardType.NUMBER)
     sup_message = ft.Text("", size=14, key="supervisor-message")
 
-    def add_supervisor(_e: Any) -> None:
-        outcome = ReviewState(shell.store, 0).add_supervisor(sup_name.value or "", sup_pin.value or "")
+    async def add_supervisor(_e: Any) -> None:
+        outcome = await ReviewState(shell.store, 0).add_supervisor_async(sup_name.value or "",
+                                                                         sup_pin.value or "")
         sup_message.value = outcome.message
         sup_message.color = None if outcome.ok else ft.Colors.ERROR
         supervisors.value = settings.supervisors_text()

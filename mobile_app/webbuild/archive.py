@@ -22,10 +22,12 @@ from mobile_app.webbuild.errors import DependencyError
 SKIP_PARTS = frozenset({"__pycache__", "tests", "testsuite", "test"})
 """Folders never packed: bytecode of the build's Python, and test suites of libraries (test_*.py files
 are left out too)."""
-SKIP_SUFFIXES = frozenset({".pyc", ".pyo", ".so", ".pyd", ".dll", ".dylib", ".pyi", ".exe", ".dart"})
+SKIP_SUFFIXES = frozenset({".pyc", ".pyo", ".so", ".pyd", ".dll", ".dylib", ".pyi", ".exe", ".dart", ".c",
+                           ".h", ".pyx", ".pxd"})
 SKIP_NAMES = frozenset({"pubspec.yaml", "pubspec.lock"})
-"""Files never packed: bytecode and extensions of the build's platform, type stubs, launchers, and the
-Dart sources some Flet extensions ship for building a client (the site's client is already built)."""
+"""Files never packed: bytecode and extensions of the build's platform, type stubs, launchers, the
+Dart sources some Flet extensions ship for building a client (the site's client is already built), and
+the C and Cython sources of compiled speed-ups (fontTools ships them beside their Python versions)."""
 KEPT_METADATA = frozenset({"METADATA", "entry_points.txt", "top_level.txt"})
 """Files kept from a distribution's metadata folder (versions and plugin entry points are read from
 them at run time); its RECORD and licence files stay out."""
@@ -58,8 +60,9 @@ def _packable(name: PurePosixPath, browser_build: bool = False) -> bool:
     return not meta or name.name in KEPT_METADATA
 
 
-def installed_files(distribution: str) -> list[Entry]:
-    """The files of an installed distribution to pack (its modules, data and metadata)."""
+def installed_files(distribution: str, leave_out: tuple[str, ...] = ()) -> list[Entry]:
+    """The files of an installed distribution to pack (its modules, data and metadata), without the
+    paths that start with one of `leave_out` (e.g. `fontTools/ufoLib/`)."""
     try:
         dist = metadata.distribution(distribution)
     except metadata.PackageNotFoundError as error:
@@ -67,7 +70,7 @@ def installed_files(distribution: str) -> list[Entry]:
     entries = []
     for file in dist.files or ():
         name = PurePosixPath(str(file))
-        if ".." in name.parts or not _packable(name):
+        if ".." in name.parts or not _packable(name) or str(name).startswith(leave_out):
             continue
         source = Path(str(dist.locate_file(file)))
         if source.is_file():
@@ -98,6 +101,15 @@ def package_files(root: Path, package: str, leave_out: tuple[str, ...] = ()) -> 
                                                          for sub in leave_out):
             entries.append(Entry(path, str(name)))
     return entries
+
+
+def folder_files(root: Path, folder: str) -> list[Entry]:
+    """The files of one folder under `root` (e.g. mobile_app/fonts), at the same path in the archive."""
+    base = root / folder
+    if not base.is_dir():
+        raise DependencyError(folder, "is not a folder of the sources")
+    return [Entry(path, path.relative_to(root).as_posix()) for path in sorted(base.rglob("*"))
+            if path.is_file() and _packable(PurePosixPath(path.relative_to(root).as_posix()))]
 
 
 def stage(entries: list[Entry], folder: Path) -> None:

@@ -2,10 +2,11 @@
 
 The folder holds the Flet web client and Pyodide (from the installed flet-web), the libraries archive
 (every dependency, unpacked from installed distributions or browser wheels, compiled), the app archive
-(calc and mobile_app, compiled), our page, manifest, icons and service worker. Any static host can
-serve it; after one visit it starts with no network. The service worker caches three groups under
-names made from their contents (runtime, libraries, app), so an update of Boardside's code downloads
-only the app group.
+(calc and mobile_app, compiled), the export archive (the PDF library and fonts, which the page loads on
+the first export only), our page, manifest, icons and service worker. Any static host can serve it;
+after one visit it starts with no network. The service worker caches four groups under names made from
+their contents (runtime, libraries, export, app), so an update of Boardside's code downloads only the
+app group.
 """
 
 from __future__ import annotations
@@ -32,6 +33,9 @@ SNAPSHOT_CACHE = "boardside-snapshot-"
 versioned by the runtime and both archives; the service worker keeps the current one only."""
 ASSET_FILES = ("manifest.json", "favicon.png", "guard.js", "rive-unavailable.js", "decimal-keys.js",
                "fonts/DejaVuSans.ttf", "fonts/LICENSE-DejaVu.txt")
+OFFICE_CACHE = "boardside-office-folder"
+"""Cache where the page's Python names the office folder's origin (mobile_app.browser.network): the only
+other host the service worker lets the page reach."""
 
 
 @dataclass(frozen=True)
@@ -47,12 +51,18 @@ class AppSpec:
     libraries: tuple[str, ...]
     runtime_wheels: tuple[str, ...]
     leave_out: tuple[str, ...] = ()
+    export_libraries: tuple[str, ...] = ()
+    export_data: tuple[str, ...] = ()
+    export_leave_out: tuple[str, ...] = ()
+    """Distributions, package folders (e.g. `mobile_app/fonts`) and paths left out of the export
+    archive."""
     assets: Path = ROOT / "assets"
 
 
 def boardside_spec() -> AppSpec:
     """Boardside itself: calc and mobile_app (without the build and the PDF fonts), entry
-    `mobile_app.browser.entry`, the libraries of dependencies.toml."""
+    `mobile_app.browser.entry`, the libraries of dependencies.toml; fpdf2 and the PDF fonts in the
+    export archive."""
     lists = archive.dependency_lists()
     manifest = json.loads((ROOT / "assets" / "manifest.json").read_text(encoding="utf-8"))
     return AppSpec(
@@ -65,6 +75,9 @@ def boardside_spec() -> AppSpec:
         libraries=tuple(lists["include"]),
         runtime_wheels=tuple(lists["runtime"]),
         leave_out=("webbuild", "fonts"),
+        export_libraries=tuple(lists["export"]),
+        export_data=("mobile_app/fonts",),
+        export_leave_out=tuple(lists["export-leave-out"]),
     )
 
 
@@ -120,28 +133,43 @@ def group_version(out: Path, files: list[str]) -> str:
     return digest.hexdigest()[:12]
 
 
+@dataclass(frozen=True)
+class Archives:
+    """The site paths of the archives: libraries, app, and export (None when the app has none)."""
+
+    libraries: str
+    app: str
+    export: str | None
+
+
 def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Path, work: Path,
-                   notes: list[str]) -> tuple[str, str]:
-    """Write the libraries and app archives into `out`; return their site paths."""
+                   notes: list[str]) -> Archives:
+    """Write the libraries, app and export archives into `out`; return their site paths."""
     from mobile_app.webbuild.wheels import runtime_wheel
 
-    libraries, app = work / "libraries", work / "app"
+    sourceless, app = work / "sourceless", work / "app"
+    libraries, export = sourceless / "libraries", sourceless / "export"
     entries = [entry for name in spec.libraries for entry in archive.installed_files(name)]
     for index, name in enumerate(spec.runtime_wheels):
         wheel = runtime_wheel(name, runtime, cache)
         entries += archive.wheel_files(wheel, work / f"wheel-{index}")
     archive.stage(entries, libraries)
+    archive.stage([entry for name in spec.export_libraries
+                   for entry in archive.installed_files(name, spec.export_leave_out)]
+                  + [entry for folder in spec.export_data
+                     for entry in archive.folder_files(spec.source_root, folder)], export)
     archive.stage([entry for package in spec.packages
                    for entry in archive.package_files(spec.source_root, package, spec.leave_out)], app)
     try:
-        archive.compile_bytecode(client.web_dir() / "pyodide", libraries, app)
+        archive.compile_bytecode(client.web_dir() / "pyodide", sourceless, app)
     except DependencyError as error:
         notes.append(f"no bytecode in the archives ({error}): the page compiles at every start")
-    named = [
-        archive.content_name(archive.write_zip(folder, out / f"{stem}.zip"), stem)
-        for folder, stem in ((libraries, "libraries"), (app, "app"))
-    ]
-    return named[0].name, named[1].name
+    stems = [(libraries, "libraries"), (app, "app")]
+    if spec.export_libraries or spec.export_data:
+        stems.append((export, "export"))
+    named = [archive.content_name(archive.write_zip(folder, out / f"{stem}.zip"), stem).name
+             for folder, stem in stems]
+    return Archives(named[0], named[1], named[2] if len(named) > 2 else None)
 
 
 def copy_assets(spec: AppSpec, out: Path) -> list[str]:
@@ -182,13 +210,17 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
     notes: list[str] = []
     runtime_files = client.copy_client(source, out)
     with tempfile.TemporaryDirectory(prefix="boardside-web-") as work:
-        libraries, app_archive = build_archives(spec, out, client.runtime(source), cache or default_cache(),
-                                                Path(work), notes)
+        archives = build_archives(spec, out, client.runtime(source), cache or default_cache(), Path(work),
+                                  notes)
+    libraries, app_archive = archives.libraries, archives.app
     app_files = copy_assets(spec, out)
     snapshot_cache = SNAPSHOT_CACHE + group_version(out, [*runtime_files, libraries, app_archive])
     config = {
         "python": {
             "archives": [{"url": libraries}, {"url": app_archive}],
+            "extras": {"export": archives.export} if archives.export else {},
+            "deviceKeyStore": "boardside-device",
+            "officeCache": OFFICE_CACHE,
             "module": spec.module,
             "home": "/app",
             "dataDir": "/data",
@@ -199,11 +231,12 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
     }
     (out / "index.html").write_text(page(spec, config), encoding="utf-8")
     app_files += ["index.html", app_archive]
-    groups = tuple(
-        Group(name, tuple(files), group_version(out, files))
-        for name, files in (("runtime", runtime_files), ("libraries", [libraries]), ("app", app_files))
-    )
-    (out / "sw.js").write_text(service_worker(groups, [snapshot_cache]), encoding="utf-8")
+    grouped = [("runtime", runtime_files), ("libraries", [libraries])]
+    if archives.export:
+        grouped.append(("export", [archives.export]))
+    groups = tuple(Group(name, tuple(files), group_version(out, files))
+                   for name, files in (*grouped, ("app", app_files)))
+    (out / "sw.js").write_text(service_worker(groups, [snapshot_cache, OFFICE_CACHE]), encoding="utf-8")
     site = Site(out, groups, tuple(notes))
     marker = {"groups": {g.name: {"version": g.version, "files": list(g.files)} for g in groups}}
     (out / MARKER).write_text(json.dumps(marker, indent=1), encoding="utf-8")

@@ -10,9 +10,13 @@
 //
 // The entry module (config.module) offers warm() (imports only, before the snapshot), prepare() (may
 // use the page: runs before the client connects) and run() (starts the Flet app on the connection).
+// Archives named in config.extras (the PDF library and fonts) are unpacked only when Python asks
+// (loadExtra), the device key that seals the sync password is kept apart from the store (deviceKey), and
+// the page's `online` event, forwarded by python.js, reaches the callbacks given to whenOnline.
 import { loadPyodide } from "./pyodide/pyodide.mjs";
 
 const fletJs = {};
+const whenOnline = [];
 let starting = null;
 
 self.onmessage = async (event) => {
@@ -22,6 +26,8 @@ self.onmessage = async (event) => {
     starting.catch(() => {});
   } else if (message && message.type === "connect") {
     self.postMessage(await connect(message));
+  } else if (message && message.type === "online") {
+    whenOnline.forEach((callback) => callback());
   } else if (typeof fletJs.send === "function") {
     fletJs.send(message);
   } else {
@@ -208,6 +214,68 @@ function* storedEntries(bytes) {
   }
 }
 
+// Archives loaded on demand (config.extras: name -> site path), each fetched and unpacked once.
+function extras(pyodide, config) {
+  const loading = new Map();
+  return function loadExtra(name) {
+    if (!loading.has(name)) {
+      const url = config.extras && config.extras[name];
+      const done = url
+        ? fetchBytes(url).then((bytes) => {
+          unpackArchives(pyodide, config, [bytes]);
+          mark("extra-" + name);
+          return null;
+        })
+        : Promise.resolve(`no archive named ${name}`);
+      loading.set(name, done.catch((error) => {
+        loading.delete(name);
+        return String(error);
+      }));
+    }
+    return loading.get(name);
+  };
+}
+
+// The device key: seals the sync password (mobile_app/sync/seal.py), kept apart from the job store. An
+// HMAC-SHA256 key made by the browser's WebCrypto as non-extractable (its bits cannot be read by any
+// script, only used) and kept in an IndexedDB database of its own (config.deviceKeyStore), never in the
+// store's files or their copy; the 32 bytes Python uses are its HMAC of a fixed label, derived at each
+// start. Resolves to those bytes, or null where the browser keeps no key (its storage refused).
+async function deviceKey(config) {
+  function ask(request) {
+    return new Promise((resolve, reject) => {
+      request.onsuccess = () => resolve(request.result);
+      request.onerror = () => reject(request.error);
+    });
+  }
+  try {
+    const opening = indexedDB.open(config.deviceKeyStore, 1);
+    opening.onupgradeneeded = () => opening.result.createObjectStore("keys");
+    const db = await ask(opening);
+    const made = await crypto.subtle.generateKey({ name: "HMAC", hash: "SHA-256", length: 256 }, false, ["sign"]);
+    const key = await new Promise((resolve, reject) => {
+      const transaction = db.transaction("keys", "readwrite");
+      const keys = transaction.objectStore("keys");
+      let kept = null;
+      const found = keys.get("device");
+      found.onsuccess = () => {
+        kept = found.result || made;
+        if (!found.result) {
+          keys.put(made, "device");
+        }
+      };
+      transaction.oncomplete = () => resolve(kept);
+      transaction.onerror = () => reject(transaction.error);
+    });
+    db.close();
+    const label = new TextEncoder().encode("boardside device key 1");
+    return new Uint8Array(await crypto.subtle.sign("HMAC", key, label));
+  } catch (error) {
+    console.warn("Boardside: no device key in this browser:", error);
+    return null;
+  }
+}
+
 function unpackArchives(pyodide, config, archives) {
   const FS = pyodide.FS;
   const folders = new Set();
@@ -275,6 +343,10 @@ async function start(config) {
     dataDir: store.dataDir,
     openStorage: store.open,
     flush: store.flush,
+    loadExtra: extras(pyodide, config),
+    deviceKey: () => deviceKey(config),
+    whenOnline: (callback) => whenOnline.push(callback),
+    officeCache: config.officeCache,
     mark,
   });
   await storeOpened;

@@ -3,13 +3,21 @@
 // The client calls the same three functions as with flet-web's python.js (jsConnect, jsSend,
 // jsDisconnect), but the worker is started as soon as the page loads, so Python, the app archives and
 // the job store get ready while the Flutter engine starts, instead of after it.
+//
+// The page also tells the worker when the connection comes back: the `online` event is the window's
+// (HTML standard, "Offline web applications"), and a worker cannot be relied on to hear its own (an
+// emulated network change reaches the page only), so the outbox's sync hears it from here.
 (function () {
   "use strict";
   const apps = {};
+  let current = null;
   let early = startWorker();
+
+  addEventListener("online", () => current && current.postMessage({ type: "online" }));
 
   function startWorker() {
     const worker = new Worker(new URL("python-worker.js", document.baseURI), { type: "module" });
+    current = worker;
     const failed = new Promise((resolve) => {
       worker.onerror = (event) => resolve("the Python worker could not start: " + (event.message || event));
     });
@@ -53,6 +61,9 @@
     if (app) {
       delete apps[appId];
       app.worker.terminate();
+      if (current === app.worker) {
+        current = null;
+      }
       app.worker.onmessage = null;
       app.worker.onerror = null;
     }
