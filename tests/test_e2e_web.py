@@ -33,6 +33,7 @@ from test_e2e_walk import (
     CHROMIUM_ARGS,
     fill,
     free_port,
+    give_reasons,
     open_job,
     see,
     shot,
@@ -264,16 +265,17 @@ def approve_export_and_sync(page, context, url: str, dav: DavServer) -> None:
     assert not copied_within(page, dav.password, 1.0)
 
     tab_to(page, "Jobs")
-    page.get_by_text("WEB-101 Quarry Road").first.click()
+    open_job(page, "WEB-101 Quarry Road")
     tap(page, "Review")
     fill(page, "Recorded by (your name)", "Rosa Quennell")
     tap(page, "Submit for review")
     see(page, "Status: In review")
+    assert give_reasons(page, "Zsc to be measured at the next visit") == 1  # its circuit is not shown
     fill(page, "Supervisor name", "Ines Okafor")
-    fill(page, "PIN", "1357")
+    fill(page, "PIN or passphrase", "1357")
     tap(page, "Approve")
     see(page, "PIN not accepted", timeout_ms=20000)
-    fill(page, "PIN", "2468")
+    fill(page, "PIN or passphrase", "2468")
     tap(page, "Approve")
     see(page, "Status: Approved", timeout_ms=20000)
     shot(page, "web-11-approved")

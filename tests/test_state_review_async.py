@@ -9,6 +9,7 @@ from collections.abc import Iterator
 from pathlib import Path
 
 import pytest
+from approving import reasons_for
 from test_records_review import draft_job
 
 from mobile_app.signing import kdf
@@ -43,7 +44,9 @@ def test_a_supervisor_added_with_derived_pins_approves_and_returns_with_the_type
     returned = asyncio.run(job.return_to_draft_async("Ines Okafor", "check circuit 1", "2468"))
     assert returned.ok, returned.message
     store.review.submit(job_id, recorder)
-    approved = asyncio.run(job.approve_async("Ines Okafor", "2468"))
+    unanswered = asyncio.run(job.approve_async("Ines Okafor", "2468"))
+    assert not unanswered.ok and "reason" in unanswered.message  # the job has an item to answer
+    approved = asyncio.run(job.approve_async("Ines Okafor", "2468", reasons_for(store, job_id)))
     assert approved.ok and "unverified" in approved.message
     assert job.status == "approved"
 
