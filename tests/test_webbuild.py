@@ -20,7 +20,7 @@ import pytest
 from web_site import WHEEL_CACHE, build
 
 from mobile_app.webbuild import OutputExistsError, boardside_spec
-from mobile_app.webbuild.archive import dependency_lists, node
+from mobile_app.webbuild.archive import dependency_lists, node, read_archive
 from mobile_app.webbuild.client import (
     BUILD_CONFIG,
     SNAPSHOT_RESTORE,
@@ -45,8 +45,7 @@ def site(tmp_path_factory: pytest.TempPathFactory):
 
 
 def archive_names(site, stem: str) -> list[str]:
-    path = next(site.out.glob(f"{stem}-*.zip"))
-    with zipfile.ZipFile(path) as archive:
+    with read_archive(next(site.out.glob(f"{stem}-*.zip.gz"))) as archive:
         return archive.namelist()
 
 
@@ -165,7 +164,9 @@ def test_archives_carry_compiled_libraries_and_our_code(site) -> None:
     libraries = archive_names(site, "libraries")
     app = archive_names(site, "app")
     assert "msgpack/_cmsgpack.cpython-314-wasm32-emscripten.so" in libraries  # the browser wheel
-    with zipfile.ZipFile(next(site.out.glob("libraries-*.zip"))) as archive:
+    # gzipped whole, a zip of stored entries inside (the page's worker copies them as they are)
+    assert next(site.out.glob("libraries-*.zip.gz")).read_bytes()[:2] == b"\x1f\x8b"
+    with read_archive(next(site.out.glob("libraries-*.zip.gz"))) as archive:
         assert {i.compress_type for i in archive.infolist()} == {zipfile.ZIP_STORED}
     assert "pint/default_en.txt" in libraries and "flet/controls/material/icons.json" in libraries
     assert not any(n.startswith(("webdav4/", "httpx/", "fpdf/", "flet_web/", "pip/")) for n in libraries)

@@ -2,13 +2,15 @@
 
 Files are gathered from the installed environment (a distribution's own list of files) and from wheels
 built for the browser's Python, staged in a folder, compiled to bytecode with the browser's Python
-(`compile_pyc.mjs` under Node), and zipped with fixed times and order, so the same input gives the
-same archive and the same name.
+(`compile_pyc.mjs` under Node), zipped with fixed times and order and gzipped, so the same input
+gives the same archive and the same name.
 """
 
 from __future__ import annotations
 
+import gzip
 import hashlib
+import io
 import shutil
 import subprocess
 import tomllib
@@ -32,6 +34,7 @@ KEPT_METADATA = frozenset({"METADATA", "entry_points.txt", "top_level.txt"})
 """Files kept from a distribution's metadata folder (versions and plugin entry points are read from
 them at run time); its RECORD and licence files stay out."""
 ZIP_TIME = (2020, 1, 1, 0, 0, 0)
+ARCHIVE_SUFFIX = ".zip.gz"
 
 
 @dataclass(frozen=True)
@@ -148,24 +151,35 @@ def compile_bytecode(pyodide_dir: Path, sourceless: Path, cached: Path) -> None:
             source.unlink()
 
 
-def write_zip(folder: Path, target: Path) -> Path:
-    """Zip `folder`'s files in sorted order with fixed times, stored uncompressed; return its path.
+def write_archive(folder: Path, target: Path) -> Path:
+    """Zip `folder`'s files stored, in sorted order with fixed times, then gzip the whole zip (level 9,
+    no name or time in its header); write it to `target` and return its path.
 
-    The page's worker copies stored entries straight into Python's file system with no decompression
-    (python-worker.js); a static host's compression, and the size budget's, work on the whole file.
+    One gzip stream over a stored zip, rather than each entry deflated: the page's worker unpacks it
+    with one call of the browser's own decompression and copies the entries straight into Python's
+    file system (python-worker.js), and small bytecode files compress far better together than one by
+    one (measured on the libraries, app and export archives: 6.5 MB gzipped whole, 7.3 MB deflated
+    entry by entry, 18.2 MB stored).
     """
-    with zipfile.ZipFile(target, "w", compression=zipfile.ZIP_STORED) as archive:
+    buffer = io.BytesIO()
+    with zipfile.ZipFile(buffer, "w", compression=zipfile.ZIP_STORED) as archive:
         for path in sorted(p for p in folder.rglob("*") if p.is_file()):
             info = zipfile.ZipInfo(path.relative_to(folder).as_posix(), date_time=ZIP_TIME)
             info.compress_type = zipfile.ZIP_STORED
             info.external_attr = 0o644 << 16
             archive.writestr(info, path.read_bytes())
+    target.write_bytes(gzip.compress(buffer.getvalue(), 9, mtime=0))
     return target
 
 
+def read_archive(path: Path) -> zipfile.ZipFile:
+    """An archive written by write_archive, opened as the zip it holds."""
+    return zipfile.ZipFile(io.BytesIO(gzip.decompress(path.read_bytes())))
+
+
 def content_name(path: Path, stem: str) -> Path:
-    """Rename an archive to `stem-HASH.zip` (the first 12 hex digits of its SHA-256)."""
+    """Rename an archive to `stem-HASH.zip.gz` (the first 12 hex digits of its SHA-256)."""
     digest = hashlib.sha256(path.read_bytes()).hexdigest()[:12]
-    named = path.with_name(f"{stem}-{digest}.zip")
+    named = path.with_name(f"{stem}-{digest}{ARCHIVE_SUFFIX}")
     path.replace(named)
     return named

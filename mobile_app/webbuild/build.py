@@ -167,7 +167,7 @@ def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Pat
     stems = [(libraries, "libraries"), (app, "app")]
     if spec.export_libraries or spec.export_data:
         stems.append((export, "export"))
-    named = [archive.content_name(archive.write_zip(folder, out / f"{stem}.zip"), stem).name
+    named = [archive.content_name(archive.write_archive(folder, out / f"{stem}.zip.gz"), stem).name
              for folder, stem in stems]
     return Archives(named[0], named[1], named[2] if len(named) > 2 else None)
 

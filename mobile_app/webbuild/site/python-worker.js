@@ -185,6 +185,21 @@ async function keepSnapshot(cache, bytes) {
   }
 }
 
+// An archive as the build writes it: a zip of stored entries, gzipped whole (webbuild/archive.py),
+// unzipped here by the browser's own decompression. A host that sends it with "Content-Encoding: gzip"
+// has the browser unzip it already: then it starts with a zip's signature, not gzip's, and is used as
+// it is.
+async function fetchArchive(url) {
+  const bytes = await fetchBytes(url);
+  if (bytes[0] !== 0x1f || bytes[1] !== 0x8b) {
+    return bytes;
+  }
+  if (!self.DecompressionStream) {
+    throw new Error("this browser cannot decompress the app's archives (no DecompressionStream)");
+  }
+  return squeeze(bytes, "out");
+}
+
 // The entries of a zip archive whose files are stored uncompressed, as the build writes them:
 // [path, bytes] from the central directory (APPNOTE 4.3.12, 4.3.16), bytes viewed in place.
 function* storedEntries(bytes) {
@@ -221,7 +236,7 @@ function extras(pyodide, config) {
     if (!loading.has(name)) {
       const url = config.extras && config.extras[name];
       const done = url
-        ? fetchBytes(url).then((bytes) => {
+        ? fetchArchive(url).then((bytes) => {
           unpackArchives(pyodide, config, [bytes]);
           mark("extra-" + name);
           return null;
@@ -333,7 +348,7 @@ async function afresh(config, cache, archives) {
 
 async function start(config) {
   mark("worker-start");
-  const archives = Promise.all(config.archives.map((archive) => fetchBytes(archive.url)));
+  const archives = Promise.all(config.archives.map((archive) => fetchArchive(archive.url)));
   const cache = self.caches ? await self.caches.open(config.snapshotCache).catch(() => null) : null;
   const { pyodide, entry } = (await restored(config, cache, archives)) || (await afresh(config, cache, archives));
   const store = storage(pyodide, config);
