@@ -32,7 +32,8 @@ Dart sources some Flet extensions ship for building a client (the site's client 
 the C and Cython sources of compiled speed-ups (fontTools ships them beside their Python versions)."""
 KEPT_METADATA = frozenset({"METADATA", "entry_points.txt", "top_level.txt"})
 """Files kept from a distribution's metadata folder (versions and plugin entry points are read from
-them at run time); its RECORD and licence files stay out."""
+them at run time); its RECORD and licence files stay out, and of METADATA only the header fields (the
+long description after them is the project's read-me)."""
 ZIP_TIME = (2020, 1, 1, 0, 0, 0)
 ARCHIVE_SUFFIX = ".zip.gz"
 
@@ -46,9 +47,31 @@ class Entry:
 
 
 def dependency_lists() -> dict[str, dict[str, str]]:
-    """The [include], [runtime] and [exclude] tables of dependencies.toml."""
+    """The [include], [runtime], [export] and [exclude] tables of dependencies.toml."""
     text = resources.files("mobile_app.webbuild").joinpath("dependencies.toml").read_text(encoding="utf-8")
     return tomllib.loads(text)
+
+
+def export_modules() -> frozenset[str]:
+    """The modules of export-modules.toml: the only fontTools modules the export archive carries."""
+    text = resources.files("mobile_app.webbuild").joinpath("export-modules.toml").read_text(encoding="utf-8")
+    return frozenset(tomllib.loads(text)["modules"])
+
+
+def module_name(name: PurePosixPath) -> str | None:
+    """The module a packed file holds (`a/b.py` is `a.b`, `a/__init__.py` is `a`), or None."""
+    if name.suffix != ".py":
+        return None
+    parts = name.with_suffix("").parts
+    return ".".join(parts[:-1] if parts[-1] == "__init__" else parts)
+
+
+def _kept(name: PurePosixPath, keep: frozenset[str]) -> bool:
+    """Whether `keep` lets a file through: a package with a module in `keep` keeps only those modules
+    (its other modules and data stay out); files of other packages are not its concern."""
+    if not any(module.split(".")[0] == name.parts[0] for module in keep):
+        return True
+    return module_name(name) in keep
 
 
 def _packable(name: PurePosixPath, browser_build: bool = False) -> bool:
@@ -63,9 +86,9 @@ def _packable(name: PurePosixPath, browser_build: bool = False) -> bool:
     return not meta or name.name in KEPT_METADATA
 
 
-def installed_files(distribution: str, leave_out: tuple[str, ...] = ()) -> list[Entry]:
-    """The files of an installed distribution to pack (its modules, data and metadata), without the
-    paths that start with one of `leave_out` (e.g. `fontTools/ufoLib/`)."""
+def installed_files(distribution: str, keep: frozenset[str] = frozenset()) -> list[Entry]:
+    """The files of an installed distribution to pack (its modules, data and metadata); of a package
+    with modules in `keep` (e.g. `fontTools.subset`), only those modules."""
     try:
         dist = metadata.distribution(distribution)
     except metadata.PackageNotFoundError as error:
@@ -73,7 +96,7 @@ def installed_files(distribution: str, leave_out: tuple[str, ...] = ()) -> list[
     entries = []
     for file in dist.files or ():
         name = PurePosixPath(str(file))
-        if ".." in name.parts or not _packable(name) or str(name).startswith(leave_out):
+        if ".." in name.parts or not _packable(name) or not _kept(name, keep):
             continue
         source = Path(str(dist.locate_file(file)))
         if source.is_file():
@@ -124,7 +147,16 @@ def stage(entries: list[Entry], folder: Path) -> None:
         seen.add(entry.name)
         target = folder / entry.name
         target.parent.mkdir(parents=True, exist_ok=True)
-        shutil.copyfile(entry.source, target)
+        if target.name == "METADATA" and target.parent.name.endswith(".dist-info"):
+            target.write_bytes(metadata_fields(entry.source.read_bytes()))
+        else:
+            shutil.copyfile(entry.source, target)
+
+
+def metadata_fields(text: bytes) -> bytes:
+    """A METADATA file's header fields without its description (core metadata: the body after the
+    first empty line)."""
+    return text.replace(b"\r\n", b"\n").split(b"\n\n", 1)[0] + b"\n"
 
 
 def node() -> str | None:

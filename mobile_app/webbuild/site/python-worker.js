@@ -229,15 +229,27 @@ function* storedEntries(bytes) {
   }
 }
 
-// Archives loaded on demand (config.extras: name -> site path), each fetched and unpacked once.
+// Archives loaded on demand (config.extras: name -> { url, files }), each fetched and unpacked once,
+// with the site's files it shares (files: path under home -> site path, e.g. the PDF's regular font,
+// which the page serves for the screen too) fetched beside it and written to their paths.
 function extras(pyodide, config) {
   const loading = new Map();
+  async function load(extra) {
+    const shared = Object.entries(extra.files || {});
+    const [bytes, ...files] = await Promise.all([
+      fetchArchive(extra.url), ...shared.map(([, url]) => fetchBytes(url))]);
+    unpackArchives(pyodide, config, [bytes]);
+    shared.forEach(([name], index) => {
+      const path = config.home + "/" + name;
+      pyodide.FS.mkdirTree(path.slice(0, path.lastIndexOf("/")));
+      pyodide.FS.writeFile(path, files[index]);
+    });
+  }
   return function loadExtra(name) {
     if (!loading.has(name)) {
-      const url = config.extras && config.extras[name];
-      const done = url
-        ? fetchArchive(url).then((bytes) => {
-          unpackArchives(pyodide, config, [bytes]);
+      const extra = config.extras && config.extras[name];
+      const done = extra
+        ? load(extra).then(() => {
           mark("extra-" + name);
           return null;
         })
