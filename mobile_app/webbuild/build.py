@@ -190,8 +190,8 @@ def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Pat
     stems = [(libraries, "libraries"), (app, "app")]
     if spec.export_libraries or spec.export_data:
         stems.append((export, "export"))
-    named = [archive.content_name(archive.write_archive(folder, out / f"{stem}.zip.gz"), stem).name
-             for folder, stem in stems]
+    named = [archive.content_name(archive.write_archive(folder, out / (stem + archive.ARCHIVE_SUFFIX)),
+                                  stem).name for folder, stem in stems]
     if len(named) < 3:
         return Archives(named[0], named[1], None)
     return Archives(named[0], named[1], named[2], export_files)
