@@ -38,7 +38,7 @@ def breaking_capacity(inp: CircuitInput) -> tuple[Check, StepThunk]:
             pfc,
             "A",
             False,
-            f"PFC {fmt(pfc)} A; the device's rated breaking capacity is not known",
+            lambda: f"PFC {fmt(pfc)} A; the device's rated breaking capacity is not known",
             "enter the device's rated breaking capacity (marked on it, e.g. 6 kA)",
             SOURCE,
             None,
@@ -54,13 +54,7 @@ def breaking_capacity(inp: CircuitInput) -> tuple[Check, StepThunk]:
             pfc,
             "A",
             False,
-            f"rated {fmt(rated)} A {'≥' if ok else '<'} PFC {fmt(pfc)} A"
-            + (
-                ""
-                if ok
-                else ": fit a device rated for the PFC, or confirm a device upstream "
-                "protects it (back-up protection)"
-            ),
+            lambda: _rated_against_pfc(rated, pfc, ok),
             "",
             SOURCE,
             None,
@@ -75,4 +69,14 @@ def breaking_capacity(inp: CircuitInput) -> tuple[Check, StepThunk]:
         "A",
         check.outcome,
         check.needs or SOURCE,
+    )
+
+
+def _rated_against_pfc(rated: float, pfc: float, ok: bool) -> str:
+    words = f"rated {fmt(rated)} A {'≥' if ok else '<'} PFC {fmt(pfc)} A"
+    if ok:
+        return words
+    return (
+        words + ": fit a device rated for the PFC, or confirm a device upstream protects it (back-up "
+        "protection)"
     )

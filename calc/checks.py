@@ -170,11 +170,15 @@ def overall(checks: tuple[Check, ...]) -> str:
     return PASS
 
 
+_WEIGHT = {FAIL: 0, NOT_SHOWN: 1, PASS: 2}
+"""How much an outcome weighs against the circuit (lower: more)."""
+
+
 def worse(first: Check, second: Check) -> Check:
     """The check that weighs more against the circuit: fail, then not shown, then the smaller margin."""
-    rank = {FAIL: 0, NOT_SHOWN: 1, PASS: 2}
-    if rank[first.outcome] != rank[second.outcome]:
-        return first if rank[first.outcome] < rank[second.outcome] else second
+    weight_first, weight_second = _WEIGHT[first.outcome], _WEIGHT[second.outcome]
+    if weight_first != weight_second:
+        return first if weight_first < weight_second else second
     a, b = first.margin_pct, second.margin_pct
     if a is None:
         return second if b is not None else first

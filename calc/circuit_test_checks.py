@@ -62,13 +62,24 @@ class TestChecks(NamedTuple):
         )
 
 
+class InsulationMinimum(NamedTuple):
+    """A row of IEC 60364-6 Table 6.1: the circuits it covers, the d.c. test voltage and the least
+    insulation resistance."""
+
+    circuits: str
+    test_voltage_v: float
+    min_mohm: float
+
+
 @lru_cache(maxsize=32)
-def insulation_row(selv: bool, nominal_v: float) -> dict:
+def insulation_minimum(selv: bool, nominal_v: float) -> InsulationMinimum:
     """The row of IEC 60364-6 Table 6.1 for a circuit: SELV/PELV, or by nominal voltage."""
     rows = tables.load("insulation")["row"]
     if selv:
-        return next(r for r in rows if r["selv"])
-    return next(r for r in rows if not r["selv"] and nominal_v <= r["nominal_max_v"])
+        row = next(r for r in rows if r["selv"])
+    else:
+        row = next(r for r in rows if not r["selv"] and nominal_v <= r["nominal_max_v"])
+    return InsulationMinimum(row["circuits"], float(row["test_voltage_v"]), float(row["min_mohm"]))
 
 
 def nominal_voltage_v(u0_v: float) -> float:
@@ -81,15 +92,9 @@ def insulation_check(inp: CircuitInput) -> tuple[Check, float | None]:
     """Insulation resistance: every reading at least the minimum of Table 6.1, at a test voltage that
     suits the circuit (at least the table's)."""
     title = "Insulation resistance"
-    row = insulation_row(inp.selv, nominal_voltage_v(inp.supply.u0_v))
-    need_v, minimum = float(row["test_voltage_v"]), float(row["min_mohm"])
+    row = insulation_minimum(inp.selv, nominal_voltage_v(inp.supply.u0_v))
+    need_v, minimum = row.test_voltage_v, row.min_mohm
     ins = inp.tests.insulation
-    readings = (
-        []
-        if ins is None
-        else [(n, r) for n, r in (("L–L", ins.line_line), ("L–E", ins.line_earth)) if r is not None]
-    )
-    base = dict(unit="MΩ", at_most=False, source=INSULATION_SOURCE)
     if ins is None or ins.line_earth is None:
         return Check(
             "insulation",
@@ -97,22 +102,31 @@ def insulation_check(inp: CircuitInput) -> tuple[Check, float | None]:
             NOT_SHOWN,
             None,
             minimum,
-            why="no line–earth reading",
-            needs=f"test insulation resistance at {fmt(need_v)} V d.c. (at least {fmt(minimum)} MΩ)",
-            **base,
+            "MΩ",
+            False,
+            "no line–earth reading",
+            lambda: f"test insulation resistance at {fmt(need_v)} V d.c. (at least {fmt(minimum)} MΩ)",
+            INSULATION_SOURCE,
         ), None
-    lowest_name, lowest = min(readings, key=lambda pair: pair[1].value)
-    if ins.test_voltage_v is None or ins.test_voltage_v < need_v:
-        said = "not recorded" if ins.test_voltage_v is None else f"{fmt(ins.test_voltage_v)} V"
+    line_line, line_earth = ins.line_line, ins.line_earth
+    if line_line is not None and line_line.value <= line_earth.value:
+        lowest_name, lowest = "L–L", line_line
+    else:
+        lowest_name, lowest = "L–E", line_earth
+    volts = ins.test_voltage_v
+    if volts is None or volts < need_v:
+        said = "not recorded" if volts is None else f"{fmt(volts)} V"
         return Check(
             "insulation",
             title,
             NOT_SHOWN,
             lowest.value,
             minimum,
-            why=f"test voltage {said}; this circuit ({row['circuits']}) needs {fmt(need_v)} V d.c.",
-            needs=f"record a test at {fmt(need_v)} V d.c.",
-            **base,
+            "MΩ",
+            False,
+            f"test voltage {said}; this circuit ({row.circuits}) needs {fmt(need_v)} V d.c.",
+            f"record a test at {fmt(need_v)} V d.c.",
+            INSULATION_SOURCE,
         ), lowest.value
     if lowest.value >= minimum:
         outcome = PASS
@@ -120,12 +134,14 @@ def insulation_check(inp: CircuitInput) -> tuple[Check, float | None]:
         outcome = NOT_SHOWN
     else:
         outcome = FAIL
+
     def why() -> str:
-        shown = ", ".join(f"{name} {_bounded(r)} MΩ" for name, r in readings)
-        missing = "" if ins.line_line is not None else "; L–L not recorded"
+        shown = f"L–E {_bounded(line_earth)} MΩ"
+        if line_line is not None:
+            shown = f"L–L {_bounded(line_line)} MΩ, " + shown
+        missing = "" if line_line is not None else "; L–L not recorded"
         sign = "≥" if outcome == PASS else "<"
-        volts = fmt(ins.test_voltage_v or 0.0)
-        return f"{shown} at {volts} V: lowest ({lowest_name}) {sign} {fmt(minimum)} MΩ{missing}"
+        return f"{shown} at {fmt(volts or 0.0)} V: lowest ({lowest_name}) {sign} {fmt(minimum)} MΩ{missing}"
 
     return Check(
         "insulation",
@@ -133,9 +149,11 @@ def insulation_check(inp: CircuitInput) -> tuple[Check, float | None]:
         outcome,
         lowest.value,
         minimum,
-        why=why,
-        needs="a reading the instrument can show below its range" if outcome == NOT_SHOWN else "",
-        **base,
+        "MΩ",
+        False,
+        why,
+        "a reading the instrument can show below its range" if outcome == NOT_SHOWN else "",
+        INSULATION_SOURCE,
     ), lowest.value
 
 
@@ -207,15 +225,18 @@ def continuity_check(inp: CircuitInput) -> tuple[Check, float | None]:
             reading,
             None,
             "Ω",
-            why=f"{name} {fmt(reading)} Ω: continuous (no length to compare with)",
+            why=lambda: f"{name} {fmt(reading)} Ω: continuous (no length to compare with)",
             source=source,
         ), None
     tolerance = max(CONTINUITY_TOLERANCE_OHM, CONTINUITY_TOLERANCE_FRACTION * expected)
     agrees = abs(reading - expected) <= tolerance
-    why = (
-        f"{name} {fmt(reading)} Ω against about {fmt(expected)} Ω expected for {fmt(inp.length_m or 0.0)} m "
-        f"(±{fmt(tolerance)} Ω)"
-    )
+
+    def why() -> str:
+        return (
+            f"{name} {fmt(reading)} Ω against about {fmt(expected or 0.0)} Ω expected for "
+            f"{fmt(inp.length_m or 0.0)} m (±{fmt(tolerance)} Ω)"
+        )
+
     if agrees:
         return Check(
             "continuity", title, PASS, reading, expected + tolerance, "Ω", True, why, source=source
@@ -254,20 +275,29 @@ def ring_check(inp: CircuitInput) -> tuple[Check | None, float | None]:
     r1, rn, r2 = float(ring.r1_ohm or 0.0), float(ring.rn_ohm or 0.0), float(ring.r2_ohm or 0.0)
     expected_r2 = r1 * inp.line.csa_mm2 / inp.cpc.csa_mm2
     r2_tolerance = max(RING_TOLERANCE_OHM, RING_R2_FRACTION * expected_r2)
-    problems = []
-    if abs(r1 - rn) > RING_TOLERANCE_OHM:
-        problems.append(f"r1 {fmt(r1)} Ω and rn {fmt(rn)} Ω differ by more than {fmt(RING_TOLERANCE_OHM)} Ω")
-    if abs(r2 - expected_r2) > r2_tolerance:
-        problems.append(
-            f"r2 {fmt(r2)} Ω is not about r1 × {fmt(inp.line.csa_mm2)}/{fmt(inp.cpc.csa_mm2)} = "
-            f"{fmt(expected_r2)} Ω"
-        )
+    line_neutral_differ = abs(r1 - rn) > RING_TOLERANCE_OHM
+    r2_off = abs(r2 - expected_r2) > r2_tolerance
     expected = (r1 + r2) / 4.0
-    why = "; ".join(problems) or (
-        f"r1 {fmt(r1)}, rn {fmt(rn)}, r2 {fmt(r2)} Ω agree; each point about (r1 + r2)/4 = {fmt(expected)} Ω"
-    )
+
+    def why() -> str:
+        problems = []
+        if line_neutral_differ:
+            problems.append(
+                f"r1 {fmt(r1)} Ω and rn {fmt(rn)} Ω differ by more than {fmt(RING_TOLERANCE_OHM)} Ω"
+            )
+        if r2_off:
+            problems.append(
+                f"r2 {fmt(r2)} Ω is not about r1 × {fmt(inp.line.csa_mm2)}/{fmt(inp.cpc.csa_mm2)} = "
+                f"{fmt(expected_r2)} Ω"
+            )
+        return "; ".join(problems) or (
+            f"r1 {fmt(r1)}, rn {fmt(rn)}, r2 {fmt(r2)} Ω agree; each point about (r1 + r2)/4 = "
+            f"{fmt(expected)} Ω"
+        )
+
+    ok = not (line_neutral_differ or r2_off)
     return Check(
-        "ring", title, judged(not problems), abs(r1 - rn), RING_TOLERANCE_OHM, "Ω", True, why, "", source
+        "ring", title, judged(ok), abs(r1 - rn), RING_TOLERANCE_OHM, "Ω", True, why, "", source
     ), expected
 
 
@@ -303,14 +333,18 @@ def rcd_time_check(inp: CircuitInput) -> tuple[Check | None, float | None, float
         if reading is None:
             open_parts.append(name)
             continue
-        shown = f"{_bounded(Bounded(reading.value * 1000, reading.above))} ms {name}"
         if reading.value + 1e-12 < low:
-            problems.append(f"{shown} is faster than the {fmt(low * 1000)} ms a type S must wait")
+            problems.append(
+                f"{_in_ms(reading, name)} is faster than the {fmt(low * 1000)} ms a type S must wait"
+            )
         elif reading.value > high + 1e-12 or (reading.above and reading.value >= high - 1e-12):
-            problems.append(f"{shown} exceeds {fmt(high * 1000)} ms")
+            problems.append(f"{_in_ms(reading, name)} exceeds {fmt(high * 1000)} ms")
         elif reading.above:
             open_parts.append(f"{name} (a bound below the limit)")
-    limits = f"at IΔn {_window(min_1x, limit_1x)}, at 5 IΔn {_window(min_5x, limit_5x)}"
+
+    def limits() -> str:
+        return f"at IΔn {_window(min_1x, limit_1x)}, at 5 IΔn {_window(min_5x, limit_5x)}"
+
     figure = tests.rcd_time_1x.value if tests.rcd_time_1x is not None else None
     if problems:
         check = Check(
@@ -321,7 +355,7 @@ def rcd_time_check(inp: CircuitInput) -> tuple[Check | None, float | None, float
             limit_1x,
             "s",
             True,
-            "; ".join(problems) + f" ({limits})",
+            lambda: "; ".join(problems) + f" ({limits()})",
             "",
             RCD_SOURCE,
         )
@@ -334,15 +368,19 @@ def rcd_time_check(inp: CircuitInput) -> tuple[Check | None, float | None, float
             limit_1x,
             "s",
             True,
-            f"not recorded {', '.join(open_parts)} ({limits})",
+            lambda: f"not recorded {', '.join(open_parts)} ({limits()})",
             f"test the RCD {' and '.join(open_parts)}",
             RCD_SOURCE,
         )
     else:
         check = Check(
-            "rcd-time", title, PASS, figure, limit_1x, "s", True, f"within {limits}", "", RCD_SOURCE
+            "rcd-time", title, PASS, figure, limit_1x, "s", True, lambda: f"within {limits()}", "", RCD_SOURCE
         )
     return check, limit_1x, limit_5x
+
+
+def _in_ms(reading: Bounded, name: str) -> str:
+    return f"{_bounded(Bounded(reading.value * 1000, reading.above))} ms {name}"
 
 
 def _window(low_s: float, high_s: float) -> str:

@@ -78,17 +78,22 @@ class CircuitTests(NamedTuple):
 
 
 TEST_FIELDS = ("insulation", "r2", "ring", "polarity", "rcd_time_1x", "rcd_time_5x", "rcd_test_button")
+INSULATION_FIELDS = frozenset(("test_voltage", "line_line", "line_earth"))
+RING_FIELDS = frozenset(("r1", "rn", "r2"))
 
 
 def read_bounded(data: Mapping[str, Any], path: str, name: str) -> Bounded | None:
     """A reading that may be written `>999` (beyond the instrument's range) — a lower bound."""
     value = data.get(name)
-    if value is None or (isinstance(value, str) and not value.strip()):
+    if value is None:
         return None
-    field = f"{path}.{name}"
-    if isinstance(value, str) and value.strip().startswith(">"):
-        return Bounded(parse_value(field, value.strip()[1:].strip()), above=True)
-    return Bounded(parse_value(field, value))
+    if isinstance(value, str):
+        text = value.strip()
+        if not text:
+            return None
+        if text.startswith(">"):
+            return Bounded(parse_value(f"{path}.{name}", text[1:].strip()), above=True)
+    return Bounded(parse_value(f"{path}.{name}", value))
 
 
 def _insulation(measured: Mapping[str, Any]) -> Insulation | None:
@@ -96,7 +101,7 @@ def _insulation(measured: Mapping[str, Any]) -> Insulation | None:
     data = read_section(measured, "insulation", "measured.", required=False)
     if not data:
         return None
-    check_known(data, path, ("test_voltage", "line_line", "line_earth"))
+    check_known(data, path, INSULATION_FIELDS)
     return Insulation(
         read_number(data, path, "test_voltage"),
         read_bounded(data, path, "line_line"),
@@ -109,15 +114,14 @@ def _ring(measured: Mapping[str, Any]) -> Ring | None:
     data = read_section(measured, "ring", "measured.", required=False)
     if not data:
         return None
-    check_known(data, path, ("r1", "rn", "r2"))
+    check_known(data, path, RING_FIELDS)
     return Ring(*(read_number(data, path, name) for name in ("r1", "rn", "r2")))
 
 
-def read_tests(measured: Mapping[str, Any], loop_fields: tuple[str, ...]) -> CircuitTests:
-    """The circuit's tests from the input's `measured` object (which also holds the loop readings)."""
-    allowed = loop_fields + TEST_FIELDS
-    check_known(measured, "measured", allowed)
-    if not any(name in measured for name in TEST_FIELDS):
+def read_tests(measured: Mapping[str, Any]) -> CircuitTests:
+    """The circuit's tests from the input's `measured` object (which also holds the loop readings; the
+    caller has checked its field names)."""
+    if measured.keys().isdisjoint(TEST_FIELDS):
         return CircuitTests()
     return CircuitTests(
         _insulation(measured),

@@ -310,7 +310,9 @@ def _separate_minimum(inp: CircuitInput) -> Check | None:
                 protected,
                 "mm²",
                 False,
-                f"{fmt(s)} mm² is below {fmt(protected)} mm², the least even with mechanical protection",
+                lambda: (
+                    f"{fmt(s)} mm² is below {fmt(protected)} mm², the least even with mechanical protection"
+                ),
                 "",
                 source,
             )
@@ -322,8 +324,8 @@ def _separate_minimum(inp: CircuitInput) -> Check | None:
             unprotected,
             "mm²",
             False,
-            f"{fmt(s)} mm² is enough only with mechanical protection",
-            f"say whether it is mechanically protected (else at least {fmt(unprotected)} mm²)",
+            lambda: f"{fmt(s)} mm² is enough only with mechanical protection",
+            lambda: f"say whether it is mechanically protected (else at least {fmt(unprotected)} mm²)",
             source,
         )
     ok = s + _EPS >= need
@@ -335,8 +337,10 @@ def _separate_minimum(inp: CircuitInput) -> Check | None:
         need,
         "mm²",
         False,
-        f"{fmt(s)} mm² {'≥' if ok else '<'} {fmt(need)} mm² "
-        f"({'with' if need == protected else 'without'} mechanical protection)",
+        lambda: (
+            f"{fmt(s)} mm² {'≥' if ok else '<'} {fmt(need)} mm² "
+            f"({'with' if need == protected else 'without'} mechanical protection)"
+        ),
         "",
         source,
     )
@@ -375,7 +379,7 @@ def protective_conductor(
             rule_min,
             "mm²",
             False,
-            f"{fmt(s)} mm² ≥ {fmt(rule_min)} mm² by proportion to the line conductor (Table 54.2)",
+            lambda: f"{fmt(s)} mm² ≥ {fmt(rule_min)} mm² by proportion to the line conductor (Table 54.2)",
             source="IEC 60364-5-54 Table 54.2",
         )
     elif result is None:
@@ -387,7 +391,9 @@ def protective_conductor(
             rule_min,
             "mm²",
             False,
-            f"{fmt(s)} mm² is below the proportion ({fmt(rule_min)} mm²) and there is no fault current",
+            lambda: (
+                f"{fmt(s)} mm² is below the proportion ({fmt(rule_min)} mm²) and there is no fault current"
+            ),
             "measure Zs, or Ze and R1+R2",
             CPC_SOURCE,
         )

@@ -193,18 +193,12 @@ def disconnection(
                 NOT_SHOWN,
                 current_a=if_a,
                 why=op.note,
-                needs=f"add points around {fmt(if_a)} A from the maker's chart",
+                needs=lambda: f"add points around {fmt(if_a)} A from the maker's chart",
                 source=SOURCE,
             ),
             lim=lim,
         )
     if clearing is None or clearing > limit.time_s:
-        if clearing is None:
-            why = f"at If = {fmt(if_a)} A the device is not known to operate: the fault would not be cleared"
-        else:
-            why = f"cleared in up to {fmt(clearing)} s ({by}), more than the {fmt(limit.time_s)} s allowed"
-        if lim is not None:
-            why = f"Zs {fmt(zs)} Ω is above the {fmt(lim.ohm)} Ω allowed; " + why
         check = Check(
             "disconnection",
             title,
@@ -212,7 +206,7 @@ def disconnection(
             zs if lim else clearing,
             lim.ohm if lim else limit.time_s,
             "Ω" if lim else "s",
-            why=why,
+            why=lambda: _not_cleared_why(zs, if_a, clearing, by, limit, lim),
             source=SOURCE,
             current_a=if_a,
             time_s=clearing,
@@ -228,17 +222,33 @@ def disconnection(
         judgement.limit,
         "Ω",
         why=lambda: _loop_why(judgement, lim, "Zs"),
-        needs=(
-            f"enter the test temperature to decide: Zs {fmt(zs)} Ω is within the {fmt(lim.ohm)} Ω "
-            f"allowed but above 0.8 × {fmt(lim.ohm)} = {fmt(judgement.rule_ohm)} Ω"
-            if judgement.outcome == NOT_SHOWN
-            else ""
-        ),
+        needs=(lambda: _test_temperature_needed(zs, lim, judgement))
+        if judgement.outcome == NOT_SHOWN
+        else "",
         source=SOURCE,
         current_a=if_a,
         time_s=clearing,
     )
     return result(check, clearing, by, lim, judgement)
+
+
+def _test_temperature_needed(zs: float, lim: LoopLimit, judgement: LoopJudgement) -> str:
+    return (
+        f"enter the test temperature to decide: Zs {fmt(zs)} Ω is within the {fmt(lim.ohm)} Ω allowed but "
+        f"above 0.8 × {fmt(lim.ohm)} = {fmt(judgement.rule_ohm)} Ω"
+    )
+
+
+def _not_cleared_why(
+    zs: float, if_a: float, clearing: float | None, by: str, limit: TimeLimit, lim: LoopLimit | None
+) -> str:
+    if clearing is None:
+        why = f"at If = {fmt(if_a)} A the device is not known to operate: the fault would not be cleared"
+    else:
+        why = f"cleared in up to {fmt(clearing)} s ({by}), more than the {fmt(limit.time_s or 0.0)} s allowed"
+    if lim is not None:
+        why = f"Zs {fmt(zs)} Ω is above the {fmt(lim.ohm)} Ω allowed; " + why
+    return why
 
 
 def _loop_why(judgement: LoopJudgement, lim: LoopLimit, name: str) -> str:
@@ -309,8 +319,10 @@ def earth_path(
             judgement.figure,
             judgement.limit,
             "Ω",
-            why=_loop_why(judgement, lim, "Ze + (R1+R2)") + ": the circuit's own path meets the "
-            "limit without the parallel path",
+            why=lambda: (
+                _loop_why(judgement, lim, "Ze + (R1+R2)") + ": the circuit's own path meets the "
+                "limit without the parallel path"
+            ),
             source=SOURCE,
         )
     else:
@@ -321,9 +333,11 @@ def earth_path(
             judgement.figure,
             judgement.limit,
             "Ω",
-            why=_loop_why(judgement, lim, "Ze + (R1+R2)"),
-            needs=f"resolve the difference between Zs {fmt(loop.zs_ohm or 0.0)} Ω and Ze + (R1+R2) "
-            f"{fmt(own)} Ω: without the parallel path the circuit's own path does not meet the limit",
+            why=lambda: _loop_why(judgement, lim, "Ze + (R1+R2)"),
+            needs=lambda: (
+                f"resolve the difference between Zs {fmt(loop.zs_ohm or 0.0)} Ω and Ze + (R1+R2) "
+                f"{fmt(own)} Ω: without the parallel path the circuit's own path does not meet the limit"
+            ),
             source=SOURCE,
         )
     return check, lambda: Step(
@@ -356,17 +370,21 @@ def touch_voltage(inp: CircuitInput, loop: Loop) -> tuple[Check | None, StepThun
     volts = touch_voltage_v(resistance, inp.rcd.idn_a)
     ok = volts <= limit_v
     name = "RA" if ra is not None else "Zs"
-    sign = "≤" if ok else ">"
-    why = f"{name} {fmt(resistance)} Ω × {fmt(inp.rcd.idn_a)} A = {fmt(volts)} V {sign} {fmt(limit_v)} V"
+    idn_a = inp.rcd.idn_a
+
+    def why() -> str:
+        sign = "≤" if ok else ">"
+        return f"{name} {fmt(resistance or 0.0)} Ω × {fmt(idn_a)} A = {fmt(volts)} V {sign} {fmt(limit_v)} V"
+
     check = Check("touch-voltage", title, judged(ok), volts, limit_v, "V", why=why, source=source)
     used = "RA as measured" if ra is not None else "Zs used as an upper bound of RA"
     return check, lambda: Step(
         "touch-voltage",
         title,
         formula,
-        why,
+        check.why,
         volts,
         "V",
         check.outcome,
-        f"{used}; RA ≤ {fmt(limit_v / inp.rcd.idn_a)} Ω at this IΔn",
+        f"{used}; RA ≤ {fmt(limit_v / idn_a)} Ω at this IΔn",
     )

@@ -114,18 +114,21 @@ def _with_hint(problem: str, spec: FieldSpec) -> str:
 def read_section(data: Mapping[str, Any], name: str, path: str, required: bool) -> Mapping[str, Any]:
     """The object `data[name]` (empty when absent and optional); InputError at `path + name` otherwise."""
     value = data.get(name)
-    field = f"{path}{name}"
+    if type(value) is dict:
+        return value
     if value is None:
         if required:
-            raise InputError(field, "is required")
+            raise InputError(f"{path}{name}", "is required")
         return {}
     if not isinstance(value, dict):
-        raise InputError(field, "must be an object")
+        raise InputError(f"{path}{name}", "must be an object")
     return value
 
 
-def check_known(data: Mapping[str, Any], path: str, allowed: tuple[str, ...]) -> None:
+def check_known(data: Mapping[str, Any], path: str, allowed: frozenset[str]) -> None:
     """InputError for the first key of `data` that is not one of `allowed`."""
+    if data.keys() <= allowed:
+        return
     for key in data:
         if key not in allowed:
             raise InputError(f"{path}.{key}" if path else str(key), "is not a known field")
@@ -135,13 +138,12 @@ def read_number(
     data: Mapping[str, Any], path: str, name: str, default: float | None = None, required: bool = False
 ) -> float | None:
     """A numeric field in base units; `default` when absent or blank (and not required)."""
-    field = f"{path}.{name}"
     value = data.get(name)
     if value is None or (isinstance(value, str) and not value.strip() and not required):
         if required:
-            raise InputError(field, "is required")
+            raise InputError(f"{path}.{name}", "is required")
         return default
-    return parse_value(field, value)
+    return parse_value(f"{path}.{name}", value)
 
 
 def read_required(data: Mapping[str, Any], path: str, name: str) -> float:
@@ -156,14 +158,14 @@ def read_choice(
     data: Mapping[str, Any], path: str, name: str, choices: tuple[str, ...], default: str | None = None
 ) -> str:
     """One of `choices` (case-insensitive); `default` when absent, InputError when none is given."""
-    field = f"{path}.{name}"
     value = data.get(name)
     if value is None:
         if default is None:
-            raise InputError(field, f"is required (one of {', '.join(choices)})")
+            raise InputError(f"{path}.{name}", f"is required (one of {', '.join(choices)})")
         return default
     if value in choices:
         return value
+    field = f"{path}.{name}"
     if not isinstance(value, str):
         raise InputError(field, f"must be one of {', '.join(choices)}")
     for option in choices:

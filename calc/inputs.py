@@ -10,7 +10,7 @@ from collections.abc import Mapping
 from typing import Any, NamedTuple
 
 from calc import tables
-from calc.circuit_tests import CircuitTests, read_tests
+from calc.circuit_tests import TEST_FIELDS, CircuitTests, read_tests
 from calc.errors import InputError
 from calc.fields import (
     check_known,
@@ -42,6 +42,21 @@ DEFAULT_U0_V = 230.0
 """Nominal voltage to earth when none is given (IEC 60038 230/400 V systems)."""
 DEFAULT_CMIN = 0.95
 """Minimum voltage factor when none is given (IEC 60909-0 Table 1, 100 V to 1000 V)."""
+LOOP_READINGS = ("zs", "zsc", "r1r2", "ze", "test_temp_c")
+"""The loop readings among the `measured` fields, in the order of `Readings`."""
+
+TOP_FIELDS = frozenset(("supply", "circuit", "measured", "settings", "meta"))
+SUPPLY_FIELDS = frozenset(("system", "u0", "cmin", "ze", "pfc", "ra"))
+CIRCUIT_FIELDS = frozenset(
+    ("role", "device", "let_through_i2t", "let_through_at", "rcd", "line", "cpc", "length_m", "selv", "ring")
+)
+DEVICE_FIELDS = frozenset(("kind", "curve", "rating", "points", "breaking_capacity"))
+LINE_FIELDS = frozenset(("csa", "material", "insulation"))
+CPC_FIELDS = frozenset(("csa", "material", "arrangement", "insulation", "bunched", "protected"))
+RCD_FIELDS = frozenset(("idn", "type", "waveform", "additional"))
+MEASURED_FIELDS = frozenset(LOOP_READINGS + TEST_FIELDS)
+SETTINGS_FIELDS = frozenset(("final_circuit_max_a",))
+"""The fields each object of the input may hold; any other is refused, naming it."""
 
 
 class Supply(NamedTuple):
@@ -201,7 +216,7 @@ def read_device(data: Mapping[str, Any]) -> DeviceSpec:
     """The device description: a breaker or RCBO (IEC 60898-1 curve and rating), a gG fuse (rating with
     data here) or a maker's curve (points); with its rated breaking capacity when given."""
     path = "circuit.device"
-    check_known(data, path, ("kind", "curve", "rating", "points", "breaking_capacity"))
+    check_known(data, path, DEVICE_FIELDS)
     kind = read_choice(data, path, "kind", DEVICE_KINDS)
     capacity = read_number(data, path, "breaking_capacity")
     if kind in BREAKER_KINDS:
@@ -263,7 +278,7 @@ def read_points(points: object) -> tuple[tuple[float, float], ...]:
 def _line(circuit: Mapping[str, Any]) -> Conductor:
     path = "circuit.line"
     data = read_section(circuit, "line", "circuit.", required=True)
-    check_known(data, path, ("csa", "material", "insulation"))
+    check_known(data, path, LINE_FIELDS)
     csa = read_required(data, path, "csa")
     material = read_choice(data, path, "material", LINE_MATERIALS, "copper")
     insulation = read_choice(data, path, "insulation", INSULATIONS, "thermoplastic-70")
@@ -276,7 +291,7 @@ def _cpc(circuit: Mapping[str, Any], line: Conductor) -> Conductor:
     cables unless said otherwise (IEC 60364-5-54 Table A.54.3 then applies, the safer k)."""
     path = "circuit.cpc"
     data = read_section(circuit, "cpc", "circuit.", required=True)
-    check_known(data, path, ("csa", "material", "arrangement", "insulation", "bunched", "protected"))
+    check_known(data, path, CPC_FIELDS)
     csa = read_required(data, path, "csa")
     material = read_choice(data, path, "material", CPC_MATERIALS, "copper")
     arrangement = read_choice(data, path, "arrangement", ARRANGEMENTS, "in-cable")
@@ -311,7 +326,7 @@ def _rcd(circuit: Mapping[str, Any], device: DeviceSpec) -> Rcd | None:
         if device.kind == "rcbo":
             raise InputError("circuit.rcd", "is required for an RCBO (its IΔn)")
         return None
-    check_known(data, path, ("idn", "type", "waveform", "additional"))
+    check_known(data, path, RCD_FIELDS)
     waveform = data.get("waveform")
     return Rcd(
         read_required(data, path, "idn"),
@@ -328,9 +343,9 @@ def read_input(data: object) -> CircuitInput:
     """
     if not isinstance(data, dict):
         raise InputError("input", "must be a JSON object")
-    check_known(data, "", ("supply", "circuit", "measured", "settings", "meta"))
+    check_known(data, "", TOP_FIELDS)
     s = read_section(data, "supply", "", required=True)
-    check_known(s, "supply", ("system", "u0", "cmin", "ze", "pfc", "ra"))
+    check_known(s, "supply", SUPPLY_FIELDS)
     system = read_choice(s, "supply", "system", SYSTEMS)
     u0 = read_number(s, "supply", "u0") or DEFAULT_U0_V
     cmin = read_number(s, "supply", "cmin") or DEFAULT_CMIN
@@ -343,33 +358,24 @@ def read_input(data: object) -> CircuitInput:
         read_number(s, "supply", "ra"),
     )
     c = read_section(data, "circuit", "", required=True)
-    check_known(
-        c,
-        "circuit",
-        (
-            "role",
-            "device",
-            "let_through_i2t",
-            "let_through_at",
-            "rcd",
-            "line",
-            "cpc",
-            "length_m",
-            "selv",
-            "ring",
-        ),
-    )
+    check_known(c, "circuit", CIRCUIT_FIELDS)
     role = read_choice(c, "circuit", "role", ROLES, "final")
     device = read_device(read_section(c, "device", "circuit.", required=True))
     rcd = _rcd(c, device)
     line = _line(c)
     cpc = _cpc(c, line)
     m = read_section(data, "measured", "", required=False)
-    loop = ("zs", "zsc", "r1r2", "ze", "test_temp_c")
-    tests = read_tests(m, loop)
-    readings = Readings(*(read_number(m, "measured", n) for n in loop))
+    check_known(m, "measured", MEASURED_FIELDS)
+    tests = read_tests(m)
+    readings = Readings(
+        read_number(m, "measured", "zs"),
+        read_number(m, "measured", "zsc"),
+        read_number(m, "measured", "r1r2"),
+        read_number(m, "measured", "ze"),
+        read_number(m, "measured", "test_temp_c"),
+    )
     st = read_section(data, "settings", "", required=False)
-    check_known(st, "settings", ("final_circuit_max_a",))
+    check_known(st, "settings", SETTINGS_FIELDS)
     default_scope = float(tables.load("disconnection_times")["final_circuit_max_a_default"])
     scope = read_number(st, "settings", "final_circuit_max_a") or default_scope
     return CircuitInput(

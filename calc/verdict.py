@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from typing import Any, NamedTuple
 
-from calc.checks import FAIL, NOT_SHOWN, OUTCOME_WORDS, Check, overall
+from calc.checks import FAIL, NOT_SHOWN, OUTCOME_WORDS, PASS, Check, overall
 from calc.inputs import CircuitInput
 from calc.numbers import fmt
 
@@ -99,8 +99,12 @@ class PrimaryCause(NamedTuple):
         }
 
 
-def _rank(check: Check, order: tuple[str, ...] = PRIORITY) -> int:
-    return order.index(check.id) if check.id in order else len(order)
+_FAILING_RANK = {check_id: rank for rank, check_id in enumerate(PRIORITY)}
+_OPEN_RANK = {check_id: rank for rank, check_id in enumerate(OPEN_PRIORITY)}
+
+
+def _rank(check: Check, ranks: dict[str, int] = _FAILING_RANK) -> int:
+    return ranks.get(check.id, len(ranks))
 
 
 def primary_cause(checks: tuple[Check, ...]) -> PrimaryCause | None:
@@ -113,8 +117,8 @@ def primary_cause(checks: tuple[Check, ...]) -> PrimaryCause | None:
     candidates = [c for c in checks if c.outcome == wanted and c.follows_from is None]
     if not candidates:
         candidates = [c for c in checks if c.outcome == wanted]
-    order = PRIORITY if wanted == FAIL else OPEN_PRIORITY
-    first = min(candidates, key=lambda c: _rank(c, order))
+    ranks = _FAILING_RANK if wanted == FAIL else _OPEN_RANK
+    first = min(candidates, key=lambda c: _rank(c, ranks))
     follows = tuple(c.id for c in checks if c.follows_from == first.id)
     text = f"{first.title}: {first.why}" if first.why else first.title
     if first.outcome == NOT_SHOWN and first.needs:
@@ -125,9 +129,8 @@ def primary_cause(checks: tuple[Check, ...]) -> PrimaryCause | None:
 
 def reasons(checks: tuple[Check, ...]) -> tuple[str, ...]:
     """ "title: outcome" for every check that does not pass, primary-ordered."""
-    return tuple(
-        f"{c.title}: {OUTCOME_WORDS[c.outcome]}" for c in sorted(checks, key=_rank) if c.outcome != "pass"
-    )
+    undecided_or_failing = [c for c in checks if c.outcome != PASS]
+    return tuple(f"{c.title}: {OUTCOME_WORDS[c.outcome]}" for c in sorted(undecided_or_failing, key=_rank))
 
 
 PLAUSIBLE_FAULT_CURRENT_A = 100e3

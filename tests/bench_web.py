@@ -114,7 +114,7 @@ def hello_spec(folder: Path):
     return dataclasses.replace(lists, name="Hello", description="Hello", source_root=folder,
                                packages=("hello_app",), module="hello_app",
                                libraries=("flet", "repath", "six"), leave_out=(),
-                               export_libraries=(), export_data=(), export_leave_out=())
+                               export_libraries=(), export_data=())
 
 
 def store_file(folder: Path) -> tuple[bytes, int, int, int]:

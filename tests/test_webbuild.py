@@ -20,7 +20,7 @@ import pytest
 from web_site import WHEEL_CACHE, build
 
 from mobile_app.webbuild import OutputExistsError, boardside_spec
-from mobile_app.webbuild.archive import dependency_lists, node
+from mobile_app.webbuild.archive import dependency_lists, export_modules, node, read_archive
 from mobile_app.webbuild.client import (
     BUILD_CONFIG,
     SNAPSHOT_RESTORE,
@@ -45,8 +45,7 @@ def site(tmp_path_factory: pytest.TempPathFactory):
 
 
 def archive_names(site, stem: str) -> list[str]:
-    path = next(site.out.glob(f"{stem}-*.zip"))
-    with zipfile.ZipFile(path) as archive:
+    with read_archive(next(site.out.glob(f"{stem}-*.zip.gz"))) as archive:
         return archive.namelist()
 
 
@@ -165,7 +164,9 @@ def test_archives_carry_compiled_libraries_and_our_code(site) -> None:
     libraries = archive_names(site, "libraries")
     app = archive_names(site, "app")
     assert "msgpack/_cmsgpack.cpython-314-wasm32-emscripten.so" in libraries  # the browser wheel
-    with zipfile.ZipFile(next(site.out.glob("libraries-*.zip"))) as archive:
+    # gzipped whole, a zip of stored entries inside (the page's worker copies them as they are)
+    assert next(site.out.glob("libraries-*.zip.gz")).read_bytes()[:2] == b"\x1f\x8b"
+    with read_archive(next(site.out.glob("libraries-*.zip.gz"))) as archive:
         assert {i.compress_type for i in archive.infolist()} == {zipfile.ZIP_STORED}
     assert "pint/default_en.txt" in libraries and "flet/controls/material/icons.json" in libraries
     assert not any(n.startswith(("webdav4/", "httpx/", "fpdf/", "flet_web/", "pip/")) for n in libraries)
@@ -173,8 +174,20 @@ def test_archives_carry_compiled_libraries_and_our_code(site) -> None:
     assert "calc/data/mcb.toml" in app and "mobile_app/browser/entry.py" in app
     assert not any(n.startswith(("mobile_app/webbuild/", "mobile_app/fonts/")) for n in app)
     export = archive_names(site, "export")
-    assert "mobile_app/fonts/DejaVuSans.ttf" in export
+    # the regular font is the site's own fonts/DejaVuSans.ttf, fetched beside the archive, not packed twice
+    assert "mobile_app/fonts/DejaVuSans-Bold.ttf" in export
+    assert "mobile_app/fonts/DejaVuSans.ttf" not in export
+    index = (site.out / "index.html").read_text(encoding="utf-8")
+    config = json.loads(re.search(r"var boardside = (\{.*?\n\});", index, re.S).group(1))
+    shared = config["python"]["extras"]["export"]["files"]
+    assert shared["mobile_app/fonts/DejaVuSans.ttf"] == "fonts/DejaVuSans.ttf"
+    assert (site.out / shared["mobile_app/fonts/DejaVuSans.ttf"]).read_bytes() == \
+        (ROOT / "mobile_app" / "fonts" / "DejaVuSans.ttf").read_bytes()
     assert any(n.startswith(("fontTools/subset/__init__.py", "fpdf/fpdf.py")) for n in export)
+    # fontTools: the modules of export-modules.toml only (tests/test_webbuild_export.py)
+    packed = {n.removesuffix("/__init__.pyc").removesuffix(".pyc").replace("/", ".")
+              for n in export if n.startswith("fontTools/") and n.endswith(".pyc")}
+    assert packed == export_modules() or node() is None
     assert not any(n.startswith(("fpdf/", "fontTools/", "PIL/")) for n in libraries + app)
     assert not any(n.endswith(".so") for n in export)
     if node() is None:
@@ -221,34 +234,3 @@ def test_command_line_builds_and_says_how_to_serve(tmp_path: Path) -> None:
                            capture_output=True, text=True, cwd=ROOT, timeout=60)
     assert again.returncode == 2 and again.stderr.startswith("build-web: ") and again.stdout == ""
 
-
-EXPORT_WITHOUT = """
-import sys, tempfile
-from pathlib import Path
-left_out = tuple(p.removesuffix(".py").removesuffix("/").replace("/", ".") for p in sys.argv[1:])
-
-class LeftOut:
-    def find_spec(self, name, path=None, target=None):
-        if name.startswith(left_out):
-            raise ImportError(f"{name} is not in the export archive")
-        return None
-
-sys.meta_path.insert(0, LeftOut())
-from mobile_app.export import export_bundle
-from mobile_app.state.jobs import demo_if_empty
-from mobile_app.store import Store
-folder = Path(tempfile.mkdtemp())
-store = Store.open(folder)
-demo_if_empty(store)
-bundle = export_bundle(store, store.jobs.all()[0]["id"], folder / "out")
-print(sorted(Path(bundle.path).iterdir())[0].suffix)
-"""
-
-
-def test_a_pdf_is_written_without_what_the_export_archive_leaves_out(tmp_path: Path) -> None:
-    # The export archive leaves out parts of fontTools that fpdf2 never imports for Boardside's PDF;
-    # the demo job (every kind of row, every glyph the working uses) must export with them missing.
-    left_out = list(dependency_lists()["export-leave-out"])
-    done = subprocess.run([sys.executable, "-c", EXPORT_WITHOUT, *left_out], capture_output=True,
-                          text=True, timeout=300, cwd=ROOT)
-    assert done.returncode == 0, done.stderr[-2000:]

@@ -3,10 +3,11 @@
 The folder holds the Flet web client and Pyodide (from the installed flet-web), the libraries archive
 (every dependency, unpacked from installed distributions or browser wheels, compiled), the app archive
 (calc and mobile_app, compiled), the export archive (the PDF library and fonts, which the page loads on
-the first export only), our page, manifest, icons and service worker. Any static host can serve it;
-after one visit it starts with no network. The service worker caches four groups under names made from
-their contents (runtime, libraries, export, app), so an update of Boardside's code downloads only the
-app group.
+the first export only; the regular font, which the page serves for the screen too, is fetched from the
+site beside it rather than packed twice), our page, manifest, icons and service worker. Any static
+host can serve it; after one visit it starts with no network. The service worker caches four groups
+under names made from their contents (runtime, libraries, export, app), so an update of Boardside's code
+downloads only the app group.
 """
 
 from __future__ import annotations
@@ -53,9 +54,9 @@ class AppSpec:
     leave_out: tuple[str, ...] = ()
     export_libraries: tuple[str, ...] = ()
     export_data: tuple[str, ...] = ()
-    export_leave_out: tuple[str, ...] = ()
-    """Distributions, package folders (e.g. `mobile_app/fonts`) and paths left out of the export
-    archive."""
+    export_modules: frozenset[str] = frozenset()
+    """Distributions and package folders (e.g. `mobile_app/fonts`) of the export archive; of a package
+    with modules in `export_modules`, only those modules."""
     assets: Path = ROOT / "assets"
 
 
@@ -77,7 +78,7 @@ def boardside_spec() -> AppSpec:
         leave_out=("webbuild", "fonts"),
         export_libraries=tuple(lists["export"]),
         export_data=("mobile_app/fonts",),
-        export_leave_out=tuple(lists["export-leave-out"]),
+        export_modules=archive.export_modules(),
     )
 
 
@@ -140,6 +141,27 @@ class Archives:
     libraries: str
     app: str
     export: str | None
+    export_files: dict[str, str] = field(default_factory=dict)
+    """Files of the export that the site already serves byte for byte (archive path -> site path): left
+    out of the export archive, the page's worker fetches them from the site beside it."""
+
+
+def shared_with_site(entries: list[archive.Entry],
+                     assets: Path) -> tuple[list[archive.Entry], dict[str, str]]:
+    """Split `entries` into those to pack and those identical to one of the site's asset files (e.g. the
+    PDF's regular font, which the page also serves for the screen): (to pack, archive path -> site path)."""
+    def digest(path: Path) -> str:
+        return hashlib.sha256(path.read_bytes()).hexdigest()
+
+    served = {digest(assets / name): name for name in ASSET_FILES if (assets / name).is_file()}
+    packed, shared = [], {}
+    for entry in entries:
+        site_path = served.get(digest(entry.source))
+        if site_path is None:
+            packed.append(entry)
+        else:
+            shared[entry.name] = site_path
+    return packed, shared
 
 
 def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Path, work: Path,
@@ -154,10 +176,11 @@ def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Pat
         wheel = runtime_wheel(name, runtime, cache)
         entries += archive.wheel_files(wheel, work / f"wheel-{index}")
     archive.stage(entries, libraries)
+    export_data, export_files = shared_with_site(
+        [entry for folder in spec.export_data for entry in archive.folder_files(spec.source_root, folder)],
+        spec.assets)
     archive.stage([entry for name in spec.export_libraries
-                   for entry in archive.installed_files(name, spec.export_leave_out)]
-                  + [entry for folder in spec.export_data
-                     for entry in archive.folder_files(spec.source_root, folder)], export)
+                   for entry in archive.installed_files(name, spec.export_modules)] + export_data, export)
     archive.stage([entry for package in spec.packages
                    for entry in archive.package_files(spec.source_root, package, spec.leave_out)], app)
     try:
@@ -167,9 +190,11 @@ def build_archives(spec: AppSpec, out: Path, runtime: client.Runtime, cache: Pat
     stems = [(libraries, "libraries"), (app, "app")]
     if spec.export_libraries or spec.export_data:
         stems.append((export, "export"))
-    named = [archive.content_name(archive.write_zip(folder, out / f"{stem}.zip"), stem).name
-             for folder, stem in stems]
-    return Archives(named[0], named[1], named[2] if len(named) > 2 else None)
+    named = [archive.content_name(archive.write_archive(folder, out / (stem + archive.ARCHIVE_SUFFIX)),
+                                  stem).name for folder, stem in stems]
+    if len(named) < 3:
+        return Archives(named[0], named[1], None)
+    return Archives(named[0], named[1], named[2], export_files)
 
 
 def copy_assets(spec: AppSpec, out: Path) -> list[str]:
@@ -218,7 +243,8 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
     config = {
         "python": {
             "archives": [{"url": libraries}, {"url": app_archive}],
-            "extras": {"export": archives.export} if archives.export else {},
+            "extras": {"export": {"url": archives.export, "files": archives.export_files}}
+            if archives.export else {},
             "deviceKeyStore": "boardside-device",
             "officeCache": OFFICE_CACHE,
             "module": spec.module,

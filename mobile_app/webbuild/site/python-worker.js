@@ -185,6 +185,21 @@ async function keepSnapshot(cache, bytes) {
   }
 }
 
+// An archive as the build writes it: a zip of stored entries, gzipped whole (webbuild/archive.py),
+// unzipped here by the browser's own decompression. A host that sends it with "Content-Encoding: gzip"
+// has the browser unzip it already: then it starts with a zip's signature, not gzip's, and is used as
+// it is.
+async function fetchArchive(url) {
+  const bytes = await fetchBytes(url);
+  if (bytes[0] !== 0x1f || bytes[1] !== 0x8b) {
+    return bytes;
+  }
+  if (!self.DecompressionStream) {
+    throw new Error("this browser cannot decompress the app's archives (no DecompressionStream)");
+  }
+  return squeeze(bytes, "out");
+}
+
 // The entries of a zip archive whose files are stored uncompressed, as the build writes them:
 // [path, bytes] from the central directory (APPNOTE 4.3.12, 4.3.16), bytes viewed in place.
 function* storedEntries(bytes) {
@@ -214,15 +229,27 @@ function* storedEntries(bytes) {
   }
 }
 
-// Archives loaded on demand (config.extras: name -> site path), each fetched and unpacked once.
+// Archives loaded on demand (config.extras: name -> { url, files }), each fetched and unpacked once,
+// with the site's files it shares (files: path under home -> site path, e.g. the PDF's regular font,
+// which the page serves for the screen too) fetched beside it and written to their paths.
 function extras(pyodide, config) {
   const loading = new Map();
+  async function load(extra) {
+    const shared = Object.entries(extra.files || {});
+    const [bytes, ...files] = await Promise.all([
+      fetchArchive(extra.url), ...shared.map(([, url]) => fetchBytes(url))]);
+    unpackArchives(pyodide, config, [bytes]);
+    shared.forEach(([name], index) => {
+      const path = config.home + "/" + name;
+      pyodide.FS.mkdirTree(path.slice(0, path.lastIndexOf("/")));
+      pyodide.FS.writeFile(path, files[index]);
+    });
+  }
   return function loadExtra(name) {
     if (!loading.has(name)) {
-      const url = config.extras && config.extras[name];
-      const done = url
-        ? fetchBytes(url).then((bytes) => {
-          unpackArchives(pyodide, config, [bytes]);
+      const extra = config.extras && config.extras[name];
+      const done = extra
+        ? load(extra).then(() => {
           mark("extra-" + name);
           return null;
         })
@@ -333,7 +360,7 @@ async function afresh(config, cache, archives) {
 
 async function start(config) {
   mark("worker-start");
-  const archives = Promise.all(config.archives.map((archive) => fetchBytes(archive.url)));
+  const archives = Promise.all(config.archives.map((archive) => fetchArchive(archive.url)));
   const cache = self.caches ? await self.caches.open(config.snapshotCache).catch(() => null) : null;
   const { pyodide, entry } = (await restored(config, cache, archives)) || (await afresh(config, cache, archives));
   const store = storage(pyodide, config);
