@@ -197,9 +197,13 @@ def test_integrity_outbox_roster_review_export_send_return(setup, page) -> None:
         reasons.nth(index).focus()  # focused, not clicked: a click can land where a field was before a scroll
         expect(reasons.nth(index)).to_be_focused()
         page.keyboard.type(text)
+        expect(reasons.nth(index)).to_have_value(text)
+    page.keyboard.press("Tab")  # leave the last field, as a finger going to Approve does
+    page.wait_for_timeout(400)
     tap(page, "Approve")
     see(page, "Approved by Ines Okafor")
     see(page, "Approved with these, for the reasons given:")
+    see(page, "Client told of the cracked front in writing")  # the whole of the last reason kept
     see(page, "Client replaces the socket circuit next week")
     shot(page, "66-approved-with-reasons")
 
