@@ -1,7 +1,7 @@
 """End to end in a real Chromium at 390×844: new job, a walk with an invalid reading, reload, approval.
 
 Starts `python -m mobile_app` in its own process group on a free port with a temporary store folder,
-drives it with Playwright (Debian's /usr/bin/chromium, see /work/shared/FLET-NOTES.md) and saves a
+drives it with Playwright (Debian's /usr/bin/chromium, see ../shared/FLET-NOTES.md) and saves a
 screenshot of each screen under test-artifacts/.
 """
 

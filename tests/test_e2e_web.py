@@ -75,80 +75,48 @@ def started(page) -> None:
     page.locator("flt-semantics-placeholder").dispatch_event("click")
 
 
-STORED_COPY = """async (text) => {
+STORED = """async (path) => {
     const db = await new Promise((resolve, reject) => {
         const request = indexedDB.open("/data");
         request.onsuccess = () => resolve(request.result);
         request.onerror = () => reject(request.error);
     });
-    const entry = await new Promise((resolve, reject) => {
-        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get("/data/boardside.sqlite");
+    const read = (how) => new Promise((resolve, reject) => {
+        const request = how(db.transaction("FILE_DATA").objectStore("FILE_DATA"));
         request.onsuccess = () => resolve(request.result);
         request.onerror = () => reject(request.error);
     });
+    const key = (await read((files) => files.getAllKeys())).find((k) => String(k).endsWith(path));
+    const entry = key && await read((files) => files.get(key));
     db.close();
-    if (!entry) return false;
-    const wanted = new TextEncoder().encode(text);
-    const bytes = entry.contents;
-    outer: for (let i = 0; i + wanted.length <= bytes.length; i++) {
-        for (let j = 0; j < wanted.length; j++) if (bytes[i + j] !== wanted[j]) continue outer;
-        return true;
-    }
-    return false;
-}"""
-"""Whether the store file's copy in browser storage (IndexedDB, as the worker's mount keeps it) holds
-`text` as UTF-8."""
-
-
-STORED_FILE = """async (path) => {
-    const db = await new Promise((resolve, reject) => {
-        const request = indexedDB.open("/data");
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    const keys = await new Promise((resolve, reject) => {
-        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").getAllKeys();
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    const wanted = keys.find((key) => String(key).endsWith(path));
-    const entry = wanted && await new Promise((resolve, reject) => {
-        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get(wanted);
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    db.close();
-    return entry ? [String(wanted), new TextDecoder().decode(entry.contents)] : null;
-}"""
-"""The copy in browser storage of the store's file whose path ends with `path`: [its path, its text]."""
-
-
-STORED_STORE = """async () => {
-    const db = await new Promise((resolve, reject) => {
-        const request = indexedDB.open("/data");
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    const entry = await new Promise((resolve, reject) => {
-        const request = db.transaction("FILE_DATA").objectStore("FILE_DATA").get("/data/boardside.sqlite");
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    db.close();
+    if (!entry) return null;
     let text = "";
     for (let i = 0; i < entry.contents.length; i += 8192) {
         text += String.fromCharCode(...entry.contents.subarray(i, i + 8192));
     }
-    return btoa(text);
+    return [String(key), btoa(text)];
 }"""
-"""The store file's copy in browser storage, base64 (the browser build keeps no -wal beside it)."""
+"""The file in browser storage (IndexedDB, as the worker's mount keeps it) whose path ends with `path`:
+[its path, its bytes in base64], or null."""
+
+
+def stored(page, path: str) -> tuple[str, bytes] | None:
+    """The browser-storage copy of the file whose path ends with `path`: its path and bytes."""
+    found = page.evaluate(STORED, path)
+    return None if found is None else (found[0], base64.b64decode(found[1]))
+
+
+STORE_FILE = "/data/boardside.sqlite"
+"""The store's file as the browser build mounts it (the browser build keeps no -wal beside it)."""
 
 
 def next_try_at(page, folder: Path) -> datetime:
     """When the outbox's SyncLoop will next try by its timer: the earliest `next_try_at` of a waiting
     export, read from the store's copy in browser storage with Python's sqlite3."""
     copy = folder / "store-copy.sqlite"
-    copy.write_bytes(base64.b64decode(page.evaluate(STORED_STORE)))
+    found = stored(page, STORE_FILE)
+    assert found is not None, "no store in browser storage"
+    copy.write_bytes(found[1])
     with sqlite3.connect(copy) as db:
         (due,) = db.execute("select min(next_try_at) from outbox where status = 'waiting'").fetchone()
     return datetime.fromisoformat(due)
@@ -158,7 +126,8 @@ def copied_within(page, text: str, seconds: float) -> bool:
     """Whether the browser-storage copy of the store holds `text` within `seconds` of now."""
     deadline = time.monotonic() + seconds
     while time.monotonic() < deadline:
-        if page.evaluate(STORED_COPY, text):
+        found = stored(page, STORE_FILE)
+        if found is not None and text.encode("utf-8") in found[1]:
             return True
         page.wait_for_timeout(50)
     return False
@@ -293,9 +262,9 @@ def approve_export_and_sync(page, context, url: str, dav: DavServer) -> None:
     assert document["job"]["client_ref"] == "WEB-101 Quarry Road"
     assert "620 mΩ" in data.decode("utf-8")
     # the same bytes as the export the store keeps: its manifest's SHA-256 for the file
-    stored = page.evaluate(STORED_FILE, "/manifest.json")
-    assert stored is not None and "/exports/" in stored[0]
-    manifest = json.loads(stored[1])
+    kept = stored(page, "/manifest.json")
+    assert kept is not None and "/exports/" in kept[0]
+    manifest = json.loads(kept[1].decode("utf-8"))
     assert manifest["files"][download.suggested_filename]["sha256"] == hashlib.sha256(data).hexdigest()
 
     # the failed tries while offline set the export's next timed try; one due within 20 s is waited
