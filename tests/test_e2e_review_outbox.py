@@ -18,6 +18,7 @@ from typing import Any
 import pytest
 from test_e2e_walk import (
     CHROMIUM,
+    focused_typed,
     free_port,
     open_app,
     page_fixture,  # noqa: F401 - the phone-sized page fixture
@@ -135,7 +136,6 @@ def seen(page, text: str) -> None:
 
 
 def test_integrity_outbox_roster_review_export_send_return(setup, page) -> None:
-    from playwright.sync_api import expect
 
     base, dav = setup["base"], setup["dav"]
     open_app(page, base + "/")
@@ -194,10 +194,7 @@ def test_integrity_outbox_roster_review_export_send_return(setup, page) -> None:
                                   "Spare way left off, tested when used",
                                   "Spare board fitted for a future extension",
                                   "Client told of the cracked front in writing")):
-        reasons.nth(index).focus()  # focused, not clicked: a click can land where a field was before a scroll
-        expect(reasons.nth(index)).to_be_focused()
-        page.keyboard.type(text)
-        expect(reasons.nth(index)).to_have_value(text)
+        focused_typed(page, reasons.nth(index), text)
     page.keyboard.press("Tab")  # leave the last field, as a finger going to Approve does
     page.wait_for_timeout(400)
     tap(page, "Approve")

@@ -166,15 +166,34 @@ def open_job(page, title: str) -> None:
     page.get_by_role("button", name=re.compile("^" + re.escape(title))).first.click()
 
 
+def focused_typed(page, field, text: str) -> None:
+    """Focus a field (not clicked: a click can land where a field was before a scroll), type the
+    text and check the field holds it. A keystroke sent in the same instant as a programmatic focus
+    can reach the page before Flutter has taken the field over (a finger's tap cannot be that
+    quick), so the text is selected and typed again, at most three times, until it is all there."""
+    from playwright.sync_api import expect
+
+    for _ in range(3):
+        field.focus()
+        expect(field).to_be_focused()
+        page.wait_for_timeout(150)
+        page.keyboard.press("Control+A")
+        page.keyboard.type(text)
+        try:
+            expect(field).to_have_value(text, timeout=3000)
+            return
+        except AssertionError:
+            continue
+    expect(field).to_have_value(text)
+
+
 def give_reasons(page, reason: str) -> int:
     """Write `reason` in every "Reason for approving with this" field of the review screen (one per
     failing or open item); returns how many there were."""
     fields = page.get_by_label("Reason for approving with this", exact=True)
     count = fields.count()
     for index in range(count):
-        fields.nth(index).focus()
-        page.wait_for_timeout(150)
-        page.keyboard.type(reason)
+        focused_typed(page, fields.nth(index), reason)
     return count
 
 
