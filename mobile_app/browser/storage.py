@@ -37,8 +37,7 @@ def open_store(js: Any, copy_failed: Callable[[str], None]) -> Store:
     """Open the store in the mounted folder with a rollback journal, copy every commit to browser
     storage, and copy it now once (opening may have created or migrated the file). `copy_failed` hears
     why a copy failed (the save is committed in the page, but not yet kept by the browser)."""
-    store = Store.open(Path(str(js.dataDir)))
-    store.db.execute("PRAGMA journal_mode=DELETE")
+    store = Store.open(Path(str(js.dataDir)), journal="DELETE")
 
     async def watch(copied: Any) -> None:
         failure = await copied

@@ -16,6 +16,7 @@ import sqlite3
 from collections.abc import Callable
 from dataclasses import dataclass
 from pathlib import Path
+from typing import Literal
 
 import sqlite_utils
 from sqlite_utils import Migrations
@@ -272,10 +273,11 @@ def utc_stamp() -> str:
     return datetime.datetime.now(datetime.UTC).strftime("%Y%m%dT%H%M%SZ")
 
 
-def connect(path: Path) -> sqlite3.Connection:
-    """Open a connection with explicit transactions, WAL, foreign keys and full sync."""
+def connect(path: Path, journal: Literal["WAL", "DELETE"] = "WAL") -> sqlite3.Connection:
+    """Open a connection with explicit transactions, WAL (or the `journal` mode given), foreign keys
+    and full sync."""
     conn = sqlite3.connect(str(path), isolation_level=None, timeout=10.0, check_same_thread=False)
-    conn.execute("PRAGMA journal_mode=WAL")
+    conn.execute(f"PRAGMA journal_mode={journal}")
     conn.execute("PRAGMA synchronous=FULL")
     conn.execute("PRAGMA foreign_keys=ON")
     conn.execute("PRAGMA busy_timeout=10000")

@@ -26,7 +26,7 @@ import contextlib
 import sqlite3
 from collections.abc import Iterator
 from pathlib import Path
-from typing import Self
+from typing import Literal, Self
 
 import sqlite_utils
 
@@ -89,11 +89,13 @@ class Store:
         self.integrity = Integrity(self.core, self.roster, self.documents)
 
     @classmethod
-    def open(cls, data_dir: Path | None = None) -> Self:
+    def open(cls, data_dir: Path | None = None, journal: Literal["WAL", "DELETE"] = "WAL") -> Self:
         """Open (or create) the store in `data_dir` (None: the user's app-data folder).
 
         Checks the file (a non-SQLite or damaged file is moved aside and `recovered` says so), turns
-        on WAL and foreign keys, runs pending migrations after taking a backup copy, and reassesses the
+        on WAL (or `journal` "DELETE", a rollback journal: the browser build copies one file to
+        browser storage, and a store opened in the mode it has is not rewritten at open) and foreign
+        keys, runs pending migrations after taking a backup copy, and reassesses the
         circuits of draft jobs last assessed by another calc version (reviewed jobs keep theirs).
         """
         folder = Path(data_dir) if data_dir is not None else default_data_dir()
@@ -102,7 +104,7 @@ class Store:
             path = folder / STORE_FILE
             problem = problem_with(path)
             recovered = move_aside(path, problem) if problem else None
-            conn = connect(path)
+            conn = connect(path, journal)
         except (OSError, sqlite3.Error) as error:
             reason = save_reason(error) if isinstance(error, sqlite3.Error) else str(error)
             raise OpenError(str(folder), reason) from error
