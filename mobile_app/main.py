@@ -16,6 +16,7 @@ from typing import Any
 import flet as ft
 
 from mobile_app.components.palette import FONTS, app_theme, theme_mode
+from mobile_app.state.integrity import IntegrityNotice
 from mobile_app.state.recorder import Recorder
 from mobile_app.state.recovery import Recovery
 from mobile_app.state.settings import SettingsState
@@ -163,12 +164,16 @@ def route_view(shell: Shell, route: str) -> ft.View:
     return _routes()[0][1](shell)
 
 
-def make_main(store: Any, sync_loop: Any = None) -> Callable[[ft.Page], None]:
+def make_main(store: Any, sync_loop: Any = None, check_after_first_screen: bool = False
+              ) -> Callable[[ft.Page], None]:
     """The Flet entry point for one session, on the server's one open store.
 
     Sessions share one store (its lock keeps their transactions apart) and the notice about a
     damaged store file, if one was moved aside at open. `sync_loop` is the platform's background
     sync (`mobile_app.sync.schedule.SyncLoop`, the browser build's), whose reports the screen hears.
+    With `check_after_first_screen` (the browser build, where the check takes a noticeable part of
+    start-up) the jobs list is sent before the store's integrity check, and shown again with its
+    notice if the check finds the store altered.
     """
     recovery = Recovery(store.recovered)
 
@@ -179,6 +184,9 @@ def make_main(store: Any, sync_loop: Any = None) -> Callable[[ft.Page], None]:
         page.dark_theme = app_theme()
         page.theme_animation_style = ft.AnimationStyle.no_animation()
         shell = Shell(page, store, recovery, sync_loop)
+        if check_after_first_screen:
+            notice = shell.session_value("integrity", lambda: IntegrityNotice.pending(store))
+            page.run_task(_check_then_show, shell, notice)
         if sync_loop is not None:
             sync_loop.on_report = shell.synced
         shell.apply_theme()
@@ -187,6 +195,14 @@ def make_main(store: Any, sync_loop: Any = None) -> Callable[[ft.Page], None]:
         shell.render()
 
     return main
+
+
+async def _check_then_show(shell: Shell, notice: IntegrityNotice) -> None:
+    """Check the store's integrity once the first screen is sent; show the jobs list again if the
+    check found something to say."""
+    await asyncio.sleep(0)
+    if not notice.check().ok and (shell.page.route or "/").split("?", 1)[0] in ("", "/"):
+        shell.render()
 
 
 def run_packaged() -> None:

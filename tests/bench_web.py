@@ -19,7 +19,6 @@ Run: `.venv/bin/python tests/bench_web.py`.
 
 from __future__ import annotations
 
-import base64
 import dataclasses
 import re
 import shutil
@@ -36,9 +35,9 @@ sys.path[:0] = [str(Path(__file__).resolve().parent), str(Path(__file__).resolve
 from bench_app import round_trip_ms  # noqa: E402
 from bench_records import CIRCUITS_PER_BOARD, build_job  # noqa: E402
 from test_e2e_walk import CHROMIUM, CHROMIUM_ARGS, ROOT, free_port, stop_server, wait_http  # noqa: E402
-from web_site import Elsewhere  # noqa: E402
+from web_site import Elsewhere, put_store  # noqa: E402
 
-RUNS = 3
+RUNS = 5
 START_MS = 120000
 HELLO_APP = textwrap.dedent(
     '''
@@ -75,28 +74,6 @@ HELLO_APP = textwrap.dedent(
         ft.run(main)
     '''
 )
-INJECT = """async ([name, data]) => {
-    const bytes = Uint8Array.from(atob(data), (c) => c.charCodeAt(0));
-    const db = await new Promise((resolve, reject) => {
-        const request = indexedDB.open("/data", 21);
-        request.onupgradeneeded = () => {
-            const store = request.result.createObjectStore("FILE_DATA");
-            store.createIndex("timestamp", "timestamp", { unique: false });
-        };
-        request.onsuccess = () => resolve(request.result);
-        request.onerror = () => reject(request.error);
-    });
-    await new Promise((resolve, reject) => {
-        const transaction = db.transaction("FILE_DATA", "readwrite");
-        transaction.objectStore("FILE_DATA").put(
-            { timestamp: new Date(1), mode: 33188, contents: bytes }, "/data/" + name);
-        transaction.oncomplete = resolve;
-        transaction.onerror = () => reject(transaction.error);
-    });
-    db.close();
-}"""
-"""Put a store file into browser storage as the worker's IndexedDB mount keeps it (an Emscripten IDBFS
-entry), before the app opens it."""
 WAITING = "navigator.serviceWorker.getRegistration().then((r) => Boolean(r && r.waiting))"
 """Whether an update of the service worker has installed and waits for the old one's pages to close."""
 MILESTONE = re.compile(r"boardside: ([\w-]+) at (\d+) ms")
@@ -215,10 +192,7 @@ def first_visit(pw, app: App) -> None:
         guard = Elsewhere()
         guard.guard(context)
         if app.store is not None:
-            page = context.new_page()
-            page.goto(app.server.url + "favicon.png")
-            page.evaluate(INJECT, ["boardside.sqlite", base64.b64encode(app.store[0]).decode()])
-            page.close()
+            put_store(context, app.server.url, app.store[0])
         page, app.first_visit_s = timed_start(context, app.server.url, app.first_text, {})
         page.evaluate("navigator.serviceWorker.ready.then(() => true)")
         page.wait_for_timeout(2000)
@@ -310,7 +284,7 @@ def median(values: list[float]) -> float:
 
 def where_time_goes(milestones: list[dict[str, int]]) -> str:
     names = ["pyodide-restored", "pyodide-loaded", "archives-unpacked", "storage-open", "prepared",
-             "connected", "first-screen-sent"]
+             "connect-asked", "connected", "session-started", "first-screen-sent"]
     parts = [f"{name} {median([m[name] for m in milestones if name in m]) / 1000:.1f}"
              for name in names if any(name in m for m in milestones)]
     return ", ".join(parts)

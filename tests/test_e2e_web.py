@@ -43,7 +43,7 @@ from test_e2e_walk import (
     type_into,
     wait_http,
 )
-from web_site import Elsewhere, build, serve
+from web_site import Elsewhere, build, put_store, serve
 
 from mobile_app.export import read_bundle
 
@@ -361,3 +361,35 @@ def test_server_form_asks_no_other_host(tmp_path: Path, browser_context) -> None
         stop_server(server)
     assert f"http://127.0.0.1:{port}/rive-unavailable.js" in asked
     assert elsewhere.urls == []
+
+
+def altered_store(folder: Path) -> bytes:
+    """A store file (rollback journal, as the browser keeps it) holding a job approved with the
+    supervisor's PIN and then changed in the file, outside the app."""
+    from mobile_app.store import Store
+
+    with Store.open(folder, journal="DELETE") as store:
+        supervisor = store.people.add("Dana Reeve", "supervisor", "482913")
+        recorder = store.people.add("Sam Hale", "qualified")
+        job = store.jobs.create({"client_ref": "WEB-300 Mill Lane"})
+        store.review.submit(job, recorder)
+        store.review.approve(job, supervisor, "482913")
+        path = store.path
+    with sqlite3.connect(path) as db:
+        db.execute("UPDATE jobs SET site_address_raw = 'changed in the file' WHERE id = ?", (job,))
+    return path.read_bytes()
+
+
+def test_altered_store_noticed_after_the_first_screen(site: Path, browser_context, tmp_path: Path) -> None:
+    """The browser build sends its first jobs list before the store's integrity check (it takes a
+    noticeable part of start-up there) and shows the notice as soon as the check has run."""
+    server, url = serve(site)
+    try:
+        put_store(browser_context, url, altered_store(tmp_path / "store"))
+        page = browser_context.new_page()
+        start(page, url)
+        see(page, "This store was altered", timeout_ms=START_MS)
+        see(page, "altered: ")
+        shot(page, "web-10-altered-store")
+    finally:
+        stop_server(server)

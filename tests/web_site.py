@@ -3,6 +3,7 @@ static server on loopback, count what a page asks of other hosts."""
 
 from __future__ import annotations
 
+import base64
 import subprocess
 import sys
 from dataclasses import dataclass, field
@@ -55,3 +56,36 @@ class Elsewhere:
                 request_route.abort()
 
         context.route("**/*", route)
+
+
+INJECT = """async ([name, data]) => {
+    const bytes = Uint8Array.from(atob(data), (c) => c.charCodeAt(0));
+    const db = await new Promise((resolve, reject) => {
+        const request = indexedDB.open("/data", 21);
+        request.onupgradeneeded = () => {
+            const store = request.result.createObjectStore("FILE_DATA");
+            store.createIndex("timestamp", "timestamp", { unique: false });
+        };
+        request.onsuccess = () => resolve(request.result);
+        request.onerror = () => reject(request.error);
+    });
+    await new Promise((resolve, reject) => {
+        const transaction = db.transaction("FILE_DATA", "readwrite");
+        transaction.objectStore("FILE_DATA").put(
+            { timestamp: new Date(1), mode: 33188, contents: bytes }, "/data/" + name);
+        transaction.oncomplete = resolve;
+        transaction.onerror = () => reject(transaction.error);
+    });
+    db.close();
+}"""
+"""Put a store file into browser storage as the worker's IndexedDB mount keeps it (an Emscripten IDBFS
+entry), before the app opens it."""
+
+
+def put_store(context, url: str, data: bytes) -> None:
+    """Put a store file into the browser storage of the site at `url` (opened once on a small file of
+    the site, so the storage is that origin's), before the app opens it."""
+    page = context.new_page()
+    page.goto(url + "favicon.png")
+    page.evaluate(INJECT, ["boardside.sqlite", base64.b64encode(data).decode()])
+    page.close()

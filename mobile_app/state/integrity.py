@@ -1,7 +1,8 @@
 """What the jobs screen says when the store was altered outside the app (issue 11, item 5).
 
-The check reads every approved job, so it runs once per session (`report` is computed on first use)
-and again after an import (`refresh`).
+The check reads every approved job and hashes the whole audit trail, so it runs once per session
+(`report` is computed on first use) and again after an import (`refresh`). The browser build shows
+its first jobs list before the check (`pending`) and checks right after it is on screen (`check`).
 """
 
 from __future__ import annotations
@@ -17,6 +18,18 @@ class IntegrityNotice:
     def __init__(self, store: Any) -> None:
         self.store = store
         self._report: IntegrityReport | None = None
+
+    @classmethod
+    def pending(cls, store: Any) -> IntegrityNotice:
+        """A notice that shows nothing until `check` runs (a first screen not kept waiting by it)."""
+        notice = cls(store)
+        notice._report = IntegrityReport()
+        return notice
+
+    def check(self) -> IntegrityReport:
+        """Check the store now; returns what was found."""
+        self._report = self.store.integrity.check()
+        return self._report
 
     @property
     def report(self) -> IntegrityReport:
