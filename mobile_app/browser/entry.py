@@ -4,7 +4,8 @@ when it connects.
 `warm` imports the app's code and nothing else (the worker keeps a memory snapshot after it, so later
 starts skip it); `prepare` claims the job store (one tab owns it) and opens it, and installs the
 browser's platform edges (`platform`: fetch for the sync, the device key, the PDF's libraries on
-demand), all before the client asks, so the jobs list is sent as soon as it connects. Once it is sent,
+demand), all before the client asks, so the jobs list is sent as soon as it connects; the store's
+integrity check (the whole audit trail hashed) follows once the list is on screen. Once it is sent,
 the outbox's sync starts (and runs again whenever the connection comes back). A tab that does not own
 the store shows a screen saying so, with a way to try again once the other tab is closed; it never
 opens its own copy.
@@ -47,6 +48,27 @@ def warm() -> None:
     import_screens()
     for name in SCREEN_CONTROLS:
         getattr(ft, name)
+    _ready_controls(ft)
+
+
+def _ready_controls(ft: Any) -> None:
+    """Load the icon table and compile each screen control's validation rules (Flet does both on a
+    control's first use, which would otherwise fall in the first screen's time)."""
+    import inspect
+
+    from flet.controls.base_control import BaseControl
+    from flet.utils.validation import validate
+
+    samples = {"Icon": lambda: ft.Icon(ft.Icons.ADD), "SnackBar": lambda: ft.SnackBar(ft.Text("")),
+               "SafeArea": lambda: ft.SafeArea(ft.Text(""))}
+    for name in SCREEN_CONTROLS:
+        cls = getattr(ft, name)
+        if not (inspect.isclass(cls) and issubclass(cls, BaseControl)):
+            continue
+        try:
+            validate(samples[name]() if name in samples else cls())
+        except (TypeError, ValueError):
+            pass  # needs arguments: its rules compiled before the check failed, or on first use
 
 
 async def prepare() -> None:
@@ -81,6 +103,7 @@ def _copy_failed(reason: str) -> None:
 
 
 async def _main(page: Any) -> None:
+    _state["js"].mark("session-started")
     _state["page"] = page
     store = _state.get("store")
     if store is not None:
@@ -117,5 +140,5 @@ def _start(page: Any, store: Any) -> None:
 
     loop = _state.get("sync") or platform.start_sync(store, lambda _report: None)
     _state["sync"] = loop
-    make_main(store, loop)(page)
+    make_main(store, loop, check_after_first_screen=True)(page)
     _state["js"].mark("first-screen-sent")

@@ -239,7 +239,9 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
                                   notes)
     libraries, app_archive = archives.libraries, archives.app
     app_files = copy_assets(spec, out)
-    snapshot_cache = SNAPSHOT_CACHE + group_version(out, [*runtime_files, libraries, app_archive])
+    # a new runtime, new archives or a worker that keeps its snapshot differently: a new snapshot
+    snapshot_cache = SNAPSHOT_CACHE + group_version(out, [*runtime_files, libraries, app_archive,
+                                                          "python-worker.js"])
     config = {
         "python": {
             "archives": [{"url": libraries}, {"url": app_archive}],

@@ -25,6 +25,7 @@ self.onmessage = async (event) => {
     starting = start(message.python);
     starting.catch(() => {});
   } else if (message && message.type === "connect") {
+    mark("connect-asked");
     self.postMessage(await connect(message));
   } else if (message && message.type === "online") {
     whenOnline.forEach((callback) => callback());
@@ -160,25 +161,24 @@ function storage(pyodide, config) {
   return { dataDir: config.dataDir, open, flush };
 }
 
-// Python starts from a memory snapshot taken on this device at its first start (kept gzip-compressed in
-// the browser's Cache Storage under the version of the runtime and both archives): starting the
+// Python starts from a memory snapshot taken on this device at its first start (kept in the browser's
+// Cache Storage under the version of the runtime, both archives and this file): starting the
 // interpreter and importing the app from nothing takes seconds, restoring memory a fraction of that.
+// It is kept as it is, not compressed: unzipping its ~38 MB took 0.4-0.7 s of a 3.5 s start here, on
+// the core the web client also needs, and reading it back from storage a fraction of that.
 // The snapshot is taken after the entry module's warm(), which only imports (no JavaScript object may
 // be held by Python at that point); a snapshot that does not restore is marked and never tried again.
 const SNAPSHOT = "python-snapshot";
 const SNAPSHOT_FAILED = "python-snapshot-failed";
 
-async function squeeze(bytes, direction) {
-  if (!self.CompressionStream) {
-    return bytes;
-  }
-  const transform = direction === "in" ? new CompressionStream("gzip") : new DecompressionStream("gzip");
-  return new Uint8Array(await new Response(new Blob([bytes]).stream().pipeThrough(transform)).arrayBuffer());
+async function gunzip(bytes) {
+  const unzipped = new Blob([bytes]).stream().pipeThrough(new DecompressionStream("gzip"));
+  return new Uint8Array(await new Response(unzipped).arrayBuffer());
 }
 
 async function keepSnapshot(cache, bytes) {
   try {
-    await cache.put(SNAPSHOT, new Response(await squeeze(bytes, "in")));
+    await cache.put(SNAPSHOT, new Response(bytes));
     mark("snapshot-kept");
   } catch (error) {
     console.warn("Boardside: no start-up snapshot kept:", error);
@@ -197,7 +197,7 @@ async function fetchArchive(url) {
   if (!self.DecompressionStream) {
     throw new Error("this browser cannot decompress the app's archives (no DecompressionStream)");
   }
-  return squeeze(bytes, "out");
+  return gunzip(bytes);
 }
 
 // The entries of a zip archive whose files are stored uncompressed, as the build writes them:
@@ -326,7 +326,8 @@ async function restored(config, cache, archives) {
     return null;
   }
   try {
-    const snapshot = await squeeze(new Uint8Array(await stored.arrayBuffer()), "out");
+    // Handed over as a promise: the runtime's script loads while the snapshot is read.
+    const snapshot = stored.arrayBuffer();
     const pyodide = await loadPyodide({ env: { HOME: config.home }, _loadSnapshot: snapshot });
     mark("pyodide-restored");
     unpackArchives(pyodide, config, await archives);
