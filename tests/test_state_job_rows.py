@@ -63,6 +63,17 @@ def test_rows_say_device_cables_zs_and_where_a_tap_goes(store):
     assert rows[fresh].step == "device"
 
 
+def test_a_zs_worked_out_from_ze_and_r1r2_is_shown_with_where_it_came_from(store):
+    job = JobScreen(store, JobsList(store).new_job("Summed"))
+    summed = _typed_circuit(store, job, None)
+    walk = Walk(store, summed)
+    walk.set_field("ze", "0.35")
+    walk.set_field("r1r2", "0.40")
+    row = next(c for c in job.boards()[0].circuits if c.id == summed)
+    # Zs = Ze + (R1+R2) = 0.35 + 0.40 = 0.75 Ω (arithmetic; the walk's loop step)
+    assert row.detail.replace("\u00a0", " ") == "B32 · 2.5/1.5 mm² · Zs 0.75 Ω from Ze + (R1+R2)"
+
+
 def test_a_long_curve_name_wraps_between_words_short_parts_stay_whole():
     from mobile_app.state.jobs import CircuitRow
     from mobile_app.state.text import verdict_mark

@@ -142,11 +142,21 @@ def circuit_row(summary: dict[str, Any]) -> CircuitRow:
         device=device_text(kind, summary.get("device_curve"), summary.get("device_rating_a"),
                            summary.get("library_name")),
         cables=cable_text(summary.get("line_csa_mm2"), summary.get("cpc_csa_mm2")),
-        zs=f"Zs {format_quantity(float(zs), 'Ω')}" if isinstance(zs, int | float) else "no Zs",
+        zs=zs_text(zs, summary.get("zs_used_ohm"), summary.get("zs_source")),
         cause="" if verdict == "pass" else str(summary.get("cause") or ""),
         has_readings=bool(summary.get("has_readings")),
         rating_note=rating_mismatch(kind, summary.get("device_rating_a"), summary.get("library_rating_a")),
     )
+
+
+def zs_text(measured: Any, used: Any, source: Any) -> str:
+    """A row's Zs: as measured; else the one the assessment worked out, with where from ("Zs 0.75 Ω
+    from Ze + (R1+R2)", as the walk's loop step takes it, calc.walk.loop_impedance); else "no Zs"."""
+    if isinstance(measured, int | float):
+        return f"Zs {format_quantity(float(measured), 'Ω')}"
+    if isinstance(used, int | float):
+        return f"Zs {format_quantity(float(used), 'Ω')} from {source or 'other readings'}"
+    return "no Zs"
 
 
 CIRCUIT_FILTERS: tuple[str, ...] = ("all", "fail", "not-shown")

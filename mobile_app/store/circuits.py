@@ -120,8 +120,9 @@ class Circuits:
     def summaries(self, board_id: int) -> list[dict[str, Any]]:
         """A board's circuits in order as a list shows them: id, number, description, verdict,
         version, the device (`device_kind`, `device_curve`, `device_rating_a`, `library_name`,
-        `library_rating_a`), `line_csa_mm2`, `cpc_csa_mm2`, `zs_ohm`, `has_readings` (any reading
-        typed) and `cause` (the primary cause's words)."""
+        `library_rating_a`), `line_csa_mm2`, `cpc_csa_mm2`, `zs_ohm` (as measured), `zs_used_ohm` and
+        `zs_source` (the Zs the assessment used and where it came from, e.g. "Ze + (R1+R2)"),
+        `has_readings` (any reading typed) and `cause` (the primary cause's words)."""
         self.core.row("board", board_id)
         typed = " OR ".join(f"c.{name}_raw != ''" for name in MEASURED_FIELDS)
         return self.core.query(
@@ -130,6 +131,8 @@ class Circuits:
             " c.device_rating_value AS device_rating_a, l.name AS library_name,"
             " l.rating_a AS library_rating_a, c.line_csa_value AS line_csa_mm2,"
             " c.cpc_csa_value AS cpc_csa_mm2, c.zs_value AS zs_ohm,"
+            " json_extract(c.assessment, '$.zs_ohm') AS zs_used_ohm,"
+            " json_extract(c.assessment, '$.zs_source') AS zs_source,"
             f" ({typed}) AS has_readings,"
             " json_extract(c.assessment, '$.primary_cause.text') AS cause"
             " FROM circuits c LEFT JOIN library_devices l ON l.id = c.library_device_id_value"
