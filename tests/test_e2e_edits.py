@@ -172,7 +172,7 @@ def test_rows_filter_reason_copy_delete_undo(demo, page) -> None:
     shot(page, "48-add-board-asks-its-name")
     type_into(page, "New board's name", "Garage board")
     tap(page, "Add board")
-    see(page, "Board Garage board added")
+    see(page, "Added: Garage board")
     scroll(page, 300)
     seen(page, "Garage board")
     shot(page, "49-board-added")

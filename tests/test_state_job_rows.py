@@ -101,7 +101,7 @@ def test_a_board_is_named_before_it_is_added(store):
     assert job.add_board("  ") == (None, "Name the board first (e.g. DB2, Garage board)")
     assert job.add_board("db1") == (None, "This job already has a board called db1")
     board_id, message = job.add_board("Garage board")
-    assert board_id is not None and message == "Board Garage board added"
+    assert board_id is not None and message == "Added: Garage board"
     assert [b.designation for b in job.boards()] == ["DB1", "Garage board"]
 
 

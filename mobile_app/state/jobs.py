@@ -308,7 +308,7 @@ class JobScreen:
             board_id = int(self.store.boards.add(self.job_id, name, by=self.by))
         except StoreError as exc:
             return None, f"Board not added: {exc}"
-        return board_id, f"Board {name} added"
+        return board_id, f"Added: {name}"
 
     def add_circuit(self, board_id: int, description: str = "") -> int:
         """Add the board's next circuit; choices the store left blank get the usual defaults."""
