@@ -82,3 +82,10 @@ def test_a_rating_that_differs_from_the_saved_curve_is_flagged(store):
     assert row.rating_note == note and row.device == "Maker 100 A"
     Walk(store, circuit_id).set_field("device_rating", "100")
     assert note not in Walk(store, circuit_id).results().notes
+
+
+def test_what_a_new_curve_still_needs_is_a_hint_until_a_point_is_typed():
+    draft = CurveDraft()
+    assert draft.problem() == "Enter at least two points (current and time)" and not draft.started
+    draft.set_cell(0, "current", "200")
+    assert draft.started and draft.problem() == "Enter at least two points (current and time)"

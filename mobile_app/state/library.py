@@ -79,6 +79,11 @@ class CurveDraft:
             device["rating"] = self.rating
         return device
 
+    @property
+    def started(self) -> bool:
+        """Whether any point has been typed (before that, what is missing is a hint, not an error)."""
+        return any(r.current.strip() or r.time.strip() for r in self.rows)
+
     def problem(self) -> str | None:
         """Why the curve cannot be saved yet, in words; None when it can."""
         for index, row in enumerate(self.rows, start=1):

@@ -22,7 +22,7 @@ def build(shell: Any) -> ft.View:
     def refresh() -> None:
         text = draft.problem()
         problem.value = text or "Curve accepted: times fall as current rises."
-        problem.color = ft.Colors.ERROR if text else None
+        problem.color = ft.Colors.ERROR if text and draft.started else None
         model = draft.preview()
         preview.content = tc_chart(model, height=240) if model else ft.Text(
             "The preview appears when the points make a valid curve.", size=14)
