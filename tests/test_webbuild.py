@@ -208,8 +208,9 @@ def test_a_rebuild_is_identical_and_a_code_change_touches_only_the_app_group(sit
     changed = build(tmp_path / "changed", dataclasses.replace(boardside_spec(), source_root=source))
     versions = {g.name: g.version for g in changed.groups}
     before = {g.name: g.version for g in same.groups}
-    assert list(versions) == ["runtime", "libraries", "export", "app"]
+    assert list(versions) == ["runtime", "libraries", "export", "fonts", "app"]
     assert versions["runtime"] == before["runtime"]
+    assert versions["fonts"] == before["fonts"]
     assert versions["libraries"] == before["libraries"]
     assert versions["export"] == before["export"]
     assert versions["app"] != before["app"]

@@ -262,8 +262,11 @@ def build_site(out: Path, spec: AppSpec | None = None, cache: Path | None = None
     grouped = [("runtime", runtime_files), ("libraries", [libraries])]
     if archives.export:
         grouped.append(("export", [archives.export]))
+    fonts = [name for name in app_files if name.startswith("fonts/")]  # kept across updates of our code
+    if fonts:
+        grouped.append(("fonts", fonts))
     groups = tuple(Group(name, tuple(files), group_version(out, files))
-                   for name, files in (*grouped, ("app", app_files)))
+                   for name, files in (*grouped, ("app", [n for n in app_files if n not in fonts])))
     (out / "sw.js").write_text(service_worker(groups, [snapshot_cache, OFFICE_CACHE]), encoding="utf-8")
     site = Site(out, groups, tuple(notes))
     marker = {"groups": {g.name: {"version": g.version, "files": list(g.files)} for g in groups}}

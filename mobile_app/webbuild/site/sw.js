@@ -2,7 +2,8 @@
 //
 // The build writes the site's files into SITE below, in groups: "runtime" (the Flet web client and
 // Python), "libraries" (the app's Python dependencies), "export" (the PDF library and fonts, loaded by
-// the page on the first export) and "app" (Boardside's own code, page, icons).
+// the page on the first export), "fonts" (the screen's fallback font, which the PDF uses too) and "app"
+// (Boardside's own code, page, icons).
 // Each group is cached under a name made from its files' hashes, so an update downloads only the
 // groups that changed; the others are kept as they are. Requests are answered from the cache; a file
 // not in the cache is fetched from the site's own host; requests for any other host are refused here,
