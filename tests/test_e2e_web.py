@@ -3,7 +3,8 @@
 Also: the server form (`python -m mobile_app`) asks no other host either.
 
 Builds the site (`build_site`, as `python -m mobile_app build-web` does), serves it with a plain static
-server on loopback, and with every request to another host aborted and counted: creates a job, walks a
+server on loopback, and with every request to another host aborted and counted: sees the first start
+explained on the loading screen, creates a job, walks a
 circuit to its verdict, reloads, stops the server, goes offline, reloads again and finds the job and the
 reading (the store is on browser storage, the site in the service worker's cache); still offline, adds a
 supervisor, submits the job and has it approved with the supervisor's PIN (PBKDF2 by the browser's
@@ -299,7 +300,11 @@ def test_walk_reload_offline_and_second_tab(site: Path, browser_context, tmp_pat
         page = browser_context.new_page()
         milestones: list[str] = []
         page.on("console", lambda message: milestones.append(message.text))
-        start(page, url)
+        page.goto(url)
+        # the first start on a device says on the loading screen why it takes longer
+        page.wait_for_function("(document.getElementById('loading-words')?.textContent ?? '')"
+                               ".startsWith('First start on this device')", timeout=START_MS)
+        started(page)
         see(page, "No jobs yet", timeout_ms=START_MS)
         shot(page, "web-01-jobs-empty")
         walk_one_circuit(page)

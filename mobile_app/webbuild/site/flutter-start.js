@@ -4,9 +4,21 @@
 // unregisters itself. Every browser runs the engine's JavaScript build with the full CanvasKit
 // (the renderer comes from the page's flet.webRenderer), so the site carries one engine and one renderer.
 
-window.addEventListener('flutter-first-frame', () => {
-    document.getElementById('loading')?.remove();
-}, { once: true });
+// The loading screen, with the worker's progress words, stays until Flutter has drawn its first frame
+// and the app has connected (or could not start: then the client's own message shows).
+(function () {
+    let drawn = false;
+    let ready = false;
+    function maybeRemove() {
+        if (drawn && ready) {
+            document.getElementById('loading')?.remove();
+        }
+    }
+    window.addEventListener('flutter-first-frame', () => { drawn = true; maybeRemove(); }, { once: true });
+    for (const name of ['boardside-connected', 'boardside-failed']) {
+        window.addEventListener(name, () => { ready = true; maybeRemove(); }, { once: true });
+    }
+})();
 
 var flutterConfig = {
     multiViewEnabled: flet.multiView,

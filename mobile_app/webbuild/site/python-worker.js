@@ -36,6 +36,11 @@ self.onmessage = async (event) => {
   }
 };
 
+// Words for the page's loading screen while Python starts (python.js shows them).
+function progress(text) {
+  self.postMessage({ type: "progress", text });
+}
+
 // Start-up milestones, in the worker's performance timeline and its console (for the benchmark).
 function mark(name) {
   performance.mark("boardside:" + name);
@@ -340,6 +345,8 @@ async function restored(config, cache, archives) {
 }
 
 async function afresh(config, cache, archives) {
+  progress("First start on this device: preparing Boardside to work without a network. This takes a " +
+    "little while, once; later starts are quicker.");
   const pyodide = await loadPyodide({ env: { HOME: config.home }, _makeSnapshot: Boolean(cache) });
   mark("pyodide-loaded");
   unpackArchives(pyodide, config, await archives);
@@ -361,9 +368,11 @@ async function afresh(config, cache, archives) {
 
 async function start(config) {
   mark("worker-start");
+  progress("Starting Boardside…");
   const archives = Promise.all(config.archives.map((archive) => fetchArchive(archive.url)));
   const cache = self.caches ? await self.caches.open(config.snapshotCache).catch(() => null) : null;
   const { pyodide, entry } = (await restored(config, cache, archives)) || (await afresh(config, cache, archives));
+  progress("Opening the jobs on this device…");
   const store = storage(pyodide, config);
   const storeOpened = store.open();
   pyodide.registerJsModule("flet_js", fletJs);

@@ -4,6 +4,10 @@
 // jsDisconnect), but the worker is started as soon as the page loads, so Python, the app archives and
 // the job store get ready while the Flutter engine starts, instead of after it.
 //
+// Until the app is connected, the worker's progress ({type: "progress", text}) is shown under the
+// loading picture (the first start on a device prepares Python for offline use and takes longest); the
+// page hears "boardside-connected" once the app is connected, or "boardside-failed" if it could not start.
+//
 // The page also tells the worker when the connection comes back: the `online` event is the window's
 // (HTML standard, "Offline web applications"), and a worker cannot be relied on to hear its own (an
 // emulated network change reaches the page only), so the outbox's sync hears it from here.
@@ -15,8 +19,20 @@
 
   addEventListener("online", () => current && current.postMessage({ type: "online" }));
 
+  function progress(data) {
+    if (!(data && data.type === "progress")) {
+      return false;
+    }
+    const words = document.getElementById("loading-words");
+    if (words) {
+      words.textContent = data.text;
+    }
+    return true;
+  }
+
   function startWorker() {
     const worker = new Worker(new URL("python-worker.js", document.baseURI), { type: "module" });
+    worker.onmessage = (event) => progress(event.data);
     current = worker;
     const failed = new Promise((resolve) => {
       worker.onerror = (event) => resolve("the Python worker could not start: " + (event.message || event));
@@ -32,6 +48,9 @@
     apps[appId] = app;
     const answered = new Promise((resolve) => {
       app.worker.onmessage = (event) => {
+        if (progress(event.data)) {
+          return;
+        }
         if (typeof event.data === "string") {
           resolve(event.data);
         } else {
@@ -43,6 +62,7 @@
     const outcome = await Promise.race([answered, started.failed]);
     if (outcome !== "initialized") {
       console.error("Python worker init error:", outcome);
+      window.dispatchEvent(new Event("boardside-failed"));
       await globalThis.jsDisconnect(appId);
       throw outcome;
     }
