@@ -56,10 +56,13 @@ class Shell:
             self.sync_loop.wake()
 
     def synced(self, report: Any) -> None:
-        """The background sync ran: say what it sent, and show the outbox again if it is on screen."""
+        """The background sync ran: say what it sent (and whom the office's roster enrolled), and show
+        the outbox again if it is on screen."""
         if report.sent:
             count = len(report.sent)
-            self.toast(f"{count} export{'s' * (count != 1)} sent to the office")
+            roster = report.roster
+            news = f". {roster.message}" if roster is not None and (roster.pinned or roster.enrolled) else ""
+            self.toast(f"{count} export{'s' * (count != 1)} sent to the office{news}")
         if (self.page.route or "").split("?", 1)[0] == "/outbox":
             self.render()
 

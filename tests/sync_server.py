@@ -14,7 +14,7 @@ plus optional faults, applied by a small WSGI layer in front of wsgidav (the ser
                       per-read timeout);
 - `--exit-after METHOD`  the process dies (os._exit) after doing the first METHOD request and before
                       answering it: the server did the work, the client never hears so;
-- `--made-meanwhile`  a PROPFIND that finds no folder is answered 404, and then the folder is made on
+- `--made-meanwhile`  the first PROPFIND that finds no folder is answered 404, and then the folder is made on
                       the server's disk, as another device would make it between our PROPFIND and MKCOL;
 - `--cors ORIGIN`     wsgidav's own CORS setting (`cors_config`), as the README tells an office to set
                       it for the browser build: a page from ORIGIN may send the sync's requests.
@@ -54,7 +54,7 @@ class _Faults:
         self.trickle_s, self.trickle_left = float(trickle[0]), int(trickle[1])
         self.trickle_method = trickle[2] if len(trickle) > 2 else None
         self.exit_after = args.exit_after
-        self.made_meanwhile = args.made_meanwhile
+        self.made_meanwhile = int(args.made_meanwhile)  # once: the office folder
         self.put_bytes = 0
 
     def take(self, name: str) -> bool:
@@ -147,8 +147,8 @@ def fault_layer(app, faults: _Faults, log_path: Path, root: Path):
         finally:
             if hasattr(answer, "close"):
                 answer.close()
-        if (faults.made_meanwhile and environ["REQUEST_METHOD"] == "PROPFIND"
-                and seen and seen[0].startswith("404")):
+        if (environ["REQUEST_METHOD"] == "PROPFIND" and seen and seen[0].startswith("404")
+                and faults.take("made_meanwhile")):
             (root / environ.get("PATH_INFO", "").strip("/")).mkdir(parents=True, exist_ok=True)
         if faults.exit_after == environ["REQUEST_METHOD"]:
             os._exit(3)

@@ -6,7 +6,8 @@ sync run and one export's upload may take, from their start), `theme` ("light", 
 The sync password is not a setting: it is handed to the sync step, which keeps it sealed.
 
 The office's roster (the firm's public key, pinned at set-up, and its enrolled supervisors) is
-loaded from a folder or a file on the device, and a supervisor's sealed key installed from its file
+loaded from a folder or a file on the device, or fetched from the office folder (`fetch_roster`, and
+after every sync that sends something), and a supervisor's sealed key installed from its file
 (`store.roster`, see README "Signed approvals").
 """
 
@@ -137,6 +138,26 @@ class SettingsState:
         except (SyncError, StoreError, OSError) as exc:
             return f"Not saved: {exc}"
         return "Office folder saved"
+
+    async def fetch_roster(self) -> str:
+        """Read the office's roster from the saved office folder (`roster/` there) and say what was
+        taken; the platform's own transport (a worker thread in the server form, fetch in the browser)."""
+        from mobile_app.sync import NotConfiguredError, SyncError, load_target
+        from mobile_app.sync.connect import open_async_transport
+        from mobile_app.sync.roster_pull import pull_roster
+
+        try:
+            transport = open_async_transport(load_target(self.store))
+        except NotConfiguredError:
+            return "Not fetched: set the office folder first"
+        except (SyncError, StoreError, OSError) as exc:
+            return f"Not fetched: {exc}"
+        try:
+            return (await pull_roster(self.store, transport)).message
+        except SyncError as exc:
+            return f"Not fetched: {exc}"
+        finally:
+            transport.close()
 
     def supervisors_text(self) -> str:
         """`Ines Okafor (enrolled by the office), Dana Reeve (this device only)`, or `None yet.`"""

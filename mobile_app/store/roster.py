@@ -55,6 +55,18 @@ class Roster:
                              (FIRM_KEY_SETTING, public_key.hex()))
                 self.core.audit(conn, None, None, "firm", None, "key", None, public_key.hex())
 
+    def take_firm_key(self, data: Any) -> bool:
+        """Pin the firm key of a `firm-key.json`'s content: True if pinned now, False if it is the one
+        already pinned; TrustError for a malformed file or another firm's key."""
+        try:
+            public_key = firm_key_from_dict(data)
+        except SigningError as error:
+            raise TrustError(f"{FIRM_KEY_FILE}: {error}") from error
+        if self.firm_key() == public_key:
+            return False
+        self.pin_firm_key(public_key)
+        return True
+
     def load(self, entries: list[Any], at: datetime.datetime | None = None) -> list[str]:
         """Take the roster entries the pinned firm signed and that are valid at `at` (now); return
         the names enrolled. TrustError before a firm key is pinned or for an entry that fails."""

@@ -47,3 +47,5 @@ def print_report(outbox: Outbox, report: SyncReport) -> None:
     last = outbox.last_error()
     if last:
         print(f"Last error: {last}")
+    if report.roster is not None:
+        print(f"Roster: {report.roster.message}")

@@ -31,6 +31,7 @@ from mobile_app.sync.target import (
     TimeLimitError,
     check_done,
     check_url,
+    parse_file_names,
     parse_is_collection,
     status_error,
 )
@@ -113,6 +114,16 @@ class FetchTransport:
             raise status_error(reply.status) if reply.status >= 300 else \
                 ProtocolError("the office address is not a WebDAV folder (no multistatus)")
         return "folder" if parse_is_collection(reply.body) else "file"
+
+    async def files(self, path: str) -> list[str]:
+        headers = {"Depth": "1", "Content-Type": "application/xml; charset=utf-8"}
+        reply = await self._ask("PROPFIND", path, headers, PROPFIND_BODY, MAX_XML_BYTES)
+        if reply.status == 404:
+            return []
+        if reply.status != 207:
+            raise status_error(reply.status) if reply.status >= 300 else \
+                ProtocolError("the office address is not a WebDAV folder (no multistatus)")
+        return parse_file_names(reply.body)
 
     async def make_folder(self, path: str) -> bool:
         reply = await self._ask("MKCOL", path)

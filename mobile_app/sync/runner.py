@@ -34,6 +34,7 @@ from typing import Any
 from mobile_app.sync import lease
 from mobile_app.sync.connect import open_async_transport, open_transport
 from mobile_app.sync.outbox import BundleError, Outbox, utc_now
+from mobile_app.sync.roster_pull import RosterPull, pull_roster
 from mobile_app.sync.saved import load_target
 from mobile_app.sync.send import clean_leftovers, probe, send_bundle
 from mobile_app.sync.target import (
@@ -112,6 +113,8 @@ class SyncReport:
     busy: bool = False
     stopped_at_limit: bool = False
     cleaned: int = 0
+    roster: RosterPull | None = None
+    """The office's roster as read after sending (None when not read: nothing sent, or no store)."""
 
 
 def backoff_s(kind: str, failures: int, rng: random.Random) -> float:
@@ -189,7 +192,8 @@ async def sync_once_async(store_or_db: Any, transport: AsyncTransport | SyncTarg
         else:
             try:
                 await _with_transport(outbox, transport, opener or open_async_transport, now, force,
-                                      rng, limits, report, progress)
+                                      rng, limits, report, progress,
+                                      store_or_db if hasattr(store_or_db, "roster") else None)
             finally:
                 lease.give_back(db, taken)
     report.waiting = len(outbox.waiting())
@@ -200,8 +204,9 @@ async def sync_once_async(store_or_db: Any, transport: AsyncTransport | SyncTarg
 async def _with_transport(outbox: Outbox, transport: AsyncTransport | SyncTarget,
                           opener: Callable[[SyncTarget], AsyncTransport], now: datetime, force: bool,
                           rng: random.Random | None, limits: SyncLimits, report: SyncReport,
-                          progress: Callable[[int, int], None] | None) -> None:
-    """Run with the given transport, or with the platform's own opened for `transport`'s target."""
+                          progress: Callable[[int, int], None] | None, store: Any = None) -> None:
+    """Run with the given transport, or with the platform's own opened for `transport`'s target; once
+    something was sent, read the office's roster too (`roster_pull`, a Store only)."""
     opened = opener(transport) if isinstance(transport, SyncTarget) else None
     run = _Run(outbox, opened or transport, now, rng or random.Random(), limits, report)  # type: ignore[arg-type]
     try:
@@ -209,6 +214,12 @@ async def _with_transport(outbox: Outbox, transport: AsyncTransport | SyncTarget
         if due:
             report.probed = True
             await _send_due(run, due, progress)
+        if report.sent and store is not None:
+            run.transport.set_deadline(min(run.ends_at_s, time.monotonic() + run.limits.bundle_s))
+            try:
+                report.roster = await pull_roster(store, run.transport)
+            except SyncError as exc:  # the bundles went; the roster waits for the next run
+                report.roster = RosterPull(problem=f"the office folder could not be read ({exc})")
     finally:
         run.transport.set_deadline(None)
         if opened is not None:

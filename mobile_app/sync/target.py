@@ -15,7 +15,7 @@ import base64
 import ipaddress
 import xml.etree.ElementTree as ET
 from dataclasses import dataclass, field
-from urllib.parse import quote, urlsplit
+from urllib.parse import quote, unquote, urlsplit
 
 MAX_XML_BYTES = 1 << 20
 
@@ -185,6 +185,24 @@ def parse_is_collection(body: bytes) -> bool:
 
     Parsed safely: at most 1 MiB, and any DTD or entity declaration is refused before parsing.
     """
+    first = _multistatus(body).find("{DAV:}response")
+    return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
+
+
+def parse_file_names(body: bytes) -> list[str]:
+    """The names of the files (not folders) a PROPFIND Depth 1 multistatus lists (RFC 4918 9.1), each
+    the last segment of its href, percent-decoded; parsed as safely as `parse_is_collection`."""
+    names = []
+    for response in _multistatus(body).findall("{DAV:}response"):
+        href = (response.findtext("{DAV:}href") or "").strip()
+        if response.find(".//{DAV:}resourcetype/{DAV:}collection") is None and href \
+                and not href.endswith("/"):
+            names.append(unquote(href.rsplit("/", 1)[-1]))
+    return sorted(names)
+
+
+def _multistatus(body: bytes) -> ET.Element:
+    """The root of a WebDAV multistatus: at most 1 MiB, no DTD or entity declarations."""
     if len(body) > MAX_XML_BYTES:
         raise ProtocolError("the office folder's answer is too large")
     lowered = body.lower()
@@ -196,5 +214,4 @@ def parse_is_collection(body: bytes) -> bool:
         raise ProtocolError("the office folder's answer is not valid WebDAV XML") from exc
     if root.tag != "{DAV:}multistatus":
         raise ProtocolError("the office folder's answer is not a WebDAV multistatus")
-    first = root.find("{DAV:}response")
-    return first is not None and first.find(".//{DAV:}resourcetype/{DAV:}collection") is not None
+    return root

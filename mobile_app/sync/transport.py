@@ -46,6 +46,9 @@ class Transport(Protocol):
     def make_folder(self, path: str) -> bool:
         """MKCOL: True if the folder was made, False if it was already there (405)."""
 
+    def files(self, path: str) -> list[str]:
+        """PROPFIND Depth 1 on a folder: the names of the files directly in it ([] if it is missing)."""
+
     def put(self, path: str, data: bytes) -> None:
         """PUT a file's bytes (replacing a file of that name)."""
 
@@ -77,6 +80,9 @@ class AsyncTransport(Protocol):
 
     async def make_folder(self, path: str) -> bool:
         """As `Transport.make_folder`."""
+
+    async def files(self, path: str) -> list[str]:
+        """As `Transport.files`."""
 
     async def put(self, path: str, data: bytes) -> None:
         """As `Transport.put`."""
@@ -110,6 +116,9 @@ class Immediate:
     async def make_folder(self, path: str) -> bool:
         return self.inner.make_folder(path)
 
+    async def files(self, path: str) -> list[str]:
+        return self.inner.files(path)
+
     async def put(self, path: str, data: bytes) -> None:
         self.inner.put(path, data)
 
@@ -135,6 +144,9 @@ class Threaded(Immediate):
 
     async def make_folder(self, path: str) -> bool:
         return await asyncio.to_thread(self.inner.make_folder, path)
+
+    async def files(self, path: str) -> list[str]:
+        return await asyncio.to_thread(self.inner.files, path)
 
     async def put(self, path: str, data: bytes) -> None:
         await asyncio.to_thread(self.inner.put, path, data)

@@ -34,6 +34,7 @@ from mobile_app.sync.target import (
     TimeLimitError,
     check_done,
     check_url,
+    parse_file_names,
     parse_is_collection,
     status_error,
 )
@@ -253,6 +254,18 @@ class WebDavTransport:
                 raise status_error(response.status_code) if response.status_code >= 300 else \
                     ProtocolError("the office address is not a WebDAV folder (no multistatus)")
             return "folder" if parse_is_collection(response.read()) else "file"
+
+    def files(self, path: str) -> list[str]:
+        with self._typed():
+            response = self.client.http.request(
+                "PROPFIND", self._url(path), content=PROPFIND_BODY,
+                headers={"Depth": "1", "Content-Type": "application/xml; charset=utf-8"})
+            if response.status_code == 404:
+                return []
+            if response.status_code != 207:
+                raise status_error(response.status_code) if response.status_code >= 300 else \
+                    ProtocolError("the office address is not a WebDAV folder (no multistatus)")
+            return parse_file_names(response.read())
 
     def make_folder(self, path: str) -> bool:
         with self._typed():

@@ -50,11 +50,17 @@ def build(shell: Any) -> ft.View:
 
     def said(text: str) -> None:
         roster_message.value = text
-        roster_message.color = ft.Colors.ERROR if text.startswith("Not ") else None
+        roster_message.color = ft.Colors.ERROR if text.startswith(("Not ", "Roster not")) else None
         firm.value = settings.firm_key_text()
         supervisors.value = settings.supervisors_text()
         for control in (roster_message, firm, supervisors):
             control.update()
+
+    async def fetch_roster(_e: Any) -> None:
+        roster_message.value = "Reading the roster in the office folder…"
+        roster_message.color = None
+        roster_message.update()
+        said(await settings.fetch_roster())
 
     supervisors = ft.Text(settings.supervisors_text(), size=14, key="supervisor-list")
     sup_name = ft.TextField(key="new-supervisor-name", label="Supervisor name")
@@ -100,8 +106,11 @@ def build(shell: Any) -> ft.View:
                    settings.get("sync_bundle_limit_s"), saver("sync_bundle_limit_s"), numeric=True),
         ft.Text("Office roster", size=20, weight=ft.FontWeight.BOLD),
         firm,
-        ft.Text("Supervisors the office enrolled sign their approvals; the office verifies them. Load "
-                "the roster the office gave you (its roster folder, or one file of it).", size=14),
+        ft.Text("Supervisors the office enrolled sign their approvals; the office verifies them. Get "
+                "the roster from the office folder (it is read again after each sync that sends), or "
+                "load the one the office gave you (its roster folder, or one file of it).", size=14),
+        ft.OutlinedButton("Get roster from the office folder", icon=ft.Icons.CLOUD_DOWNLOAD, height=48,
+                          key="fetch-roster", on_click=fetch_roster),
         roster_place,
         ft.OutlinedButton("Load roster", icon=ft.Icons.FOLDER_OPEN, height=48, key="load-roster",
                           on_click=lambda _e: said(settings.load_roster(roster_place.value or ""))),
