@@ -18,6 +18,7 @@ from typing import Any
 import pytest
 from test_e2e_walk import (
     CHROMIUM,
+    entered,
     focused_typed,
     free_port,
     open_app,
@@ -94,20 +95,7 @@ def setup(tmp_path: Path) -> Iterator[dict[str, Any]]:
 def typed(page, label: str, text: str) -> None:
     """Type into a field once it has the focus (a tap while the screen scrolls can land on another
     field), and check it holds the text."""
-    from playwright.sync_api import expect
-
-    field = page.get_by_label(label, exact=True)
-    for _ in range(3):
-        field.click()
-        try:
-            expect(field).to_be_focused(timeout=3000)
-        except AssertionError:
-            continue
-        page.keyboard.press("Control+A")
-        page.keyboard.type(text)
-        expect(field).to_have_value(text)
-        return
-    raise AssertionError(f"{label!r} never took the focus")
+    entered(page, page.get_by_label(label, exact=True), text, click=True)
 
 
 def secret(page, label: str, text: str) -> None:
@@ -116,9 +104,14 @@ def secret(page, label: str, text: str) -> None:
     from playwright.sync_api import expect
 
     field = page.get_by_label(label, exact=True)
-    for _ in range(3):
+    for _ in range(4):
         field.click()
-        expect(field).to_be_focused()
+        try:
+            expect(field).to_be_focused(timeout=3000)
+        except AssertionError:
+            page.wait_for_timeout(500)
+            continue
+        page.wait_for_timeout(250)  # Flutter takes the field over a moment after the focus (`entered`)
         page.keyboard.press("End")
         for _ in range(len(field.evaluate("e => e.value"))):
             page.keyboard.press("Backspace")

@@ -166,17 +166,24 @@ def open_job(page, title: str) -> None:
     page.get_by_role("button", name=re.compile("^" + re.escape(title))).first.click()
 
 
-def focused_typed(page, field, text: str) -> None:
-    """Focus a field (not clicked: a click can land where a field was before a scroll), type the
-    text and check the field holds it. A keystroke sent in the same instant as a programmatic focus
-    can reach the page before Flutter has taken the field over (a finger's tap cannot be that
-    quick), so the text is selected and typed again, at most three times, until it is all there."""
+def entered(page, field, text: str, click: bool = False) -> None:
+    """Give a field the focus (focused by script unless `click`: a click can land where a field was
+    before a scroll), type the text and check the field holds it.
+
+    On a loaded machine Flutter can take a field over a moment after the browser focused it: a
+    keystroke in between is lost, or the focus itself (a finger's tap is never that quick). So each
+    try waits for the focus, pauses, selects what is there and types; at most four tries until the
+    field holds the whole text."""
     from playwright.sync_api import expect
 
-    for _ in range(3):
-        field.focus()
-        expect(field).to_be_focused()
-        page.wait_for_timeout(150)
+    for _ in range(4):
+        field.click() if click else field.focus()
+        try:
+            expect(field).to_be_focused(timeout=3000)
+        except AssertionError:
+            page.wait_for_timeout(500)
+            continue
+        page.wait_for_timeout(250)
         page.keyboard.press("Control+A")
         page.keyboard.type(text)
         try:
@@ -185,6 +192,11 @@ def focused_typed(page, field, text: str) -> None:
         except AssertionError:
             continue
     expect(field).to_have_value(text)
+
+
+def focused_typed(page, field, text: str) -> None:
+    """`entered` with the field focused by script."""
+    entered(page, field, text)
 
 
 def give_reasons(page, reason: str) -> int:
