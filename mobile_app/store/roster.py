@@ -55,6 +55,12 @@ class Roster:
                              (FIRM_KEY_SETTING, public_key.hex()))
                 self.core.audit(conn, None, None, "firm", None, "key", None, public_key.hex())
 
+    def has_entry(self, data: Any) -> bool:
+        """Whether this roster entry (a dict as the office wrote it) is enrolled here as it is."""
+        wanted = json.dumps(data, sort_keys=True)
+        rows = self.core.query("SELECT roster_entry FROM people WHERE roster_entry IS NOT NULL")
+        return any(json.dumps(json.loads(row["roster_entry"]), sort_keys=True) == wanted for row in rows)
+
     def take_firm_key(self, data: Any) -> bool:
         """Pin the firm key of a `firm-key.json`'s content: True if pinned now, False if it is the one
         already pinned; TrustError for a malformed file or another firm's key."""

@@ -59,12 +59,6 @@ def _json(data: bytes | None, name: str) -> Any:
         raise ValueError(f"{name} is not JSON") from error
 
 
-def _enrolled_as(store: Any) -> set[str]:
-    """The roster entries enrolled on this device, as their stored JSON."""
-    rows = store.db.execute("SELECT roster_entry FROM people WHERE roster_entry IS NOT NULL").fetchall()
-    return {json.dumps(json.loads(row[0]), sort_keys=True) for row in rows}
-
-
 async def pull_roster(store: Any, transport: AsyncTransport) -> RosterPull:
     """Read `roster/` in the office folder and take what the pinned firm signed (module docstring).
 
@@ -80,13 +74,12 @@ async def pull_roster(store: Any, transport: AsyncTransport) -> RosterPull:
             _json(await transport.get(ROSTER_FOLDER + FIRM_KEY_FILE, MAX_FILE_BYTES), FIRM_KEY_FILE))
     except ValueError as error:  # a TrustError too: another firm's key, or not a firm key
         return RosterPull(problem=str(error))
-    known = _enrolled_as(store)
     for name in names:
         if name == FIRM_KEY_FILE or not name.endswith(".json"):
             continue
         try:
             entry = _json(await transport.get(ROSTER_FOLDER + name, MAX_FILE_BYTES), name)
-            if json.dumps(entry, sort_keys=True) in known:
+            if store.roster.has_entry(entry):
                 continue
             report.enrolled += store.roster.load([entry])
         except (ValueError, StoreError) as error:
