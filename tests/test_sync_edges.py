@@ -30,13 +30,6 @@ def dav(tmp_path):
     server.stop()
 
 
-@pytest.fixture
-def store(tmp_path):
-    opened = Store.open(tmp_path / "data")
-    yield opened
-    opened.close()
-
-
 def target_for(server: DavServer, timeout_s: float = 10.0) -> SyncTarget:
     return SyncTarget(server.url, server.user, server.password, timeout_s)
 

@@ -24,13 +24,6 @@ def dav(tmp_path):
     server.stop()
 
 
-@pytest.fixture
-def store(tmp_path):
-    opened = Store.open(tmp_path / "data")
-    yield opened
-    opened.close()
-
-
 def target_for(server: DavServer, password: str | None = None, timeout_s: float = 10.0):
     return SyncTarget(server.url, server.user, password or server.password, timeout_s)
 

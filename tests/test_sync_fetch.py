@@ -20,7 +20,6 @@ import pytest
 from sync_server import DavServer
 from test_sync_edges import T0, delivered, queue, target_for
 
-from mobile_app.store import Store
 from mobile_app.sync import (
     FetchTransport,
     OfflineError,
@@ -74,13 +73,6 @@ def dav(tmp_path):
     server = DavServer(tmp_path / "server", tmp_path / "requests.log", cors=ORIGIN)
     yield server
     server.stop()
-
-
-@pytest.fixture
-def store(tmp_path):
-    opened = Store.open(tmp_path / "data")
-    yield opened
-    opened.close()
 
 
 def fetch_transport(server: DavServer, timeout_s: float = 10.0) -> FetchTransport:

@@ -33,13 +33,6 @@ def dav(tmp_path):
     server.stop()
 
 
-@pytest.fixture
-def store(tmp_path):
-    opened = Store.open(tmp_path / "data")
-    yield opened
-    opened.close()
-
-
 def office_with(folder: Path, *names: str) -> bytes:
     """An office folder with `names` enrolled; returns the firm's public key."""
     firm_key = init_office(folder)
