@@ -25,6 +25,7 @@ from test_e2e_walk import (
     SUPERVISOR,
     fill,
     give_reasons,
+    new_job,
     open_app,
     page_fixture,  # noqa: F401 - the phone-sized page fixture
     see,
@@ -52,7 +53,7 @@ def press(page, name: str, nth: int = 0) -> None:
 def test_a_ring_final_circuit_recorded_whole_and_exported(server: str, page, tmp_path: Path) -> None:  # noqa: F811
     open_app(page, server + "/")
     see(page, "No jobs yet")
-    tap(page, "New job")
+    new_job(page)
     type_into(page, "Client reference", "E2E-REC 12 Ash Grove")
     type_into(page, "Site address", "12 Ash Grove")
     tap(page, "Create job")

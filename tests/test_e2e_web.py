@@ -35,6 +35,7 @@ from test_e2e_walk import (
     fill,
     free_port,
     give_reasons,
+    new_job,
     open_job,
     see,
     shot,
@@ -136,7 +137,7 @@ def copied_within(page, text: str, seconds: float) -> bool:
 
 def walk_one_circuit(page) -> None:
     """A new job with one B32 circuit walked to its verdict (the same walk as the server-form test)."""
-    tap(page, "New job")
+    new_job(page)
     type_into(page, "Client reference", "WEB-101 Quarry Road")
     type_into(page, "Site address", "9 Quarry Road")
     tap(page, "Create job")
